@@ -1,0 +1,26 @@
+/** Codes for every input problem the engine reports. The message always names the problem concretely. */
+export type EngineErrorCode =
+  | "not_text"
+  | "no_header"
+  | "unknown_unit"
+  | "column_missing"
+  | "column_not_numeric"
+  | "bad_map"
+  | "bad_car"
+  | "bad_options"
+  | "too_few_rows"
+  | "time_not_increasing";
+
+/** An input problem the user can fix. The CLI prints `error: <message>` and exits 2. */
+export class EngineError extends Error {
+  readonly code: EngineErrorCode;
+  constructor(code: EngineErrorCode, message: string) {
+    super(message);
+    this.name = "EngineError";
+    this.code = code;
+  }
+}
+
+export function isEngineError(e: unknown): e is EngineError {
+  return e instanceof EngineError;
+}
