@@ -1,0 +1,2 @@
+// One file per domain; each export line brings its tables into the Drizzle schema and drizzle-kit.
+export * from "./auth";

@@ -1,0 +1,45 @@
+import { randomBytes } from "node:crypto";
+import { existsSync, readFileSync } from "node:fs";
+import { z } from "zod";
+
+// The environment contract lives in DEVELOPERS.md; this is its one parser.
+const envSchema = z.object({
+  NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+  DATABASE_URL: z.string().url().default("mysql://rakeline@127.0.0.1:3307/rakeline"),
+  BETTER_AUTH_SECRET: z.string().min(32, "BETTER_AUTH_SECRET must be at least 32 characters").optional(),
+  APP_URL: z.string().url().default("http://127.0.0.1:3000"),
+  SMTP_URL: z.string().url().default("smtp://127.0.0.1:2525"),
+  MAIL_FROM: z.string().min(3).default("Rakeline <no-reply@rakeline.local>"),
+  MAIL_CATCHER_DIR: z.string().min(1).default(".data/mail"),
+  CLIENT_IP_HEADER: z.string().min(1).default("x-forwarded-for"),
+  AUTH_RATE_LIMIT: z.enum(["on", "off"]).default("on"),
+  HOST: z.string().default("127.0.0.1"),
+  PORT: z.coerce.number().int().positive().default(3000),
+});
+
+export type Env = z.infer<typeof envSchema> & { BETTER_AUTH_SECRET: string };
+
+const DEV_SECRET_FILE = ".data/secret";
+
+export function parseEnv(source: Record<string, string | undefined>): Env {
+  const cleaned = Object.fromEntries(Object.entries(source).filter(([, v]) => v !== undefined && v !== ""));
+  const result = envSchema.safeParse(cleaned);
+  if (!result.success) {
+    const lines = result.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`);
+    throw new Error(`Invalid environment:\n${lines.join("\n")}`);
+  }
+  const parsed = result.data;
+  let secret = parsed.BETTER_AUTH_SECRET;
+  if (!secret) {
+    if (parsed.NODE_ENV === "production") {
+      throw new Error("BETTER_AUTH_SECRET is required in production (at least 32 characters).");
+    }
+    // Development: the start script writes one into .data/; without it, sessions last until restart.
+    secret = existsSync(DEV_SECRET_FILE)
+      ? readFileSync(DEV_SECRET_FILE, "utf8").trim()
+      : randomBytes(32).toString("hex");
+  }
+  return { ...parsed, BETTER_AUTH_SECRET: secret };
+}
+
+export const env: Env = parseEnv(process.env);
