@@ -1,2 +1,4 @@
 // One file per domain; each export line brings its tables into the Drizzle schema and drizzle-kit.
 export * from "./auth";
+export * from "./garage";
+export * from "./sessions";
