@@ -1,8 +1,8 @@
-import nodemailer from "nodemailer";
+import nodemailer, { type Transporter } from "nodemailer";
 import { env } from "./env.server";
 
 // One SMTP transport; in development and tests SMTP_URL points at the local catcher.
-const globalForMail = globalThis as unknown as { __rakelineMail?: nodemailer.Transporter };
+const globalForMail = globalThis as unknown as { __rakelineMail?: Transporter };
 const transport = (globalForMail.__rakelineMail ??= nodemailer.createTransport(env.SMTP_URL));
 
 export type OutgoingMail = { to: string; subject: string; text: string; html: string };

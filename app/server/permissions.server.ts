@@ -1,0 +1,73 @@
+import { data } from "react-router";
+import { and, eq } from "drizzle-orm";
+import { member, organization } from "../db/schema/auth";
+import { can, isRole, type Permission, type Role } from "../lib/access";
+import { db } from "./db.server";
+import { failure, getSignedIn, type SignedIn } from "./session.server";
+
+// Statements, roles and can() are declared once in app/lib/access.ts (client-safe, so the UI can
+// hide what a role cannot do); this module is the server's single enforcement point.
+export { ac, can, isRole, roles, ROLES, ROLE_LABELS, statements } from "../lib/access";
+export type { Permission, Role } from "../lib/access";
+
+export type Team = { id: string; name: string; slug: string };
+export type MemberContext = SignedIn & { team: Team; role: Role; memberId: string };
+
+/**
+ * The signed-in user, or a thrown 401: pages are redirected to /sign-in?next=..., resource routes
+ * (/api/...) get JSON with status 401.
+ */
+export async function requireUser(request: Request): Promise<SignedIn> {
+  const signedIn = await getSignedIn(request);
+  if (!signedIn) throw failure(request, 401, "Sign in to continue.");
+  return signedIn;
+}
+
+/**
+ * The signed-in user as a member of the team named in the URL. Throws 401 (not signed in), 404
+ * (no such team, or not a member: another team's existence is not revealed), 403 (the member's role
+ * lacks `permission`).
+ */
+export async function requireMember(
+  request: Request,
+  teamSlug: string | undefined,
+  permission?: Permission,
+): Promise<MemberContext> {
+  const signedIn = await requireUser(request);
+  const notFound = () => failure(request, 404, "No such team, or you are not a member of it.");
+  if (!teamSlug) throw notFound();
+  const [row] = await db
+    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
+    .from(member)
+    .innerJoin(organization, eq(member.organizationId, organization.id))
+    .where(and(eq(organization.slug, teamSlug), eq(member.userId, signedIn.user.id)))
+    .limit(1);
+  if (!row) throw notFound();
+  const role = primaryRole(row.role);
+  if (permission && !can(role, permission)) {
+    throw failure(request, 403, "Your role in this team does not allow this.");
+  }
+  return { ...signedIn, team: { id: row.id, name: row.name, slug: row.slug }, role, memberId: row.memberId };
+}
+
+/** better-auth stores roles as a comma list; Rakeline gives each member one. Unknown → driver (least). */
+function primaryRole(stored: string): Role {
+  const first = stored.split(",").map((r) => r.trim()).find(isRole);
+  return first ?? "driver";
+}
+
+/** The teams a user belongs to, for the team switcher and the start page. */
+export async function listTeamsOf(userId: string): Promise<Array<Team & { role: Role }>> {
+  const rows = await db
+    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role })
+    .from(member)
+    .innerJoin(organization, eq(member.organizationId, organization.id))
+    .where(eq(member.userId, userId))
+    .orderBy(organization.name);
+  return rows.map((r) => ({ ...r, role: primaryRole(r.role) }));
+}
+
+/** For route actions: a thrown 400 with a message when an expected step fails. */
+export function badRequest(message: string): never {
+  throw data(message, { status: 400 });
+}
