@@ -1,0 +1,84 @@
+// Where each instance lives and the environment the app gets (see "Environment contract" in DEVELOPERS.md).
+import { randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+
+export const repoRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
+export const dataDir = path.join(repoRoot, ".data");
+
+/** The two private instances: `npm start` (dev) and `npm test` (test). Ports never overlap. */
+export const instances = {
+  dev: {
+    name: "dev",
+    datadir: path.join(dataDir, "db"),
+    dbPort: 3307,
+    database: "rakeline",
+    passwordFile: path.join(dataDir, "db-password"),
+    mailDir: path.join(dataDir, "mail"),
+    smtpPort: 2525,
+    appHost: process.env.HOST || "127.0.0.1",
+    appPort: Number(process.env.PORT || 3000),
+  },
+  test: {
+    name: "test",
+    datadir: path.join(dataDir, "test-db"),
+    dbPort: 3308,
+    database: "rakeline_test",
+    passwordFile: path.join(dataDir, "test-db-password"),
+    mailDir: path.join(dataDir, "test-mail"),
+    smtpPort: 2526,
+    appHost: "127.0.0.1",
+    appPort: 3100,
+  },
+};
+
+export const DB_USER = "rakeline";
+
+/** A value generated once and kept in a git-ignored file under .data/ (mode 0600). */
+export function readOrCreate(file, make) {
+  if (existsSync(file)) {
+    const value = readFileSync(file, "utf8").trim();
+    if (value) return value;
+  }
+  mkdirSync(path.dirname(file), { recursive: true });
+  const value = make();
+  writeFileSync(file, `${value}\n`, { mode: 0o600 });
+  return value;
+}
+
+/** Hex only, so it needs no quoting in SQL or URL escaping. */
+export const randomHex = (bytes) => randomBytes(bytes).toString("hex");
+
+export function developmentSecret(outside = process.env) {
+  if (outside.BETTER_AUTH_SECRET) return outside.BETTER_AUTH_SECRET;
+  return readOrCreate(path.join(dataDir, "secret"), () => randomHex(32));
+}
+
+function loopbackUrlHost(host) {
+  return host === "0.0.0.0" || host === "::" ? "127.0.0.1" : host;
+}
+
+/**
+ * The app's environment for an instance. For `npm start`, variables the person set (APP_URL, MAIL_FROM,
+ * CLIENT_IP_HEADER, AUTH_RATE_LIMIT, BETTER_AUTH_SECRET, HOST, PORT) win; the database and mail settings always
+ * point at the private instance. `npm test` ignores outside values so every run is the same.
+ */
+export function appEnvironment(instance, { databaseUrl }) {
+  const outside = instance.name === "dev" ? process.env : {};
+  const appUrl = outside.APP_URL || `http://${loopbackUrlHost(instance.appHost)}:${instance.appPort}`;
+  return {
+    // Not "production": the development mailbox page and development error details stay on.
+    NODE_ENV: "development",
+    DATABASE_URL: databaseUrl,
+    BETTER_AUTH_SECRET: developmentSecret(outside),
+    APP_URL: appUrl,
+    SMTP_URL: `smtp://127.0.0.1:${instance.smtpPort}`,
+    MAIL_FROM: outside.MAIL_FROM || "Rakeline <no-reply@rakeline.local>",
+    MAIL_CATCHER_DIR: instance.mailDir,
+    CLIENT_IP_HEADER: outside.CLIENT_IP_HEADER || "x-forwarded-for",
+    AUTH_RATE_LIMIT: instance.name === "test" ? "off" : outside.AUTH_RATE_LIMIT || "on",
+    HOST: instance.appHost,
+    PORT: String(instance.appPort),
+  };
+}

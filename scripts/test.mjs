@@ -1,0 +1,139 @@
+// `npm test`: provision a separate test instance (MariaDB on 3308 with a fresh rakeline_test, catcher on 2526),
+// then typecheck, vitest unit + integration, build, serve on 127.0.0.1:3100 and run the browser tests.
+// Exits non-zero when any stage fails and always stops what it started.
+import { mkdirSync, rmSync } from "node:fs";
+import path from "node:path";
+import { chromiumPackage, ensureDebianPackages, mariadbPackage } from "./lib/apt.mjs";
+import { ensureNodeModules } from "./lib/deps.mjs";
+import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
+import { startMariaDB } from "./lib/mariadb.mjs";
+import { applyMigrations } from "./lib/migrate.mjs";
+import { buildApp, serveApp } from "./lib/app-server.mjs";
+import { banner, createStack, info, packageBin, run, UserFacingError } from "./lib/proc.mjs";
+import { acquireRunLock } from "./lib/run-lock.mjs";
+
+const instance = instances.test;
+const stack = createStack();
+const results = [];
+let lock = null;
+let stopping = false;
+
+function printSummary() {
+  banner("npm test summary");
+  for (const { stage, status, seconds } of results) {
+    console.log(`  ${status.padEnd(7)} ${stage.padEnd(34)} ${seconds.toFixed(1).padStart(6)} s`);
+  }
+}
+
+async function finish(exitCode, reason) {
+  if (stopping) return;
+  stopping = true;
+  if (reason) info(reason);
+  await stack.stopAll();
+  lock?.release();
+  printSummary();
+  const failed = results.filter((r) => r.status === "FAILED").map((r) => r.stage);
+  if (exitCode !== 0 || failed.length) {
+    console.log(`\nnpm test FAILED${failed.length ? `: ${failed.join(", ")}` : ""}`);
+    process.exit(exitCode || 1);
+  }
+  console.log("\nnpm test passed");
+  process.exit(0);
+}
+
+process.on("SIGINT", () => void finish(130, "SIGINT received: stopping"));
+process.on("SIGTERM", () => void finish(143, "SIGTERM received: stopping"));
+
+/** Run one stage; returns true when it passed. A thrown UserFacingError fails the stage with its message. */
+async function stage(name, body) {
+  if (stopping) throw new UserFacingError("stopping");
+  banner(name);
+  const started = Date.now();
+  let passed = false;
+  try {
+    passed = (await body()) !== false;
+  } catch (error) {
+    if (stopping) throw error;
+    console.error(`[rakeline] ${name}: ${error instanceof UserFacingError ? error.message : error.stack}`);
+  }
+  results.push({ stage: name, status: passed ? "passed" : "FAILED", seconds: (Date.now() - started) / 1000 });
+  return passed;
+}
+
+function skip(name, why) {
+  info(`skipping ${name}: ${why}`);
+  results.push({ stage: name, status: "skipped", seconds: 0 });
+}
+
+async function node(args, env) {
+  const { code } = await run(process.execPath, args, { cwd: repoRoot, env });
+  return code === 0;
+}
+
+/** Provisioning must all succeed; a failure here stops the run. */
+async function provision() {
+  const ok = (await stage("npm dependencies", () => ensureNodeModules(repoRoot)))
+    && (await stage("Debian packages (mariadb-server, chromium)", () => ensureDebianPackages([mariadbPackage, chromiumPackage])));
+  if (!ok) return null;
+  let db = null;
+  const dbOk = await stage(`Test database (127.0.0.1:${instance.dbPort}/${instance.database}, fresh)`, async () => {
+    db = await startMariaDB(instance, { fresh: true });
+    stack.push("MariaDB (test)", db.stop);
+    lock.record("mariadbd", db.pid, instance.datadir);
+    await applyMigrations(db.url, path.join(repoRoot, "drizzle"));
+  });
+  if (!dbOk) return null;
+  const catcherOk = await stage(`Mail catcher (127.0.0.1:${instance.smtpPort}, emptied)`, async () => {
+    rmSync(instance.mailDir, { recursive: true, force: true });
+    mkdirSync(instance.mailDir, { recursive: true });
+    const { startMailCatcher } = await import("./lib/mail-catcher.mjs");
+    const catcher = await startMailCatcher({ port: instance.smtpPort, dir: instance.mailDir });
+    stack.push("mail catcher (test)", catcher.close);
+  });
+  return catcherOk ? db : null;
+}
+
+async function main() {
+  lock = await acquireRunLock("test", path.join("scripts", "test.mjs"));
+  const started = Date.now();
+  const db = await provision();
+  if (!db) return finish(1, "provisioning failed; no tests were run");
+
+  const appEnv = appEnvironment(instance, { databaseUrl: db.url });
+  // vitest sets NODE_ENV=test itself; the build must not see a non-production NODE_ENV.
+  const { NODE_ENV: _outer, ...baseEnv } = process.env;
+  const { NODE_ENV: _app, ...testEnv } = appEnv;
+  const vitestEnv = { ...baseEnv, ...testEnv };
+  const reactRouter = packageBin(repoRoot, "@react-router/dev", "react-router");
+  const tsc = packageBin(repoRoot, "typescript", "tsc");
+  const vitest = packageBin(repoRoot, "vitest", "vitest");
+
+  await stage("Typecheck (react-router typegen && tsc)", async () =>
+    (await node([reactRouter, "typegen"], baseEnv)) && (await node([tsc], baseEnv)));
+
+  await stage("Unit and integration tests (vitest run)", () => node([vitest, "run"], vitestEnv));
+
+  const built = await stage("Build (react-router build)", async () => (await buildApp(repoRoot, baseEnv)) === 0);
+
+  if (built) {
+    await stage(`Browser tests (Chromium against ${appEnv.APP_URL})`, async () => {
+      const server = await serveApp(repoRoot, appEnv);
+      stack.push("app server (test)", server.stop);
+      lock.record("app server", server.pid, "react-router-serve");
+      try {
+        return await node([vitest, "run", "--config", "vitest.e2e.config.ts"], vitestEnv);
+      } finally {
+        if (!stopping) await server.stop();
+      }
+    });
+  } else skip("Browser tests", "the build failed");
+
+  info(`all stages done in ${((Date.now() - started) / 1000).toFixed(0)} s`);
+  await finish(0);
+}
+
+main().catch((error) => {
+  if (stopping) return;
+  console.error(`\n[rakeline] npm test failed: ${error instanceof UserFacingError ? error.message : error.stack}`);
+  void finish(1);
+});
