@@ -9,10 +9,18 @@ import { summariseCornerWeights } from "./corner-weights";
 import { NOT_A_NUMBER, isUnitSystem, parseTypedNumber, toStored, type UnitSystem } from "./units";
 import { bumpStopTableProblem, parseBumpStopTable, type BumpStopPoint } from "./bump-stop";
 
+/**
+ * A form field: a missing key counts as an empty field (zod 4 otherwise reports absent keys of
+ * transform schemas as "nonoptional" before our own message can say what is missing).
+ */
+function present<T>(transform: (raw: unknown, ctx: z.RefinementCtx) => T) {
+  return z.preprocess((raw) => (raw === undefined ? "" : raw), z.unknown().transform(transform));
+}
+
 function numberField(spec: NumberFieldSpec & { required: true }, system: UnitSystem): z.ZodType<number, unknown>;
 function numberField(spec: NumberFieldSpec, system: UnitSystem): z.ZodType<number | null, unknown>;
 function numberField(spec: NumberFieldSpec, system: UnitSystem): z.ZodType<any, unknown> {
-  return z.unknown().transform((raw, ctx) => {
+  return present((raw, ctx) => {
     const typed = parseTypedNumber(raw);
     if (typed === NOT_A_NUMBER) {
       ctx.addIssue({ code: "custom", message: `${spec.label}: "${String(raw)}" is not a number.` });
@@ -35,7 +43,7 @@ function numberField(spec: NumberFieldSpec, system: UnitSystem): z.ZodType<any, 
 function textField(spec: TextFieldSpec & { required: true }): z.ZodType<string, unknown>;
 function textField(spec: TextFieldSpec): z.ZodType<string | null, unknown>;
 function textField(spec: TextFieldSpec): z.ZodType<any, unknown> {
-  return z.unknown().transform((raw, ctx) => {
+  return present((raw, ctx) => {
     const value = typeof raw === "string" ? raw.trim() : raw === undefined || raw === null ? "" : String(raw);
     if (value === "") {
       if (spec.required) ctx.addIssue({ code: "custom", message: `${spec.label} is required.` });
@@ -49,11 +57,9 @@ function textField(spec: TextFieldSpec): z.ZodType<any, unknown> {
   });
 }
 
-const checkbox = z.unknown().transform((raw) => raw === true || raw === "on" || raw === "true" || raw === "yes");
+const checkbox = present((raw) => raw === true || raw === "on" || raw === "true" || raw === "yes");
 
-export const unitSystemSchema = z
-  .unknown()
-  .transform((raw): UnitSystem => (isUnitSystem(raw) ? raw : "metric"));
+export const unitSystemSchema = present((raw): UnitSystem => (isUnitSystem(raw) ? raw : "metric"));
 
 /** Largest disagreement between the stated mass and the corner-weight sum: max(2 kg, 0.5 %). */
 export function massTolerance(statedKg: number): number {
@@ -128,12 +134,10 @@ export type CarFormValues = z.output<ReturnType<typeof carFormSchema>>;
 
 export const BUMP_STOP_KINDS = ["none", "linear", "table"] as const;
 export type BumpStopKind = (typeof BUMP_STOP_KINDS)[number];
-const bumpKind = z
-  .unknown()
-  .transform((raw): BumpStopKind => (BUMP_STOP_KINDS.includes(raw as BumpStopKind) ? (raw as BumpStopKind) : "none"));
+const bumpKind = present((raw): BumpStopKind => (BUMP_STOP_KINDS.includes(raw as BumpStopKind) ? (raw as BumpStopKind) : "none"));
 
 function bumpTable(system: UnitSystem) {
-  return z.unknown().transform((raw, ctx): BumpStopPoint[] | null => {
+  return present((raw, ctx): BumpStopPoint[] | null => {
     if (typeof raw !== "string" || raw.trim() === "") return null;
     const parsed = parseBumpStopTable(raw, system);
     if (typeof parsed === "string") {

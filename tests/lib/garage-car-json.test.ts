@@ -1,0 +1,99 @@
+import { describe, expect, it } from "vitest";
+import { existsSync, readdirSync, readFileSync } from "node:fs";
+import { carInputToText, fromCarInput, parseCarInputText, toCarInput } from "~/lib/garage/car-json";
+
+// The CAR.json contract (issue #3, app/engine/types.ts CarInput): exactly these keys, in this order.
+const CAR_FILE = `{
+  "name": "Round-trip car",
+  "wheelbase_mm": 2450,
+  "mass_kg": 621.5,
+  "static_front_weight_pct": 41.3,
+  "cog_height_mm": 420,
+  "steering_ratio": 11.5,
+  "front": {
+    "spring_rate_n_per_mm": 95.3,
+    "motion_ratio": 0.92,
+    "bump_stop": {
+      "gap_mm": 18,
+      "rate_n_per_mm": 450
+    }
+  },
+  "rear": {
+    "spring_rate_n_per_mm": 122.6,
+    "motion_ratio": 0.78
+  },
+  "static_damper_mm": {
+    "fl": 41.2,
+    "fr": 40.8,
+    "rl": 52.1,
+    "rr": 51.7
+  }
+}
+`;
+
+function roundTrip(text: string): string {
+  const parsed = parseCarInputText(text);
+  if (!parsed.ok) throw new Error(parsed.errors.join("\n"));
+  const { car, setup } = fromCarInput(parsed.car);
+  return carInputToText(toCarInput(car, setup));
+}
+
+describe("CAR.json import → export", () => {
+  it("returns the same file, byte for byte (JSON.stringify key order follows insertion, ECMA-262 §25.5.2)", () => {
+    expect(roundTrip(CAR_FILE)).toBe(CAR_FILE);
+    expect(JSON.parse(roundTrip(CAR_FILE))).toEqual(JSON.parse(CAR_FILE));
+  });
+
+  it("a file without optional parts stays without them", () => {
+    const minimal = JSON.parse(CAR_FILE);
+    delete minimal.static_damper_mm;
+    delete minimal.front.bump_stop;
+    expect(JSON.parse(roundTrip(JSON.stringify(minimal)))).toEqual(minimal);
+  });
+
+  const sampleDir = "sample-data/cars";
+  const samples = existsSync(sampleDir) ? readdirSync(sampleDir).filter((f) => f.endsWith(".json")) : [];
+  it.each(samples.length ? samples : ["(none yet)"])("the demo car file %s round-trips", (file) => {
+    if (file === "(none yet)") {
+      expect(samples).toEqual([]);
+      return;
+    }
+    const text = readFileSync(`${sampleDir}/${file}`, "utf8");
+    expect(JSON.parse(roundTrip(text))).toEqual(JSON.parse(text));
+  });
+});
+
+describe("CAR.json import errors", () => {
+  it("names an unknown key", () => {
+    const bad = { ...JSON.parse(CAR_FILE), colour: "blue" };
+    const r = parseCarInputText(JSON.stringify(bad));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors).toEqual(['unknown key "colour" (a car file holds exactly the CAR.json keys).']);
+  });
+
+  it("names a missing key and a wrong type with their paths", () => {
+    const bad = JSON.parse(CAR_FILE);
+    delete bad.cog_height_mm;
+    bad.rear.motion_ratio = "0.78";
+    const r = parseCarInputText(JSON.stringify(bad));
+    expect(r.ok).toBe(false);
+    if (!r.ok) {
+      expect(r.errors).toContain("cog_height_mm is missing.");
+      expect(r.errors).toContain("rear.motion_ratio must be a number.");
+    }
+  });
+
+  it("applies the form's plausibility ranges (a motion ratio of 7 is a typing error)", () => {
+    const bad = JSON.parse(CAR_FILE);
+    bad.front.motion_ratio = 7;
+    const r = parseCarInputText(JSON.stringify(bad));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors[0]).toMatch(/^front\.motion_ratio: A motion ratio of 7 looks like a typing error/);
+  });
+
+  it("says when the text is not JSON", () => {
+    const r = parseCarInputText("name: Marlin");
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors[0]).toMatch(/^The file is not valid JSON/);
+  });
+});
