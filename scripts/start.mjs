@@ -9,7 +9,7 @@ import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
 import { buildApp, serveApp } from "./lib/app-server.mjs";
-import { banner, createStack, info, packageBin, run, UserFacingError } from "./lib/proc.mjs";
+import { banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 
 const instance = instances.dev;
@@ -30,6 +30,7 @@ async function shutdown(exitCode, reason) {
 for (const signal of ["SIGINT", "SIGTERM", "SIGHUP"]) {
   process.on(signal, () => void shutdown(0, `${signal} received: stopping server, mail catcher and MariaDB`));
 }
+watchParent(() => void shutdown(0, "the parent process (npm) is gone: stopping server, mail catcher and MariaDB"));
 
 /** Throw when a stop was requested while a step ran, so nothing new starts during shutdown. */
 function checkNotStopping() {

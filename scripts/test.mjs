@@ -9,7 +9,7 @@ import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
 import { buildApp, serveApp } from "./lib/app-server.mjs";
-import { banner, createStack, info, packageBin, run, UserFacingError } from "./lib/proc.mjs";
+import { banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 
 const instance = instances.test;
@@ -43,6 +43,7 @@ async function finish(exitCode, reason) {
 
 process.on("SIGINT", () => void finish(130, "SIGINT received: stopping"));
 process.on("SIGTERM", () => void finish(143, "SIGTERM received: stopping"));
+watchParent(() => void finish(143, "the parent process (npm) is gone: stopping"));
 
 /** Run one stage; returns true when it passed. A thrown UserFacingError fails the stage with its message. */
 async function stage(name, body) {

@@ -201,3 +201,20 @@ export function packageBin(root, packageName, binName) {
   if (!bin) throw new UserFacingError(`${packageName} has no "${binName}" executable; run npm ci`);
   return path.join(dir, bin);
 }
+
+/**
+ * Call onGone when our parent process exits. `npm start`/`npm test` run us under npm, and npm exits on SIGTERM
+ * without passing it on; without this the services would outlive the command that was stopped.
+ */
+export function watchParent(onGone, intervalMs = 500) {
+  // Once the parent is gone our output pipe may be closed too: a failed write must not end the shutdown.
+  for (const stream of [process.stdout, process.stderr]) stream.on("error", () => {});
+  const parent = process.ppid;
+  const timer = setInterval(() => {
+    if (process.ppid !== parent || !isAlive(parent)) {
+      clearInterval(timer);
+      onGone();
+    }
+  }, intervalMs);
+  timer.unref();
+}
