@@ -1,4 +1,5 @@
-import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { ErrorView } from "./components/ui/error-view";
 import type { Route } from "./+types/root";
 import "./app.css";
 
@@ -8,10 +9,11 @@ export function Layout({ children }: { children: React.ReactNode }) {
       <head>
         <meta charSet="utf-8" />
         <meta name="viewport" content="width=device-width, initial-scale=1" />
+        <meta name="color-scheme" content="light" />
         <Meta />
         <Links />
       </head>
-      <body className="min-h-screen">
+      <body className="min-h-screen antialiased">
         {children}
         <ScrollRestoration />
         <Scripts />
@@ -25,21 +27,7 @@ export default function App() {
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  let title = "Something went wrong";
-  let detail = "An unexpected error occurred.";
-  let stack: string | undefined;
-  if (isRouteErrorResponse(error)) {
-    title = error.status === 404 ? "Not found" : `Error ${error.status}`;
-    detail = typeof error.data === "string" && error.data ? error.data : error.statusText || detail;
-  } else if (import.meta.env.DEV && error instanceof Error) {
-    detail = error.message;
-    stack = error.stack;
-  }
-  return (
-    <main className="mx-auto max-w-3xl p-8">
-      <h1 className="text-2xl font-semibold">{title}</h1>
-      <p className="mt-2 text-ink-soft">{detail}</p>
-      {stack && <pre className="mt-4 overflow-x-auto bg-rule-soft p-4 text-xs num">{stack}</pre>}
-    </main>
-  );
+  return <ErrorView error={error} />;
 }
+
+export const meta: Route.MetaFunction = () => [{ title: "Rakeline" }];

@@ -19,6 +19,13 @@ export function asFormError(error: unknown): never {
   throw error;
 }
 
+/** The message of an expected 400 refusal thrown by the functions here, or null for anything else. */
+export function refusalMessage(error: unknown): string | null {
+  const e = error as { type?: string; data?: unknown; init?: { status?: number } } | null;
+  if (e && e.type === "DataWithResponseInit" && e.init?.status === 400 && typeof e.data === "string") return e.data;
+  return null;
+}
+
 export async function slugTaken(slug: string): Promise<boolean> {
   const [row] = await db.select({ id: organization.id }).from(organization).where(eq(organization.slug, slug)).limit(1);
   return Boolean(row);
@@ -174,4 +181,16 @@ export async function answerInvitation(request: Request, id: string, accept: boo
   } catch (error) {
     asFormError(error);
   }
+}
+
+/** Where a signed-in user starts: their first team's dashboard, or team creation. */
+export async function startPathFor(userId: string): Promise<string> {
+  const [first] = await db
+    .select({ slug: organization.slug })
+    .from(member)
+    .innerJoin(organization, eq(member.organizationId, organization.id))
+    .where(eq(member.userId, userId))
+    .orderBy(asc(member.createdAt))
+    .limit(1);
+  return first ? `/t/${first.slug}` : "/teams/new";
 }

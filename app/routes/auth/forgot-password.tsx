@@ -1,0 +1,42 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import { AuthCard } from "~/components/ui/panels";
+import { Button, Field, FormAlert } from "~/components/ui/form";
+import { fieldErrors, forgotPasswordSchema } from "~/lib/auth-schemas";
+import { requestPasswordReset } from "~/server/auth-forms.server";
+import type { Route } from "./+types/forgot-password";
+
+export async function action({ request }: Route.ActionArgs) {
+  const form = Object.fromEntries(await request.formData());
+  const parsed = forgotPasswordSchema.safeParse(form);
+  if (!parsed.success) return data({ errors: fieldErrors(parsed.error), sentTo: null }, { status: 400 });
+  const result = await requestPasswordReset(request, parsed.data.email);
+  if (!result.ok) return data({ errors: { form: result.formError }, sentTo: null }, { status: result.status });
+  return { errors: {}, sentTo: parsed.data.email };
+}
+
+export default function ForgotPassword({ actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state === "submitting";
+  const errors: Record<string, string> = actionData?.errors ?? {};
+  if (actionData?.sentTo) {
+    return (
+      <AuthCard title="Check your e-mail" footer={<Link className="text-accent underline" to="/sign-in">Back to sign in</Link>}>
+        <p className="text-ink-soft">
+          If an account uses <strong className="text-ink">{actionData.sentTo}</strong>, a link to choose a new password is on its way.
+          It is valid for one hour.
+        </p>
+      </AuthCard>
+    );
+  }
+  return (
+    <AuthCard title="Reset your password" footer={<Link className="text-accent underline" to="/sign-in">Back to sign in</Link>}>
+      <Form method="post" noValidate>
+        <p className="mb-4 text-sm text-ink-soft">Enter the e-mail address of your account; we send a link to choose a new password.</p>
+        <FormAlert>{errors.form}</FormAlert>
+        <Field label="E-mail" name="email" type="email" autoComplete="email" required error={errors.email} />
+        <Button busy={busy} className="w-full">Send reset link</Button>
+      </Form>
+    </AuthCard>
+  );
+}
+
+export const meta: Route.MetaFunction = () => [{ title: "Reset password · Rakeline" }];

@@ -1,0 +1,39 @@
+import { Outlet } from "react-router";
+import { AppShell } from "~/components/ui/shell";
+import { ErrorView } from "~/components/ui/error-view";
+import { listTeamsOf, requireMember } from "~/server/permissions.server";
+import type { Route } from "./+types/layout";
+
+// The frame of every /t/:teamSlug page. Child loaders run in parallel with this one, so each of
+// them calls requireMember itself; this loader only feeds the header.
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const ctx = await requireMember(request, params.teamSlug);
+  const teams = await listTeamsOf(ctx.user.id);
+  return {
+    user: { name: ctx.user.name, email: ctx.user.email },
+    team: { ...ctx.team, role: ctx.role },
+    teams: teams.map((t) => ({ name: t.name, slug: t.slug, role: t.role })),
+  };
+}
+
+export default function TeamLayout({ loaderData }: Route.ComponentProps) {
+  const base = `/t/${loaderData.team.slug}`;
+  return (
+    <AppShell
+      user={loaderData.user}
+      teams={loaderData.teams}
+      current={loaderData.team}
+      nav={[
+        { to: base, label: "Dashboard", end: true },
+        { to: `${base}/garage`, label: "Garage" },
+        { to: `${base}/settings`, label: "Team" },
+      ]}
+    >
+      <Outlet />
+    </AppShell>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorView error={error} />;
+}

@@ -1,0 +1,198 @@
+import { data, Form, useNavigation } from "react-router";
+import { Button, Field, FormAlert, SelectField } from "~/components/ui/form";
+import { Panel } from "~/components/ui/panels";
+import { ErrorView } from "~/components/ui/error-view";
+import { fieldErrors } from "~/lib/auth-schemas";
+import { can, ROLES, ROLE_LABELS, ROLE_SUMMARIES, type Permission } from "~/lib/access";
+import { settingsActionSchema, type SettingsAction } from "~/lib/team-schemas";
+import { requireMember, type MemberContext } from "~/server/permissions.server";
+import * as teams from "~/server/teams.server";
+import type { Route } from "./+types/settings";
+
+const NEEDS: Record<SettingsAction["intent"], Permission> = {
+  rename: { team: ["update"] },
+  invite: { member: ["invite"] },
+  "change-role": { member: ["update_role"] },
+  "remove-member": { member: ["remove"] },
+  "revoke-invitation": { member: ["invite"] },
+};
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const ctx = await requireMember(request, params.teamSlug);
+  const canInvite = can(ctx.role, { member: ["invite"] });
+  const [members, invitations] = await Promise.all([
+    teams.listMembers(ctx.team.id),
+    canInvite ? teams.listPendingInvitations(ctx.team.id) : Promise.resolve([]),
+  ]);
+  return {
+    team: ctx.team,
+    role: ctx.role,
+    me: ctx.user.id,
+    members: members.map((m) => ({ ...m, joinedAt: m.joinedAt.toISOString() })),
+    invitations: invitations.map((i) => ({ ...i, expiresAt: i.expiresAt.toISOString() })),
+    allowed: {
+      rename: can(ctx.role, NEEDS.rename),
+      invite: canInvite,
+      changeRole: can(ctx.role, NEEDS["change-role"]),
+      remove: can(ctx.role, NEEDS["remove-member"]),
+    },
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const form = Object.fromEntries(await request.formData());
+  const intent = String(form.intent ?? "");
+  const needed = NEEDS[intent as SettingsAction["intent"]];
+  // The role is checked before the input, so a refused user learns nothing from validation.
+  const ctx = await requireMember(request, params.teamSlug, needed ?? { team: ["update"] });
+  const parsed = settingsActionSchema.safeParse(form);
+  if (!parsed.success) return data({ intent, errors: fieldErrors(parsed.error), done: null }, { status: 400 });
+  try {
+    return await perform(request, ctx, parsed.data);
+  } catch (error) {
+    const refusal = teams.refusalMessage(error);
+    if (refusal) return data({ intent, errors: { form: refusal }, done: null }, { status: 400 });
+    throw error;
+  }
+}
+
+async function perform(request: Request, ctx: MemberContext, input: SettingsAction) {
+  const intent = input.intent;
+  switch (input.intent) {
+    case "rename":
+      await teams.renameTeam(request, ctx, input.name);
+      return { intent, errors: {}, done: "Team renamed." };
+    case "invite":
+      await teams.inviteToTeam(request, ctx, input.email, input.role);
+      return { intent, errors: {}, done: `Invitation sent to ${input.email}.` };
+    case "change-role":
+      await teams.changeMemberRole(request, ctx, input.memberId, input.role);
+      return { intent, errors: {}, done: "Role changed." };
+    case "remove-member":
+      await teams.removeFromTeam(request, ctx, input.memberId);
+      return { intent, errors: {}, done: "Member removed." };
+    case "revoke-invitation":
+      await teams.revokeInvitation(request, ctx, input.invitationId);
+      return { intent, errors: {}, done: "Invitation revoked." };
+  }
+}
+
+const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }));
+const dateFmt = (iso: string) => iso.slice(0, 10);
+
+export default function TeamSettings({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state === "submitting";
+  const { team, members, invitations, allowed, me } = loaderData;
+  const errorsFor = (intent: string): Record<string, string> => (actionData?.intent === intent ? actionData.errors : {});
+  return (
+    <div className="space-y-5">
+      <h1 className="text-2xl font-semibold">Team · {team.name}</h1>
+      {actionData?.done && <FormAlert tone="info">{actionData.done}</FormAlert>}
+      <FormAlert>{(actionData?.errors as Record<string, string> | undefined)?.form}</FormAlert>
+
+      {allowed.rename && (
+        <Panel title="Name">
+          <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
+            <input type="hidden" name="intent" value="rename" />
+            <Field label="Team name" name="name" defaultValue={team.name} error={errorsFor("rename").name} className="min-w-64 flex-1" />
+            <Button busy={busy} variant="quiet" className="mb-[2px]">Rename</Button>
+          </Form>
+          <p className="mt-2 text-sm text-ink-faint">The address <span className="num">/t/{team.slug}</span> stays the same, so shared links keep working.</p>
+        </Panel>
+      )}
+
+      <Panel title={<>Members <span className="num text-sm font-normal text-ink-faint">({members.length})</span></>}>
+        <div className="overflow-x-auto">
+          <table className="w-full text-sm">
+            <thead className="text-left text-ink-faint">
+              <tr className="border-b border-rule-soft">
+                <th className="py-1.5 pr-3 font-medium">Name</th>
+                <th className="py-1.5 pr-3 font-medium">E-mail</th>
+                <th className="py-1.5 pr-3 font-medium">Role</th>
+                <th className="py-1.5 pr-3 text-right font-medium">Joined</th>
+                {(allowed.changeRole || allowed.remove) && <th className="py-1.5 font-medium"><span className="sr-only">Actions</span></th>}
+              </tr>
+            </thead>
+            <tbody>
+              {members.map((m) => (
+                <tr key={m.memberId} className="border-b border-rule-soft align-middle">
+                  <td className="py-1.5 pr-3">{m.name}{m.userId === me && <span className="text-ink-faint"> (you)</span>}</td>
+                  <td className="py-1.5 pr-3 text-ink-soft">{m.email}</td>
+                  <td className="py-1.5 pr-3">
+                    {allowed.changeRole ? (
+                      <Form method="post" className="flex items-center gap-2">
+                        <input type="hidden" name="intent" value="change-role" />
+                        <input type="hidden" name="memberId" value={m.memberId} />
+                        <label className="sr-only" htmlFor={`role-${m.memberId}`}>Role of {m.name}</label>
+                        <select id={`role-${m.memberId}`} name="role" defaultValue={m.role} className="rounded border border-rule bg-panel px-2 py-1">
+                          {roleOptions.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
+                        </select>
+                        <Button variant="quiet" busy={busy} className="!px-2 !py-1">Save</Button>
+                      </Form>
+                    ) : (
+                      ROLE_LABELS[m.role]
+                    )}
+                  </td>
+                  <td className="num py-1.5 pr-3 text-right">{dateFmt(m.joinedAt)}</td>
+                  {(allowed.changeRole || allowed.remove) && (
+                    <td className="py-1.5 text-right">
+                      {allowed.remove && m.userId !== me && (
+                        <Form method="post">
+                          <input type="hidden" name="intent" value="remove-member" />
+                          <input type="hidden" name="memberId" value={m.memberId} />
+                          <Button variant="danger" busy={busy} className="!px-2 !py-1">Remove</Button>
+                        </Form>
+                      )}
+                    </td>
+                  )}
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+        <dl className="mt-3 grid gap-x-4 gap-y-1 text-xs text-ink-soft sm:grid-cols-[auto_1fr]">
+          {ROLES.map((r) => (
+            <div key={r} className="contents">
+              <dt className="font-semibold text-ink">{ROLE_LABELS[r]}</dt>
+              <dd>{ROLE_SUMMARIES[r]}</dd>
+            </div>
+          ))}
+        </dl>
+      </Panel>
+
+      {allowed.invite && (
+        <Panel title="Invite by e-mail">
+          <Form method="post" className="flex flex-wrap items-start gap-3" noValidate>
+            <input type="hidden" name="intent" value="invite" />
+            <Field label="E-mail" name="email" type="email" error={errorsFor("invite").email} className="min-w-64 flex-1" />
+            <SelectField label="Role" name="role" options={roleOptions} defaultValue="analyst" error={errorsFor("invite").role} className="w-40" />
+            <Button busy={busy} className="mt-6">Send invitation</Button>
+          </Form>
+          <h3 className="mt-4 text-sm font-semibold">Pending invitations</h3>
+          {invitations.length === 0 ? (
+            <p className="mt-1 text-sm text-ink-faint">None. Invitations are valid for 7 days.</p>
+          ) : (
+            <ul className="mt-1 divide-y divide-rule-soft text-sm">
+              {invitations.map((inv) => (
+                <li key={inv.id} className="flex flex-wrap items-center justify-between gap-2 py-1.5">
+                  <span>{inv.email} <span className="text-ink-faint">as {ROLE_LABELS[inv.role]} · until <span className="num">{dateFmt(inv.expiresAt)}</span></span></span>
+                  <Form method="post">
+                    <input type="hidden" name="intent" value="revoke-invitation" />
+                    <input type="hidden" name="invitationId" value={inv.id} />
+                    <Button variant="danger" busy={busy} className="!px-2 !py-1">Revoke</Button>
+                  </Form>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Panel>
+      )}
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorView error={error} />;
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Team settings · ${data?.team.name ?? "Team"} · Rakeline` }];

@@ -1,0 +1,109 @@
+import { redirect } from "react-router";
+import { auth } from "./auth.server";
+import { withAuthCookies } from "./session.server";
+
+// The sign-in family of forms, over better-auth's server API. Each answer is either a redirect that
+// carries better-auth's cookies, or a specific message for the form.
+
+type AuthFailure = { status: number; code: string; message: string };
+export type FormResult = { ok: true; response: Response } | { ok: false; formError: string; status: number };
+
+async function failureOf(response: Response): Promise<AuthFailure> {
+  const body = (await response.json().catch(() => ({}))) as { code?: string; message?: string };
+  return { status: response.status, code: body.code ?? "", message: body.message ?? response.statusText };
+}
+
+const TOO_MANY = "Too many attempts from here. Wait a minute, then try again.";
+
+/** Messages for what better-auth refuses, in our words; never the same text for different causes. */
+function describe(f: AuthFailure): string {
+  if (f.status === 429) return TOO_MANY;
+  switch (f.code) {
+    case "INVALID_EMAIL_OR_PASSWORD":
+      return "Wrong password, or no account uses this e-mail address. Check both, or reset your password.";
+    case "EMAIL_NOT_VERIFIED":
+      return "This e-mail address is not confirmed yet. We have sent a new confirmation link to it: open it, then sign in.";
+    case "INVALID_PASSWORD":
+      return "The current password is wrong.";
+    case "PASSWORD_TOO_SHORT":
+      return "The password is too short.";
+    case "PASSWORD_TOO_LONG":
+      return "The password is too long.";
+    case "INVALID_TOKEN":
+      return "This reset link is invalid or has expired. Request a new one.";
+    case "INVALID_EMAIL":
+      return "That is not a valid e-mail address.";
+    default:
+      return f.message || "The request was refused.";
+  }
+}
+
+export function verifyCallback(next: string | undefined): string {
+  return next ? `/verify?next=${encodeURIComponent(next)}` : "/verify";
+}
+
+export async function signUp(request: Request, input: { name: string; email: string; password: string; next?: string }): Promise<FormResult> {
+  const response = await auth.api.signUpEmail({
+    body: { name: input.name, email: input.email, password: input.password, callbackURL: verifyCallback(input.next) },
+    headers: request.headers,
+    asResponse: true,
+  });
+  if (!response.ok) {
+    const f = await failureOf(response);
+    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
+  }
+  return { ok: true, response };
+}
+
+export async function signIn(request: Request, input: { email: string; password: string }, next: string): Promise<FormResult> {
+  const response = await auth.api.signInEmail({
+    body: { email: input.email, password: input.password, callbackURL: verifyCallback(next) },
+    headers: request.headers,
+    asResponse: true,
+  });
+  if (!response.ok) {
+    const f = await failureOf(response);
+    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
+  }
+  return { ok: true, response: withAuthCookies(response, redirect(next)) };
+}
+
+export async function signOut(request: Request): Promise<Response> {
+  const response = await auth.api.signOut({ headers: request.headers, asResponse: true });
+  return withAuthCookies(response, redirect("/"));
+}
+
+export async function requestPasswordReset(request: Request, email: string): Promise<FormResult> {
+  const response = await auth.api.requestPasswordReset({ body: { email, redirectTo: "/reset-password" }, headers: request.headers, asResponse: true });
+  if (!response.ok) {
+    const f = await failureOf(response);
+    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
+  }
+  return { ok: true, response };
+}
+
+export async function resetPassword(request: Request, token: string, newPassword: string): Promise<FormResult> {
+  const response = await auth.api.resetPassword({ body: { token, newPassword }, headers: request.headers, asResponse: true });
+  if (!response.ok) {
+    const f = await failureOf(response);
+    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
+  }
+  return { ok: true, response: redirect("/sign-in?reset=1") };
+}
+
+export async function changePassword(request: Request, currentPassword: string, newPassword: string): Promise<FormResult> {
+  const response = await auth.api.changePassword({
+    body: { currentPassword, newPassword, revokeOtherSessions: true },
+    headers: request.headers,
+    asResponse: true,
+  });
+  if (!response.ok) {
+    const f = await failureOf(response);
+    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
+  }
+  return { ok: true, response };
+}
+
+export async function updateName(request: Request, name: string): Promise<void> {
+  await auth.api.updateUser({ body: { name }, headers: request.headers });
+}
