@@ -9,7 +9,7 @@ import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
 import { buildApp, serveApp } from "./lib/app-server.mjs";
-import { banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
+import { assertPortFree, banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 
 const instance = instances.dev;
@@ -51,6 +51,9 @@ async function seedDemo(env) {
 async function main() {
   lock = await acquireRunLock("start", path.join("scripts", "start.mjs"));
   banner("Rakeline: npm start");
+  // Fail in the first second, not after the install and build, when a port is taken.
+  await assertPortFree(instance.appHost, instance.appPort, "Another app server may be running; stop it or set PORT to another port.");
+  await assertPortFree("127.0.0.1", instance.smtpPort, "Another mail catcher (or npm start) may be running; stop it first.");
   await ensureNodeModules(repoRoot);
   checkNotStopping();
   await ensureDebianPackages([mariadbPackage]);
@@ -92,7 +95,7 @@ async function main() {
   banner(`Serve (react-router-serve on ${env.HOST}:${env.PORT})`);
   const server = await serveApp(repoRoot, env);
   stack.push("app server", server.stop);
-  lock.record("app server", server.pid, "react-router-serve");
+  lock.record("app server", server.pid, "@react-router/serve/bin.js");
   server.exited.then(({ code, signal }) => {
     if (!stopping) void shutdown(1, `the app server exited on its own (code ${code}, signal ${signal}); stopping the rest`);
   });

@@ -9,7 +9,7 @@ import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
 import { buildApp, serveApp } from "./lib/app-server.mjs";
-import { banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
+import { assertPortFree, banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 
 const instance = instances.test;
@@ -97,6 +97,11 @@ async function provision() {
 async function main() {
   lock = await acquireRunLock("test", path.join("scripts", "test.mjs"));
   const started = Date.now();
+  const portsFree = await stage("Ports free (3100 app, 2526 mail)", async () => {
+    await assertPortFree(instance.appHost, instance.appPort, "Another npm test may be serving there; stop it first.");
+    await assertPortFree("127.0.0.1", instance.smtpPort, "Another npm test may be running its mail catcher; stop it first.");
+  });
+  if (!portsFree) return finish(1, "a port npm test needs is taken");
   const db = await provision();
   if (!db) return finish(1, "provisioning failed; no tests were run");
 
@@ -120,7 +125,7 @@ async function main() {
     await stage(`Browser tests (Chromium against ${appEnv.APP_URL})`, async () => {
       const server = await serveApp(repoRoot, appEnv);
       stack.push("app server (test)", server.stop);
-      lock.record("app server", server.pid, "react-router-serve");
+      lock.record("app server", server.pid, "@react-router/serve/bin.js");
       try {
         return await node([vitest, "run", "--config", "vitest.e2e.config.ts"], vitestEnv);
       } finally {
