@@ -9,7 +9,8 @@ export type EngineErrorCode =
   | "bad_car"
   | "bad_options"
   | "too_few_rows"
-  | "time_not_increasing";
+  | "time_not_increasing"
+  | "bad_quote";
 
 /** An input problem the user can fix. The CLI prints `error: <message>` and exits 2. */
 export class EngineError extends Error {

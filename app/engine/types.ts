@@ -57,3 +57,41 @@ export interface CarInput {
   rear: AxleSpringInput;
   static_damper_mm?: { fl: number; fr: number; rl: number; rr: number };
 }
+
+/** Field delimiters the parser detects. */
+export type LogDelimiter = "," | ";" | "\t";
+
+/** What the parser found at the top of a log export (from its first chunk). */
+export interface LogHeader {
+  /** Column headers exactly as in the file (quotes removed, surrounding spaces trimmed). */
+  columns: string[];
+  /** Unit per column from the units row or from the header text (`Speed [km/h]`), else null. */
+  units: (string | null)[];
+  /** Key/value lines the logger wrote before the header (session, date, car…). */
+  metadata: Record<string, string>;
+  delimiter: LogDelimiter;
+  decimalComma: boolean;
+  /** Columns whose cells are numbers (in file order). */
+  numericColumns: string[];
+  /** Columns with text cells; listed and never parsed. */
+  skippedColumns: string[];
+  /** True when a units row sits under the header. */
+  unitsRow: boolean;
+  /** True when the file starts with a UTF-8 byte-order mark. */
+  bom: boolean;
+  lineEnding: "lf" | "crlf";
+  /** 1-based line number of the header in the file. */
+  headerLine: number;
+  /** Plain-language remarks for the mapping screen (duplicate names renamed, dialect found…). */
+  notes: string[];
+}
+
+/**
+ * One block of parsed rows. Arrays are in the engine's units (see top of file), invert applied,
+ * NaN = dropout. Each array has exactly `rows` elements; they may be views of buffers reused for
+ * the next block, so a consumer must copy anything it keeps.
+ */
+export interface ChannelBlock {
+  rows: number;
+  channels: { [K in ChannelName]?: Float64Array };
+}

@@ -1,0 +1,185 @@
+/**
+ * Channel maps: proposing one from a file's header (for the mapping screen to confirm) and
+ * validating one against the header before a parse.
+ */
+import { z } from "zod";
+import { EngineError } from "./errors";
+import { ALL_CHANNELS, REQUIRED_CHANNELS } from "./types";
+import type { ChannelMap, ChannelMapEntry, ChannelName, LogHeader } from "./types";
+import { CHANNEL_KIND, allowedUnits, canonicalUnit, unitFactor } from "./units";
+import type { ChannelKind } from "./units";
+
+const entrySchema = z
+  .object({
+    column: z.string().min(1, "column must name a column of the file"),
+    unit: z.string().min(1, "unit must not be empty"),
+    invert: z.boolean().optional(),
+  })
+  .strict();
+
+const listColumns = (header: LogHeader) => header.columns.map((c) => `"${c}"`).join(", ");
+
+/** Checks a map (parsed MAP.json or the mapping form) against the file's header. */
+export function validateChannelMap(map: unknown, header: LogHeader): ChannelMap {
+  if (typeof map !== "object" || map === null || Array.isArray(map)) {
+    throw new EngineError("bad_map", "the channel map must be an object with one entry per channel, e.g. {\"time\": {\"column\": \"Time\", \"unit\": \"s\"}, …}");
+  }
+  const known = new Set<string>(ALL_CHANNELS);
+  const unknown = Object.keys(map).filter((k) => !known.has(k));
+  if (unknown.length) {
+    throw new EngineError("bad_map", `the channel map names unknown channels: ${unknown.join(", ")}; channels are ${ALL_CHANNELS.join(", ")}`);
+  }
+  const record = map as Record<string, unknown>;
+  const missing = REQUIRED_CHANNELS.filter((c) => record[c] === undefined);
+  if (missing.length) {
+    throw new EngineError("bad_map", `the channel map has no entry for ${missing.join(", ")} (required: ${REQUIRED_CHANNELS.join(", ")})`);
+  }
+  const out: Partial<Record<ChannelName, ChannelMapEntry>> = {};
+  const usedBy = new Map<string, ChannelName>();
+  for (const channel of ALL_CHANNELS) {
+    if (record[channel] === undefined) continue;
+    const parsed = entrySchema.safeParse(record[channel]);
+    if (!parsed.success) {
+      const issue = parsed.error.issues[0];
+      const where = issue.path.length ? `${channel}.${issue.path.join(".")}` : channel;
+      throw new EngineError("bad_map", `channel map entry ${where}: ${issue.message}`);
+    }
+    const entry = parsed.data;
+    const kind = CHANNEL_KIND[channel];
+    if (unitFactor(kind, entry.unit) === null) {
+      throw new EngineError("unknown_unit", `unit "${entry.unit}" for ${channel} is not one Rakeline reads; use one of ${allowedUnits(kind).join(", ")}`);
+    }
+    if (!header.columns.includes(entry.column)) {
+      throw new EngineError("column_missing", `column "${entry.column}" mapped to ${channel} is not in the file; its columns are ${listColumns(header)}`);
+    }
+    if (header.skippedColumns.includes(entry.column)) {
+      throw new EngineError("column_not_numeric", `column "${entry.column}" mapped to ${channel} holds text, not numbers; numeric columns are ${header.numericColumns.map((c) => `"${c}"`).join(", ")}`);
+    }
+    const other = usedBy.get(entry.column);
+    if (other) {
+      throw new EngineError("bad_map", `column "${entry.column}" is mapped to both ${other} and ${channel}; each channel needs its own column`);
+    }
+    usedBy.set(entry.column, channel);
+    out[channel] = { column: entry.column, unit: canonicalUnit(entry.unit), ...(entry.invert ? { invert: true } : {}) };
+  }
+  return out as ChannelMap;
+}
+
+const DEFAULT_UNIT: Record<ChannelKind, string> = {
+  time: "s",
+  speed: "km/h",
+  acceleration: "g",
+  steer: "deg",
+  damper: "mm",
+  ride_height: "mm",
+  yaw_rate: "deg/s",
+};
+
+/** Header text lower-cased, unit suffix dropped, separators as single spaces. */
+export function normaliseName(name: string): string {
+  return name
+    .replace(/[[(][^\])]*[\])]\s*$/, "")
+    .toLowerCase()
+    .replace(/[_\-./:]+/g, " ")
+    .replace(/([a-z])([0-9])/g, "$1 $2")
+    .replace(/\s+/g, " ")
+    .trim();
+}
+
+const CORNERS: [RegExp, "fl" | "fr" | "rl" | "rr"][] = [
+  [/\b(fl|lf)\b|front left|left front/, "fl"],
+  [/\b(fr|rf)\b|front right|right front/, "fr"],
+  [/\b(rl|lr)\b|rear left|left rear/, "rl"],
+  [/\brr\b|rear right|right rear/, "rr"],
+];
+
+function cornerOf(n: string): "fl" | "fr" | "rl" | "rr" | null {
+  for (const [re, c] of CORNERS) if (re.test(n)) return c;
+  return null;
+}
+
+const ACCEL_WORD = /\b(g|gs|acc|accel|acceleration|force)\b/;
+
+/** How strongly a normalised column name suggests a channel (0 = not at all). */
+function nameScore(channel: ChannelName, n: string): number {
+  switch (channel) {
+    case "time":
+      if (/\b(lap|date|delta|split|sector)\b/.test(n)) return 0;
+      if (n === "time") return 100;
+      if (/^(elapsed|session|log|run|logger|relative)( time)?$|^(time|elapsed) (s|sec|secs|seconds|ms)$/.test(n)) return 90;
+      if (/^timestamp|^time stamp/.test(n)) return 70;
+      if (n === "t" || n === "seconds") return 60;
+      return /\btime\b/.test(n) ? 30 : 0;
+    case "speed":
+      if (/\b(engine|rpm|fan|wind|shaft|pump|steer|steering|yaw)\b/.test(n)) return 0;
+      if (/\bwheel\b/.test(n)) return 20;
+      if (/^(speed|vehicle speed|car speed|ground speed|road speed|v car|vcar)$/.test(n)) return 100;
+      if (/\bgps\b.*\bspeed\b|\bspeed\b.*\bgps\b/.test(n)) return 80;
+      if (/\bspeed\b|\bvelocity\b/.test(n)) return 60;
+      return 0;
+    case "lat_accel":
+      if (/^(ay|a y|acc y|accel y|g y)$/.test(n)) return 80;
+      return /\blat(eral)?\b/.test(n) && ACCEL_WORD.test(n) ? 100 : /\blateral\b/.test(n) ? 60 : 0;
+    case "long_accel":
+      if (/^(ax|a x|acc x|accel x|g x)$/.test(n)) return 80;
+      return /\b(long|lon|longitudinal|inline)\b/.test(n) && ACCEL_WORD.test(n) ? 100 : /\blongitudinal\b/.test(n) ? 60 : 0;
+    case "steer":
+      if (/\b(rate|speed|torque|velocity)\b/.test(n)) return 0;
+      if (/\bsteer(ing)?\b/.test(n)) return 100;
+      return n === "swa" ? 80 : 0;
+    case "damper_fl":
+    case "damper_fr":
+    case "damper_rl":
+    case "damper_rr": {
+      if (!/\b(damper|dampers|shock|susp|suspension|travel|pot|strut)\b/.test(n)) return 0;
+      if (/\b(speed|velocity|vel|rate|force|temp|pressure)\b/.test(n)) return 0;
+      return cornerOf(n) === channel.slice(7) ? 100 : 0;
+    }
+    case "ride_height_front":
+    case "ride_height_rear": {
+      if (!/\b(ride height|ride ht|rh|ride)\b/.test(n)) return 0;
+      const front = /\b(front|f)\b/.test(n);
+      const rear = /\b(rear|r)\b/.test(n);
+      return (channel === "ride_height_front" ? front && !rear : rear && !front) ? 100 : 0;
+    }
+    case "yaw_rate":
+      if (/\byaw ?rate\b|\byaw (velocity|vel)\b|\bgyro z\b/.test(n)) return 100;
+      return /\byaw\b/.test(n) ? 60 : 0;
+  }
+}
+
+/** Proposes a channel map from the header's names and units, with notes for the user to check. */
+export function suggestChannelMap(header: LogHeader): { map: Partial<ChannelMap>; notes: string[] } {
+  const candidates: { channel: ChannelName; col: number; score: number }[] = [];
+  header.columns.forEach((name, col) => {
+    if (!header.numericColumns.includes(name)) return;
+    const n = normaliseName(name);
+    const unit = header.units[col];
+    for (const channel of ALL_CHANNELS) {
+      let score = nameScore(channel, n);
+      if (score === 0) continue;
+      if (unit) score += unitFactor(CHANNEL_KIND[channel], unit) !== null ? 10 : -50;
+      if (score > 0) candidates.push({ channel, col, score });
+    }
+  });
+  candidates.sort((a, b) => b.score - a.score || a.col - b.col);
+  const map: Partial<Record<ChannelName, ChannelMapEntry>> = {};
+  const usedCols = new Set<number>();
+  const notes: string[] = [];
+  for (const { channel, col } of candidates) {
+    if (map[channel] || usedCols.has(col)) continue;
+    usedCols.add(col);
+    const kind = CHANNEL_KIND[channel];
+    const fileUnit = header.units[col];
+    const column = header.columns[col];
+    let unit = DEFAULT_UNIT[kind];
+    if (fileUnit && unitFactor(kind, fileUnit) !== null) unit = canonicalUnit(fileUnit);
+    else if (fileUnit) notes.push(`${channel}: "${column}" is in "${fileUnit}", which Rakeline cannot read for ${channel}; choose one of ${allowedUnits(kind).join(", ")}`);
+    else notes.push(`${channel}: "${column}" has no unit in the file; ${unit} assumed — confirm`);
+    map[channel] = { column, unit };
+  }
+  const missing = REQUIRED_CHANNELS.filter((c) => !map[c]);
+  if (missing.length) notes.push(`no column found for ${missing.join(", ")}; choose them by hand`);
+  notes.push("check each channel's sign convention (damper compression positive); set invert where the logger uses the other sign");
+  return { map: map as Partial<ChannelMap>, notes };
+}
