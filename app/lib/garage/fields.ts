@@ -59,22 +59,22 @@ export function rangeProblem(spec: NumberFieldSpec, stored: number, system: Unit
   );
 }
 
-const motionRatio = (axle: string): NumberFieldSpec => ({
+const motionRatio = (axle: string): NumberFieldSpec & { required: true } => ({
   kind: "number",
   label: `${axle} motion ratio`,
   quantity: "ratio",
-  min: 0.2,
+  min: 0.3,
   max: 1.5,
   required: true,
   hint: "MR = damper travel / wheel travel (installation angle included); wheel rate = spring rate × MR².",
   explain: (mr) => {
-    if (mr >= 0.2 && mr <= 1.5) return undefined;
+    if (mr >= 0.3 && mr <= 1.5) return undefined;
     const inverse = 1 / mr;
     const flip =
-      mr > 0 && inverse >= 0.2 && inverse <= 1.5
+      mr > 0 && inverse >= 0.3 && inverse <= 1.5
         ? ` If you measured wheel travel per damper travel, enter its inverse, 1/${trimNumber(mr, 3)} = ${trimNumber(inverse, 3)}.`
         : "";
-    return `A motion ratio of ${trimNumber(mr)} looks like a typing error: MR = damper travel / wheel travel, normally 0.3–1.2 (accepted 0.2–1.5).${flip}`;
+    return `A motion ratio of ${trimNumber(mr)} looks like a typing error: MR = damper travel / wheel travel, normally 0.4–1.2 (accepted 0.3–1.5).${flip}`;
   },
 });
 
@@ -99,12 +99,8 @@ const cornerWeight = (corner: string): NumberFieldSpec => ({
   max: 1000,
 });
 
-const text = (label: string, maxLength: number, extra: Partial<TextFieldSpec> = {}): TextFieldSpec => ({
-  kind: "text",
-  label,
-  maxLength,
-  ...extra,
-});
+const text = <const E extends Partial<TextFieldSpec>>(label: string, maxLength: number, extra?: E): TextFieldSpec & E =>
+  ({ kind: "text", label, maxLength, ...extra }) as TextFieldSpec & E;
 
 export const CAR_FIELDS = {
   name: text("Name", 80, { required: true }),

@@ -7,7 +7,7 @@ import { z } from "zod";
 import { CAR_FIELDS, SETUP_FIELDS, describeValue, rangeProblem, type NumberFieldSpec, type TextFieldSpec } from "./fields";
 import { summariseCornerWeights } from "./corner-weights";
 import { NOT_A_NUMBER, isUnitSystem, parseTypedNumber, toStored, type UnitSystem } from "./units";
-import { bumpStopTableProblem, parseBumpStopTable, type BumpStopPoint } from "./bump-stop";
+import { bumpStopTableProblem, linearRateFromTable, parseBumpStopTable, type BumpStopPoint } from "./bump-stop";
 
 /**
  * A form field: a missing key counts as an empty field (zod 4 otherwise reports absent keys of
@@ -194,7 +194,13 @@ export function setupFormSchema(system: UnitSystem) {
           ctx.addIssue({ code: "custom", path: [`${axle}BumpStopGapMm`], message: `${label} bump stop: enter the gap from static to contact.` });
         if (kind === "linear" && s[`${axle}BumpStopRateNPerMm`] === null)
           ctx.addIssue({ code: "custom", path: [`${axle}BumpStopRateNPerMm`], message: `${label} bump stop: enter its rate at the damper, or choose "table".` });
-        if (kind === "table" && s[`${axle}BumpStopTable`] === null)
+        const table = s[`${axle}BumpStopTable`];
+        if (kind === "table" && table) {
+          const rate = linearRateFromTable(table);
+          if (rate < 1 || rate > 20000)
+            ctx.addIssue({ code: "custom", path: [`${axle}BumpStopTable`], message: `${label} bump-stop table fits a rate of ${rate.toFixed(0)} N/mm at the damper; expected 1–20000 N/mm. Check the units of the rows.` });
+        }
+        if (kind === "table" && table === null)
           ctx.addIssue({ code: "custom", path: [`${axle}BumpStopTable`], message: `${label} bump stop: enter the force/deflection table, one "deflection force" pair per line.` });
       }
       const dampers = ["staticDamperFlMm", "staticDamperFrMm", "staticDamperRlMm", "staticDamperRrMm"] as const;

@@ -1,4 +1,5 @@
 import { seedUsers } from "./users.server";
+import { seedGarage } from "./garage.server";
 
 /**
  * Seeds the invented demo scenario. Idempotent: safe on every start; it only inserts what is
@@ -7,4 +8,5 @@ import { seedUsers } from "./users.server";
  */
 export async function seedDemo(): Promise<void> {
   await seedUsers();
+  await seedGarage();
 }
