@@ -21,7 +21,7 @@ let stopping = false;
 function printSummary() {
   banner("npm test summary");
   for (const { stage, status, seconds } of results) {
-    console.log(`  ${status.padEnd(7)} ${stage.padEnd(34)} ${seconds.toFixed(1).padStart(6)} s`);
+    console.log(`  ${status.padEnd(7)} ${stage.padEnd(58)} ${seconds.toFixed(1).padStart(6)} s`);
   }
 }
 
