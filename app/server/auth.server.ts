@@ -42,6 +42,9 @@ export const auth = betterAuth({
   rateLimit: { enabled: env.AUTH_RATE_LIMIT === "on", window: 60, max: 100 },
   advanced: {
     ipAddress: { ipAddressHeaders: [env.CLIENT_IP_HEADER] },
+    // better-auth turns its Origin/CSRF checks off under test runners by default; keep them on everywhere.
+    disableOriginCheck: false,
+    disableCSRFCheck: false,
     useSecureCookies: appUrl.startsWith("https://"),
     defaultCookieAttributes: { httpOnly: true, sameSite: "lax" },
   },
