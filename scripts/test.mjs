@@ -33,6 +33,10 @@ async function finish(exitCode, reason) {
   lock?.release();
   printSummary();
   const failed = results.filter((r) => r.status === "FAILED").map((r) => r.stage);
+  if (exitCode === 130 || exitCode === 143) {
+    console.log("\nnpm test was stopped before it finished");
+    process.exit(exitCode);
+  }
   if (exitCode !== 0 || failed.length) {
     console.log(`\nnpm test FAILED${failed.length ? `: ${failed.join(", ")}` : ""}`);
     process.exit(exitCode || 1);
@@ -54,10 +58,10 @@ async function stage(name, body) {
   try {
     passed = (await body()) !== false;
   } catch (error) {
-    if (stopping) throw error;
-    console.error(`[rakeline] ${name}: ${error instanceof UserFacingError ? error.message : error.stack}`);
+    if (!stopping) console.error(`[rakeline] ${name}: ${error instanceof UserFacingError ? error.message : error.stack}`);
   }
-  results.push({ stage: name, status: passed ? "passed" : "FAILED", seconds: (Date.now() - started) / 1000 });
+  const status = stopping ? "stopped" : passed ? "passed" : "FAILED";
+  results.push({ stage: name, status, seconds: (Date.now() - started) / 1000 });
   return passed;
 }
 
@@ -114,25 +118,34 @@ async function main() {
   const tsc = packageBin(repoRoot, "typescript", "tsc");
   const vitest = packageBin(repoRoot, "vitest", "vitest");
 
-  await stage("Typecheck (react-router typegen && tsc)", async () =>
-    (await node([reactRouter, "typegen"], baseEnv)) && (await node([tsc], baseEnv)));
+  // `npm test -- <files or filters>`: the same provisioning, then only those tests (browser tests when every
+  // filter is under tests/e2e). The full run (no arguments) is what CI and the README use.
+  const filters = process.argv.slice(2);
+  const e2eOnly = filters.length > 0 && filters.every((filter) => filter.replace(/\\/g, "/").includes("tests/e2e"));
+  const full = filters.length === 0;
 
-  await stage("Unit and integration tests (vitest run)", () => node([vitest, "run"], vitestEnv));
-
-  const built = await stage("Build (react-router build)", async () => (await buildApp(repoRoot, baseEnv)) === 0);
-
-  if (built) {
-    await stage(`Browser tests (Chromium against ${appEnv.APP_URL})`, async () => {
-      const server = await serveApp(repoRoot, appEnv);
-      stack.push("app server (test)", server.stop);
-      lock.record("app server", server.pid, "@react-router/serve/bin.js");
-      try {
-        return await node([vitest, "run", "--config", "vitest.e2e.config.ts"], vitestEnv);
-      } finally {
-        if (!stopping) await server.stop();
-      }
-    });
-  } else skip("Browser tests", "the build failed");
+  if (full) {
+    await stage("Typecheck (react-router typegen && tsc)", async () =>
+      (await node([reactRouter, "typegen"], baseEnv)) && (await node([tsc], baseEnv)));
+  }
+  if (!e2eOnly) {
+    await stage("Unit and integration tests (vitest run)", () => node([vitest, "run", ...filters], vitestEnv));
+  }
+  if (full || e2eOnly) {
+    const built = await stage("Build (react-router build)", async () => (await buildApp(repoRoot, baseEnv)) === 0);
+    if (built) {
+      await stage(`Browser tests (Chromium against ${appEnv.APP_URL})`, async () => {
+        const server = await serveApp(repoRoot, appEnv);
+        stack.push("app server (test)", server.stop);
+        lock.record("app server", server.pid, "@react-router/serve/bin.js");
+        try {
+          return await node([vitest, "run", "--config", "vitest.e2e.config.ts", ...filters], vitestEnv);
+        } finally {
+          if (!stopping) await server.stop();
+        }
+      });
+    } else skip("Browser tests", "the build failed");
+  }
 
   info(`all stages done in ${((Date.now() - started) / 1000).toFixed(0)} s`);
   await finish(0);
