@@ -28,6 +28,9 @@ export interface RowParserConfig {
   onBlockFull(): void;
 }
 
+const POW10 = new Float64Array(16);
+for (let i = 0, v = 1; i < 16; i++, v *= 10) POW10[i] = v;
+
 const fmt = (v: number) => String(Number(v.toPrecision(12)));
 
 export class RowParser {
@@ -60,6 +63,7 @@ export class RowParser {
   parse(buf: Uint8Array, start: number, end: number): number {
     const { columns, delimiter: delim, decimalSeparator: dec, slotOfColumn, factor, timeSlot, blockRows } = this.cfg;
     const out = this.out;
+    const maxTerminator = Math.max(delim, CR);
     const timeOut = out[timeSlot];
     let p = start;
     let row = this.row;
@@ -80,23 +84,60 @@ export class RowParser {
       for (;;) {
         const slot = slotOfColumn[j];
         if (slot >= 0) {
-          let v = scanNumber(buf, p, delim, dec);
-          let status = scanResult.status;
-          p = scanResult.end;
-          if (status === CELL_QUOTED) {
-            p = this.quotedCell(buf, p, end, delim, dec);
-            if (p < 0) return this.stop(rowStart, row);
-            v = this.quotedValue;
-            status = this.quotedStatus;
+          // Inline fast path for the common cell: [-]digits[sep digits], at most 15 digits, then a
+          // terminator. m and 10^k are exact doubles, so m / 10^k is Number()'s correctly rounded
+          // result. Everything else (spaces, exponents, long mantissas, empty, quoted, bad) goes
+          // through scanNumber.
+          let q = p;
+          c = buf[q];
+          const neg = c === 45;
+          if (neg) c = buf[++q];
+          let m = 0;
+          const intStart = q;
+          let d = (c - 48) >>> 0;
+          while (d < 10) {
+            m = m * 10 + d;
+            d = ((c = buf[++q]) - 48) >>> 0;
           }
-          if (status !== CELL_NUMBER) this.pending(slot, status);
-          out[slot][row] = v * factor[slot];
+          let digits = q - intStart;
+          let k = 0;
+          if (c === dec) {
+            const fracStart = ++q;
+            d = ((c = buf[q]) - 48) >>> 0;
+            while (d < 10) {
+              m = m * 10 + d;
+              d = ((c = buf[++q]) - 48) >>> 0;
+            }
+            k = q - fracStart;
+            digits += k;
+          }
+          if (digits !== 0 && digits <= 15 && (c === delim || c === LF || c === CR)) {
+            const v = m / POW10[k];
+            out[slot][row] = (neg ? -v : v) * factor[slot];
+            p = q;
+          } else {
+            let v = scanNumber(buf, p, delim, dec);
+            let status = scanResult.status;
+            p = scanResult.end;
+            if (status === CELL_QUOTED) {
+              p = this.quotedCell(buf, p, end, delim, dec);
+              if (p < 0) return this.stop(rowStart, row);
+              v = this.quotedValue;
+              status = this.quotedStatus;
+            }
+            if (status !== CELL_NUMBER) this.pending(slot, status);
+            out[slot][row] = v * factor[slot];
+          }
         } else if (buf[p] === QUOTE) {
           p = this.quotedCell(buf, p, end, delim, dec);
           if (p < 0) return this.stop(rowStart, row);
         } else {
           c = buf[p];
-          while (c !== delim && c !== LF && c !== CR) c = buf[++p];
+          for (;;) {
+            while (c > maxTerminator) c = buf[++p];
+            if (c === delim || c === LF || c === CR) break;
+            c = buf[++p];
+          }
         }
         j++;
         if (buf[p] !== delim) break;
