@@ -20,8 +20,8 @@ const messageSchema = z.object({
 export type CaughtMessage = z.infer<typeof messageSchema>;
 
 /** The mailbox exists only outside production. */
-export function requireDevMailbox(): void {
-  if (env.NODE_ENV === "production") throw data("There is nothing at this address.", { status: 404 });
+export function requireDevMailbox(nodeEnv: string = env.NODE_ENV): void {
+  if (nodeEnv === "production") throw data("There is nothing at this address.", { status: 404 });
 }
 
 function dir(): string {

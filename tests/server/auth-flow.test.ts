@@ -123,11 +123,14 @@ describe("sign-up to team roles", () => {
     // RFC 9110 §15.5.4: 403 Forbidden — authenticated, but not allowed.
     expect(rename.status).toBe(403);
     const page = await outcome(() => settingsRoute.loader(args(getRequest(`/t/${teamSlug}/settings`, analystJar), { teamSlug })));
-    const settings = page.body as { team: { name: string }; members: Array<{ memberId: string; email: string; role: string }>; invitations: unknown[] };
+    const settings = page.body as { team: { id: string; name: string }; members: Array<{ memberId: string; email: string; role: string }>; invitations: unknown[] };
     expect(settings.team.name).toBe("Flow Test Racing");
     const ownerRow = settings.members.find((m) => m.email === owner.email)!;
     const demote = await outcome(() => settingsRoute.action(args(formRequest(`/t/${teamSlug}/settings`, { intent: "change-role", memberId: ownerRow.memberId, role: "driver" }, analystJar), { teamSlug })));
     expect(demote.status).toBe(403);
+    // The same statements drive better-auth's own endpoint: it refuses the analyst too.
+    const direct = await authCall("/organization/update", { json: { organizationId: settings.team.id, data: { name: "Hijacked" } }, jar: analystJar });
+    expect(direct.status).toBe(403);
     // Members are readable by everyone in the team; pending invitations only by those who may invite.
     expect(settings.members.length).toBe(2);
     expect(settings.invitations).toEqual([]);
