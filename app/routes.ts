@@ -21,6 +21,19 @@ export default [
   route("t/:teamSlug", "routes/teams/layout.tsx", [
     index("routes/teams/dashboard.tsx"),
     route("settings", "routes/teams/settings.tsx"),
+
+    // Garage: cars, corner weights and versioned setup sheets.
+    ...prefix("garage", [
+      index("routes/garage/cars.tsx"),
+      route("new", "routes/garage/car-new.tsx"),
+      route("import", "routes/garage/import.tsx"),
+      route(":carId", "routes/garage/car.tsx"),
+      route(":carId/edit", "routes/garage/car-edit.tsx"),
+      route(":carId/setups/new", "routes/garage/setup-new.tsx"),
+      route(":carId/setups/:setupId", "routes/garage/setup.tsx"),
+      route(":carId/setups/:setupId/edit", "routes/garage/setup-edit.tsx"),
+      route(":carId/setups/:setupId/diff", "routes/garage/setup-diff.tsx"),
+    ]),
   ]),
 
   // Development only (404 when NODE_ENV=production).
@@ -28,6 +41,10 @@ export default [
 
   // Resource routes.
   route("api/auth/*", "routes/api/auth.ts"),
+  // Garage: car list, CAR.json export (car + one setup version) and import.
+  route("api/t/:teamSlug/cars", "routes/api/cars.ts"),
+  route("api/t/:teamSlug/cars/import", "routes/api/cars-import.ts"),
+  route("api/t/:teamSlug/cars/:carId/setups/:setupId/car.json", "routes/api/cars-export.ts"),
 
   // Anything else.
   route("*", "routes/home/not-found.tsx"),

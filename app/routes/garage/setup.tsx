@@ -1,0 +1,136 @@
+import { Form, Link, redirect } from "react-router";
+import { z } from "zod";
+import { can, requireMember } from "~/server/permissions.server";
+import { getCar } from "~/server/garage-cars.server";
+import { duplicateSetup, getSetup, setupHistory } from "~/server/garage-setups.server";
+import { displayUnits, ids, searchParamsOf } from "~/server/garage-routes.server";
+import { Caution, Panel } from "~/components/ui/panels";
+import { FormAlert } from "~/components/ui/form";
+import { ErrorView } from "~/components/ui/error-view";
+import { SetupSheet } from "~/components/garage/setup-sheet";
+import { UnitsLink } from "~/components/garage/table";
+import type { Route } from "./+types/setup";
+
+const searchSchema = z.object({
+  saved: z.string().regex(/^v\d+$/).optional().catch(undefined),
+  against: z.string().min(1).max(36).optional().catch(undefined),
+});
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
+  const { carId, setupId } = ids(params, "carId", "setupId");
+  const car = await getCar(ctx.team.id, carId);
+  const setup = await getSetup(ctx.team.id, carId, setupId);
+  const history = await setupHistory(ctx.team.id, setup.sheetId);
+  return {
+    team: ctx.team,
+    car: { id: car.id, name: car.name },
+    setup,
+    history,
+    notice: searchParamsOf(request, searchSchema),
+    units: displayUnits(request),
+    canEdit: can(ctx.role, { setup: ["update"] }),
+    canCreate: can(ctx.role, { setup: ["create"] }),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const ctx = await requireMember(request, params.teamSlug, { setup: ["create"] });
+  const { carId, setupId } = ids(params, "carId", "setupId");
+  const copy = await duplicateSetup(ctx.team.id, ctx.user.id, carId, setupId);
+  return redirect(`/t/${ctx.team.slug}/garage/${carId}/setups/${copy.setupId}`);
+}
+
+export default function SetupPage({ loaderData }: Route.ComponentProps) {
+  const { car, setup, history, units, canEdit, canCreate, team, notice } = loaderData;
+  const carBase = `/t/${team.slug}/garage/${car.id}`;
+  const exportUrl = `/api/t/${team.slug}/cars/${car.id}/setups/${setup.id}/car.json`;
+  const others = history.filter((h) => h.id !== setup.id);
+  return (
+    <main className="mx-auto max-w-6xl space-y-4 px-4 py-6">
+      <header className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <p className="text-sm text-ink-soft">
+            <Link to={`/t/${team.slug}/garage`} className="underline">Garage</Link> ·{" "}
+            <Link to={carBase} className="underline">{car.name}</Link>
+          </p>
+          <h1 className="text-2xl font-semibold">
+            {setup.sheetName} <span className="num text-ink-soft">v{setup.version}</span>
+          </h1>
+          <p className="text-sm text-ink-soft">
+            {setup.sessions ? `Used by ${setup.sessions} session${setup.sessions > 1 ? "s" : ""}: locked; an edit makes a new version.` : "Draft: no session uses it yet."}
+          </p>
+        </div>
+        <div className="flex flex-wrap items-center gap-2 text-sm">
+          <UnitsLink system={units} />
+          <a href={exportUrl} download className="rounded border border-accent bg-accent px-3 py-1.5 font-medium text-white hover:bg-accent-strong">
+            Download CAR.json
+          </a>
+          {canEdit && <Link to={`${carBase}/setups/${setup.id}/edit`} className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Edit</Link>}
+          {canCreate && (
+            <Form method="post">
+              <button className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Duplicate</button>
+            </Form>
+          )}
+        </div>
+      </header>
+      {notice.saved && (
+        <FormAlert tone="info">
+          Saved as {notice.saved}; the version you edited is kept unchanged.{" "}
+          {notice.against && <Link className="underline" to={`${carBase}/setups/${setup.id}/diff?against=${notice.against}`}>See what changed</Link>}
+        </FormAlert>
+      )}
+      <Panel title="Setup">
+        <SetupSheet setup={setup} units={units} />
+      </Panel>
+      <Panel title="History">
+        {others.length > 0 && (
+          <Form method="get" action={`${carBase}/setups/${setup.id}/diff`} className="mb-2 flex items-center gap-2 text-sm">
+            <label htmlFor="against">Compare v{setup.version} with</label>
+            <select id="against" name="against" className="rounded border border-rule px-2 py-1">
+              {others.map((h) => (
+                <option key={h.id} value={h.id}>v{h.version}</option>
+              ))}
+            </select>
+            <input type="hidden" name="units" value={units} />
+            <button className="rounded border border-rule px-3 py-1 hover:bg-rule-soft">Show differences</button>
+          </Form>
+        )}
+        <table className="w-full text-sm">
+          <thead className="border-b border-rule">
+            <tr>
+              <th className="px-3 py-1.5 text-left font-medium">Version</th>
+              <th className="px-3 py-1.5 text-left font-medium">Saved</th>
+              <th className="px-3 py-1.5 text-left font-medium">By</th>
+              <th className="px-3 py-1.5 text-left font-medium">Change</th>
+              <th className="px-3 py-1.5 text-right font-medium">Sessions</th>
+            </tr>
+          </thead>
+          <tbody>
+            {history.map((h) => (
+              <tr key={h.id} className={`border-b border-rule-soft last:border-0 ${h.id === setup.id ? "bg-rule-soft" : ""}`}>
+                <td className="num px-3 py-1.5">
+                  <Link to={`${carBase}/setups/${h.id}`} className="text-accent underline">v{h.version}</Link>
+                </td>
+                <td className="num px-3 py-1.5">{new Date(h.updatedAt).toISOString().slice(0, 16).replace("T", " ")} UTC</td>
+                <td className="px-3 py-1.5">{h.authorName ?? "demo seed"}</td>
+                <td className="px-3 py-1.5">
+                  {h.changeNote && <span className="font-medium">{h.changeNote}. </span>}
+                  <span className="text-ink-soft">{h.change}</span>
+                </td>
+                <td className="num px-3 py-1.5 text-right">{h.sessions}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </Panel>
+      <Caution compact />
+    </main>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorView error={error} />;
+}
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.setup.sheetName ?? "Setup"} · Garage · Rakeline` }];
