@@ -1,0 +1,143 @@
+/**
+ * Aero load per axle: streaming sufficient statistics and the least-squares fit of
+ * F_axle = [a] + [b·τ] + ClA·q  (q = ½ρV², τ = seconds since the first sample).
+ *
+ * - a: static axle load (only when static damper readings are not given; otherwise the force is
+ *   already relative to static and the fit goes through the origin).
+ * - b·τ: slow drift of the static load over the stint (fuel burn, pot drift), fitted on stints of
+ *   two minutes or more so that it cannot bias ClA (40 L of fuel ≈ 290 N of static load).
+ * The point estimate uses every gated sample; its 95 % interval comes from the same fit over
+ * per-block means (samples are autocorrelated, raw counts make intervals far too narrow).
+ */
+import { solveNormalEquations } from "./regression";
+import { interval95 } from "./stats";
+
+/** Sums for regressors [1, τ, q] and responses front, rear. */
+export class AxleRegressionSums {
+  n = 0; st = 0; sq = 0; stt = 0; stq = 0; sqq = 0;
+  sf = 0; stf = 0; sqf = 0; sff = 0;
+  sr = 0; str = 0; sqr = 0; srr = 0;
+
+  add(t: number, q: number, f: number, r: number): void {
+    this.n++; this.st += t; this.sq += q; this.stt += t * t; this.stq += t * q; this.sqq += q * q;
+    this.sf += f; this.stf += t * f; this.sqf += q * f; this.sff += f * f;
+    this.sr += r; this.str += t * r; this.sqr += q * r; this.srr += r * r;
+  }
+}
+
+/** Per speed band: sums to turn the fit into mean aero loads and ride-height figures. */
+export interface BandAeroSums {
+  n: Float64Array; st: Float64Array; sq: Float64Array; sf: Float64Array; sr: Float64Array;
+  dampFront: Float64Array; dampRear: Float64Array;
+  rhFront: Float64Array; rhFrontN: Float64Array; rhRear: Float64Array; rhRearN: Float64Array;
+}
+
+export function createBandAeroSums(bands: number): BandAeroSums {
+  const z = () => new Float64Array(bands);
+  return { n: z(), st: z(), sq: z(), sf: z(), sr: z(), dampFront: z(), dampRear: z(), rhFront: z(), rhFrontN: z(), rhRear: z(), rhRearN: z() };
+}
+
+export class AeroAccumulator {
+  readonly samples = new AxleRegressionSums();
+  readonly blocks = new AxleRegressionSums();
+  readonly bands: BandAeroSums;
+  private bn = 0; private bt = 0; private bq = 0; private bf = 0; private br = 0;
+
+  constructor(bandCount: number) {
+    this.bands = createBandAeroSums(bandCount);
+  }
+
+  add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
+    this.samples.add(t, q, f, r);
+    this.bn++; this.bt += t; this.bq += q; this.bf += f; this.br += r;
+    if (band < 0) return;
+    const b = this.bands;
+    b.n[band]++; b.st[band] += t; b.sq[band] += q; b.sf[band] += f; b.sr[band] += r;
+    b.dampFront[band] += dampFront; b.dampRear[band] += dampRear;
+    if (rhFront === rhFront) { b.rhFront[band] += rhFront; b.rhFrontN[band]++; }
+    if (rhRear === rhRear) { b.rhRear[band] += rhRear; b.rhRearN[band]++; }
+  }
+
+  /** End of a time block: its mean enters the block-level sums when it holds enough samples. */
+  closeBlock(minSamples: number): void {
+    const n = this.bn;
+    if (n >= minSamples && n > 0) this.blocks.add(this.bt / n, this.bq / n, this.bf / n, this.br / n);
+    this.bn = 0; this.bt = 0; this.bq = 0; this.bf = 0; this.br = 0;
+  }
+}
+
+export interface AxleFit {
+  cla_m2: number;
+  cla_se_m2: number;
+  cla_ci95_m2: [number, number] | null;
+  /** Static axle load relative to the reference (N); 0 when fitted through the origin. */
+  intercept_n: number;
+  drift_n_per_s: number;
+  drift_se_n_per_s: number;
+  residual_sd_n: number;
+}
+
+export interface AeroFit {
+  with_intercept: boolean;
+  with_drift: boolean;
+  samples: number;
+  blocks: number;
+  front: AxleFit;
+  rear: AxleFit;
+}
+
+/** Column subset of [1, τ, q] for the chosen model. */
+function columns(withIntercept: boolean, withDrift: boolean): number[] {
+  const cols: number[] = [];
+  if (withIntercept) cols.push(0);
+  if (withDrift) cols.push(1);
+  cols.push(2);
+  return cols;
+}
+
+function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): { beta: Float64Array; se: Float64Array; rss: number; df: number } | null {
+  const xx = [
+    [s.n, s.st, s.sq],
+    [s.st, s.stt, s.stq],
+    [s.sq, s.stq, s.sqq],
+  ];
+  const xy = rear ? [s.sr, s.str, s.sqr] : [s.sf, s.stf, s.sqf];
+  const k = cols.length;
+  const xtx = new Float64Array(k * k);
+  const xty = new Float64Array(k);
+  cols.forEach((ci, i) => {
+    xty[i] = xy[ci];
+    cols.forEach((cj, j) => (xtx[i * k + j] = xx[ci][cj]));
+  });
+  return solveNormalEquations(xtx, xty, rear ? s.srr : s.sff, s.n, k);
+}
+
+/** Fit both axles; null when the samples cannot support the model. */
+export function fitAero(acc: AeroAccumulator, withIntercept: boolean, withDrift: boolean): AeroFit | null {
+  const cols = columns(withIntercept, withDrift);
+  const k = cols.length;
+  const qi = k - 1;
+  const ti = withDrift ? (withIntercept ? 1 : 0) : -1;
+  const result: Partial<Record<"front" | "rear", AxleFit>> = {};
+  for (const side of ["front", "rear"] as const) {
+    const fit = axleFit(acc.samples, cols, side === "rear");
+    const blockFit = axleFit(acc.blocks, cols, side === "rear");
+    if (!fit) return null;
+    const se = blockFit ? blockFit.se[qi] : NaN;
+    result[side] = {
+      cla_m2: fit.beta[qi],
+      cla_se_m2: se,
+      cla_ci95_m2: blockFit ? interval95(fit.beta[qi], se, blockFit.df) : null,
+      intercept_n: withIntercept ? fit.beta[0] : 0,
+      drift_n_per_s: ti >= 0 ? fit.beta[ti] : 0,
+      drift_se_n_per_s: ti >= 0 && blockFit ? blockFit.se[ti] : NaN,
+      residual_sd_n: Math.sqrt(fit.rss / Math.max(1, fit.df)),
+    };
+  }
+  return { with_intercept: withIntercept, with_drift: withDrift, samples: acc.samples.n, blocks: acc.blocks.n, front: result.front!, rear: result.rear! };
+}
+
+/** Mean aero load of a band (N) from the band sums and an axle fit. */
+export function bandAeroLoadN(n: number, sumT: number, sumF: number, fit: AxleFit): number {
+  return n > 0 ? sumF / n - fit.intercept_n - (fit.drift_n_per_s * sumT) / n : NaN;
+}

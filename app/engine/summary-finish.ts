@@ -1,0 +1,219 @@
+/** Turns the streaming statistics into the SessionSummary (fits, bands, warnings). */
+import { bandAeroLoadN, fitAero } from "./aero";
+import type { AeroFit } from "./aero";
+import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
+import type { SummaryBuilder } from "./summary";
+import { CAUTIONS, SUMMARY_VERSION } from "./summary-types";
+import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
+import { roundOrNull as r, roundPair } from "./stats";
+import { bandUndersteer, estimateSteeringOffset } from "./understeer";
+
+const MIN_AERO_BLOCKS = 10;
+const FEW_AERO_BLOCKS = 60;
+const MIN_US_BLOCKS = 5;
+const FEW_US_BLOCKS = 15;
+const DRIFT_MIN_DURATION_S = 120;
+const LARGE_OFFSET_DEG = 3;
+const CONTACT_WARN_PCT = 2;
+
+export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSummary {
+  const warnings: SummaryWarning[] = [];
+  const warn = (code: string, message: string) => warnings.push({ code, message });
+  const flags: string[] = [];
+  const c = s.model;
+  const duration = s.rows > 1 ? s.tLast - s.t0 : 0;
+  if (s.air.source !== "given") warn("air_density_assumed", `air density ${s.air.density_kg_m3.toFixed(4)} kg/m³ uses ${s.air.source === "partly_given" ? "ISA sea level for the value not given" : "ISA sea level (15 °C, 1013.25 hPa)"}; give --air-temp-c and --air-pressure-hpa for the session's weather`);
+
+  // Aero fit: through the origin when static readings are given, else with an intercept.
+  const withIntercept = !s.staticGiven;
+  const withDrift = duration >= DRIFT_MIN_DURATION_S && s.aero.blocks.n >= FEW_AERO_BLOCKS;
+  let fit: AeroFit | null = null;
+  let alt: AeroFit | null = null;
+  if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
+    fit = fitAero(s.aero, withIntercept, withDrift);
+    alt = fitAero(s.aero, !withIntercept, withDrift);
+    if (!fit) warn("aero_fit_failed", "the aero fit could not be solved: the usable samples do not span enough speeds");
+  } else {
+    warn("few_aero_samples", `only ${s.aero.blocks.n} s of usable running for the aero fit (at least ${MIN_AERO_BLOCKS} s above ${s.opts.gates.aero_min_speed_kmh} km/h with |ax| ≤ ${s.opts.gates.aero_max_long_g} g are needed), so ClA and balance are not estimated`);
+  }
+  if (fit && s.aero.blocks.n < FEW_AERO_BLOCKS) warn("few_aero_samples", `the aero fit rests on only ${s.aero.blocks.n} s of running: treat ClA and balance as rough`);
+  if (s.aeroWaitingStatic > 0) warn("static_estimated", `${s.aeroWaitingStatic} samples waited for a static damper estimate before the bump-stop model could place contact; give static_damper_mm in the car file to use them`);
+  if (!s.staticGiven) flags.push("static_from_fit_intercept");
+  if (!s.staticGiven && s.hasBumpStops && s.estN < s.estMin) warn("no_static_reference", "no static damper readings and no slow running to estimate them: the bump-stop contact cannot be placed, so no aero samples were used");
+
+  const claF = fit ? fit.front.cla_m2 : NaN;
+  const claR = fit ? fit.rear.cla_m2 : NaN;
+  const claT = claF + claR;
+  let balance = NaN;
+  if (fit) {
+    if (!(claT > 0)) warn("suspected_sign_error", `total ClA came out ${claT.toFixed(3)} m² (not positive): check the damper channels' sign (compression must be positive) and the motion ratios`);
+    else balance = balanceFrontPct(claF, claR);
+    if (claT > 0 && (claF < -0.05 || claR < -0.05)) warn("suspected_sign_error", `ClA ${claF < -0.05 ? "front" : "rear"} is negative (${(claF < -0.05 ? claF : claR).toFixed(3)} m²): an inverted damper channel or a wrong spring rate is more likely than real lift`);
+  }
+  let balanceCi: [number, number] | null = null;
+  if (fit && claT > 0 && Number.isFinite(fit.front.cla_se_m2) && Number.isFinite(fit.rear.cla_se_m2)) {
+    const dF = claR / (claT * claT), dR = -claF / (claT * claT);
+    const se = 100 * Math.sqrt(dF * dF * fit.front.cla_se_m2 ** 2 + dR * dR * fit.rear.cla_se_m2 ** 2);
+    balanceCi = [balance - 1.96 * se, balance + 1.96 * se];
+  }
+  const contactPct = (n: number) => (s.aero.samples.n > 0 ? (100 * n) / s.aero.samples.n : NaN);
+  for (const [axle, n, has] of [["front", s.contactFront, c.bumpForcePerMmFront > 0], ["rear", s.contactRear, c.bumpForcePerMmRear > 0]] as const) {
+    const pct = contactPct(n);
+    if (has && pct > CONTACT_WARN_PCT) warn("bump_stop_contact", `${axle} bump stops are in contact in ${pct.toFixed(1)} % of the aero samples: the result leans on the bump-stop rate and gap in the car file`);
+  }
+  if (fit && withDrift) {
+    for (const side of ["front", "rear"] as const) {
+      const a = fit[side];
+      const change = a.drift_n_per_s * duration;
+      if (Math.abs(change) >= 25 && Math.abs(a.drift_n_per_s) > 3 * (a.drift_se_n_per_s || Infinity)) {
+        warn("static_load_drift", `the ${side} static load changed by ${change.toFixed(0)} N over the stint (fuel burn, or damper pot drift); it is modelled as a linear trend in the fit`);
+      }
+    }
+  }
+  const sign = s.sign;
+  if (sign.n > 50) {
+    const cov = (sx: number, sxy: number) => sxy / sign.n - (sign.sa / sign.n) * (sx / sign.n);
+    const varA = sign.saa / sign.n - (sign.sa / sign.n) ** 2;
+    const slopeF = cov(sign.sf, sign.saf) / varA, slopeR = cov(sign.sr, sign.sar) / varA;
+    // Braking (ax < 0) compresses the front: front travel falls with ax, rear travel rises with ax.
+    if (slopeF > 0.5) warn("suspected_sign_error", "the front dampers extend under braking and compress under acceleration: check the front damper channels' invert flag");
+    if (slopeR < -0.5) warn("suspected_sign_error", "the rear dampers compress under braking: check the rear damper channels' invert flag");
+  }
+
+  // Steering offset and understeer per band.
+  const firstBin = Math.round(s.opts.gates.us_min_lat_g / 0.05);
+  const offset = estimateSteeringOffset(s.us, MIN_US_BLOCKS, c.steeringRatio, firstBin);
+  if (offset.source === "corners") warn("steering_offset_from_corners", "too few straight-line samples for the steering offset; it was estimated from corners of both directions instead");
+  if (offset.source === "none") warn("steering_offset_unknown", "the steering offset could not be estimated (no straights and corners of one direction only): understeer gradients are not given");
+  if (offset.offset_deg !== null && Math.abs(offset.offset_deg) > LARGE_OFFSET_DEG) warn("large_steering_offset", `the steering wheel reads ${offset.offset_deg.toFixed(1)}° on the straights: check the steering sensor's zero (it is removed from the understeer figures)`);
+  if (s.us.signNorm > 0 && s.us.signDot < 0) warn("suspected_sign_error", "steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)");
+  if (s.yawSignN > 50 && s.yawSignDot < 0) warn("suspected_sign_error", "yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map");
+
+  const bands: BandSummary[] = [];
+  const a = s.aero.bands;
+  const edges = s.opts.bandEdgesKmh;
+  const weightN = c.massKg * 9.80665;
+  for (let b = 0; b < s.bandCount; b++) {
+    const label = `${edges[b]}–${edges[b + 1]} km/h`;
+    const n = a.n[b];
+    const loadF = fit && n > 0 ? bandAeroLoadN(n, a.st[b], a.sf[b], fit.front) : NaN;
+    const loadR = fit && n > 0 ? bandAeroLoadN(n, a.st[b], a.sr[b], fit.rear) : NaN;
+    const qMean = n > 0 ? a.sq[b] / n : NaN;
+    let bal = NaN;
+    if (fit && n > 0) {
+      if (loadF + loadR > 0.05 * weightN) bal = (100 * loadF) / (loadF + loadR);
+      else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);
+    }
+    const offRoad = offset.offset_deg === null ? NaN : offset.offset_deg / c.steeringRatio;
+    const us = offset.offset_deg === null ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
+    let k = NaN;
+    if (us && us.blocks >= MIN_US_BLOCKS) {
+      k = us.k_deg_per_g;
+      if (us.blocks < FEW_US_BLOCKS) warn("few_understeer_samples", `${label}: the understeer gradient rests on ${us.blocks} s of steady cornering: treat it as rough`);
+      if (Math.min(us.left_samples, us.right_samples) < 0.1 * (us.left_samples + us.right_samples)) warn("one_turn_direction", `${label}: steady corners are nearly all one direction, so a steering-offset error goes straight into the understeer gradient`);
+    } else if (s.bandRows[b] > 0 && offset.offset_deg !== null) {
+      warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
+    }
+    const rh = rideHeights(s, b, loadF, loadR);
+    bands.push({
+      min_kmh: edges[b],
+      max_kmh: edges[b + 1],
+      samples: s.bandRows[b],
+      aero_samples: n,
+      mean_dynamic_pressure_pa: r(qMean, 1),
+      aero_load_front_n: r(loadF, 1),
+      aero_load_rear_n: r(loadR, 1),
+      balance_front_pct: r(bal, 2),
+      cla_front_m2: r(loadF / qMean, 4),
+      cla_rear_m2: r(loadR / qMean, 4),
+      understeer_gradient_deg_per_g: r(k, 3),
+      understeer_ci95_deg_per_g: Number.isFinite(k) && us ? roundPair(us.ci95_deg_per_g, 3) : null,
+      understeer_samples: us ? us.samples : 0,
+      understeer_blocks: us ? us.blocks : 0,
+      understeer_lat_g_range: us ? roundPair([s.opts.gates.us_min_lat_g, us.upper_gate_g], 3) : null,
+      ...rh,
+    });
+  }
+
+  const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
+  const copMm = Number.isFinite(balance) ? copFromFrontAxleMm(s.car.wheelbase_mm, balance) : NaN;
+  const dropped = ctx.droppedCells ?? {};
+  const totalDropped = Object.values(dropped).reduce((x, y) => x + y, 0);
+  if (s.rows > 0 && totalDropped > 0.01 * s.rows) warn("dropouts", `${totalDropped} empty or unreadable cells in the mapped columns: those samples are left out`);
+  const driftChange = (af: AeroFit | null, side: "front" | "rear") => (af && af.with_drift ? r(af[side].drift_n_per_s * duration, 1) : null);
+  const traceFit = fit;
+  return {
+    summary_version: SUMMARY_VERSION,
+    car: s.car,
+    mapping: ctx.map ?? null,
+    metadata: ctx.header?.metadata ?? {},
+    log: { rows: ctx.rows ?? s.rows, bytes: ctx.bytes ?? null, columns: ctx.header?.columns ?? [], dropped_cells: dropped },
+    samples: s.rows,
+    duration_s: r(duration, 3) ?? 0,
+    sample_rate_hz: r(s.sampleRateHz, 2),
+    air_density_kg_m3: r(s.air.density_kg_m3, 5)!,
+    air: { temp_c: r(s.air.temp_c, 2)!, pressure_hpa: r(s.air.pressure_hpa, 2)!, source: s.air.source },
+    aero: {
+      cla_front_m2: r(claF, 4),
+      cla_rear_m2: r(claR, 4),
+      cla_total_m2: r(claT, 4),
+      balance_front_pct: r(balance, 2),
+      cla_front_ci95_m2: fit ? roundPair(fit.front.cla_ci95_m2, 4) : null,
+      cla_rear_ci95_m2: fit ? roundPair(fit.rear.cla_ci95_m2, 4) : null,
+      balance_front_ci95_pct: roundPair(balanceCi, 2),
+      samples: s.aero.samples.n,
+      blocks: s.aero.blocks.n,
+      model: fit ? (withIntercept ? "with_intercept" : "through_origin") : null,
+      fuel_drift_modelled: withDrift,
+      front: { cla_m2: r(claF, 4), cla_ci95_m2: fit ? roundPair(fit.front.cla_ci95_m2, 4) : null, static_load_change_over_stint_n: driftChange(fit, "front"), residual_sd_n: fit ? r(fit.front.residual_sd_n, 1) : null },
+      rear: { cla_m2: r(claR, 4), cla_ci95_m2: fit ? roundPair(fit.rear.cla_ci95_m2, 4) : null, static_load_change_over_stint_n: driftChange(fit, "rear"), residual_sd_n: fit ? r(fit.rear.residual_sd_n, 1) : null },
+      alternative: alt ? { model: alt.with_intercept ? "with_intercept" : "through_origin", cla_front_m2: r(alt.front.cla_m2, 4), cla_rear_m2: r(alt.rear.cla_m2, 4) } : null,
+      bump_stop_contact_front_pct: c.bumpForcePerMmFront > 0 ? r(contactPct(s.contactFront), 2) : null,
+      bump_stop_contact_rear_pct: c.bumpForcePerMmRear > 0 ? r(contactPct(s.contactRear), 2) : null,
+    },
+    cop: { from_front_axle_mm: r(copMm, 1), cog_from_front_axle_mm: r(cogMm, 1)!, cop_behind_cog_mm: r(copMm - cogMm, 1) },
+    steering: {
+      offset_deg: r(offset.offset_deg ?? NaN, 3),
+      offset_ci95_deg: roundPair(offset.ci95_deg, 3),
+      offset_samples: offset.samples,
+      offset_source: offset.source,
+      curvature_source: s.mapped.has("yaw_rate") ? "yaw_rate" : "lat_accel",
+    },
+    bands,
+    traces: s.traces.output(
+      { speed_kmh: 1, lat_accel_g: 3, long_accel_g: 3, steer_deg: 1, axle_load_front_n: 0, axle_load_rear_n: 0, yaw_rate_deg_s: 1 },
+      (name, t, v) => {
+        if (name !== "axle_load_front_n" && name !== "axle_load_rear_n") return v;
+        if (!traceFit) return NaN;
+        const af = name === "axle_load_front_n" ? traceFit.front : traceFit.rear;
+        return v - af.intercept_n - af.drift_n_per_s * (t - s.t0);
+      },
+    ),
+    quality: { flags, aero_samples_waiting_for_static: s.aeroWaitingStatic },
+    warnings,
+    cautions: [...CAUTIONS],
+  };
+}
+
+function rideHeights(s: SummaryBuilder, b: number, loadF: number, loadR: number) {
+  const a = s.aero.bands;
+  const n = a.n[b];
+  const c = s.model;
+  const st = c.staticDamperMm;
+  const en = s.estN >= s.estMin ? s.estN : NaN;
+  const staticF = st ? (st.fl + st.fr) / 2 : (s.est[0] + s.est[1]) / 2 / en;
+  const staticR = st ? (st.rl + st.rr) / 2 : (s.est[2] + s.est[3]) / 2 / en;
+  const kt = s.opts.tyreRateNPerMm;
+  const changeF = n > 0 ? -(a.dampFront[b] / n / 2 - staticF) / c.motionRatioFront - (Number.isFinite(loadF) ? loadF / 2 / kt : 0) : NaN;
+  const changeR = n > 0 ? -(a.dampRear[b] / n / 2 - staticR) / c.motionRatioRear - (Number.isFinite(loadR) ? loadR / 2 / kt : 0) : NaN;
+  const rhF = a.rhFrontN[b] > 0 ? a.rhFront[b] / a.rhFrontN[b] : NaN;
+  const rhR = a.rhRearN[b] > 0 ? a.rhRear[b] / a.rhRearN[b] : NaN;
+  return {
+    ride_height_change_front_mm: r(changeF, 2),
+    ride_height_change_rear_mm: r(changeR, 2),
+    rake_change_mm: r(changeR - changeF, 2),
+    ride_height_front_mm: r(rhF, 2),
+    ride_height_rear_mm: r(rhR, 2),
+    rake_mm: r(rhR - rhF, 2),
+  };
+}

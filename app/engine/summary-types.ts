@@ -1,0 +1,110 @@
+/**
+ * The stored session summary (what the database keeps and every screen reads). Plain JSON,
+ * snake_case keys, units in the key names, null (never NaN) where a figure cannot be estimated;
+ * a warning then says why. Bump `SUMMARY_VERSION` on any incompatible change.
+ */
+import type { CarInput, ChannelMap } from "./types";
+import type { TraceOutput } from "./summary-traces";
+
+export const SUMMARY_VERSION = 1;
+
+export interface SummaryWarning {
+  code: string;
+  message: string;
+}
+
+export interface BandSummary {
+  min_kmh: number;
+  max_kmh: number;
+  /** Rows whose speed lies in the band. */
+  samples: number;
+  aero_samples: number;
+  mean_dynamic_pressure_pa: number | null;
+  aero_load_front_n: number | null;
+  aero_load_rear_n: number | null;
+  balance_front_pct: number | null;
+  cla_front_m2: number | null;
+  cla_rear_m2: number | null;
+  understeer_gradient_deg_per_g: number | null;
+  understeer_ci95_deg_per_g: [number, number] | null;
+  understeer_samples: number;
+  understeer_blocks: number;
+  understeer_lat_g_range: [number, number] | null;
+  ride_height_change_front_mm: number | null;
+  ride_height_change_rear_mm: number | null;
+  rake_change_mm: number | null;
+  ride_height_front_mm: number | null;
+  ride_height_rear_mm: number | null;
+  rake_mm: number | null;
+}
+
+export interface AxleFitSummary {
+  cla_m2: number | null;
+  cla_ci95_m2: [number, number] | null;
+  static_load_change_over_stint_n: number | null;
+  residual_sd_n: number | null;
+}
+
+export interface SessionSummary {
+  summary_version: typeof SUMMARY_VERSION;
+  car: CarInput;
+  mapping: ChannelMap | null;
+  metadata: Record<string, string>;
+  log: { rows: number; bytes: number | null; columns: string[]; dropped_cells: Record<string, number> };
+  samples: number;
+  duration_s: number;
+  sample_rate_hz: number | null;
+  air_density_kg_m3: number;
+  air: { temp_c: number; pressure_hpa: number; source: "isa_sea_level" | "given" | "partly_given" };
+  aero: {
+    cla_front_m2: number | null;
+    cla_rear_m2: number | null;
+    cla_total_m2: number | null;
+    balance_front_pct: number | null;
+    cla_front_ci95_m2: [number, number] | null;
+    cla_rear_ci95_m2: [number, number] | null;
+    balance_front_ci95_pct: [number, number] | null;
+    samples: number;
+    blocks: number;
+    model: "through_origin" | "with_intercept" | null;
+    fuel_drift_modelled: boolean;
+    front: AxleFitSummary;
+    rear: AxleFitSummary;
+    /** The other fit variant, for comparison (through the origin vs with intercept). */
+    alternative: { model: "through_origin" | "with_intercept"; cla_front_m2: number | null; cla_rear_m2: number | null } | null;
+    bump_stop_contact_front_pct: number | null;
+    bump_stop_contact_rear_pct: number | null;
+  };
+  cop: { from_front_axle_mm: number | null; cog_from_front_axle_mm: number; cop_behind_cog_mm: number | null };
+  steering: {
+    offset_deg: number | null;
+    offset_ci95_deg: [number, number] | null;
+    offset_samples: number;
+    offset_source: "straights" | "corners" | "none";
+    curvature_source: "yaw_rate" | "lat_accel";
+  };
+  bands: BandSummary[];
+  traces: TraceOutput;
+  quality: { flags: string[]; aero_samples_waiting_for_static: number };
+  warnings: SummaryWarning[];
+  cautions: string[];
+}
+
+/** What `finish` learns from the ingest step (all optional for direct use on blocks). */
+export interface FinishContext {
+  header?: { metadata: Record<string, string>; columns: string[] };
+  map?: ChannelMap;
+  rows?: number;
+  bytes?: number;
+  droppedCells?: Record<string, number>;
+}
+
+/** Cautions the product shows with any number that can lead to a setup change (common practice). */
+export const CAUTIONS = [
+  "These figures are estimates from logged data, not safety margins.",
+  "Make aero changes one at a time, in small steps, and build speed over installation laps with agreed abort criteria.",
+  "Watch for balance moving forward under braking and at speed, wing stall, splitter or floor grounding, and lift when a closed car yaws.",
+  "Check mounts for the higher loads and keep tyre loads and pressures within the maker's limits.",
+  "Follow the series' technical regulations and scrutineering; never test on public roads.",
+  "Confirm with track testing, wind tunnel or CFD and qualified engineers.",
+];

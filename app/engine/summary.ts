@@ -1,0 +1,250 @@
+/**
+ * Streaming session summary: `createSummaryBuilder(car, options)`, then `push(block)` for each
+ * ChannelBlock and `finish(ctx)` for the SessionSummary. Nothing of full resolution is kept: a short
+ * delay line for the centred filters, sufficient statistics for the fits, decimated traces.
+ * The per-row path allocates nothing.
+ */
+import { AeroAccumulator } from "./aero";
+import { bandEdgesMs, bandIndex } from "./bands";
+import { carModel, validateCar } from "./car";
+import type { CarModel } from "./car";
+import { sessionAirDensity, STANDARD_GRAVITY_M_S2 as G } from "./density";
+import { CentredSmoother } from "./filters";
+import { DEG_PER_RAD } from "./physics";
+import { buildSummary } from "./summary-finish";
+import type { FinishContext, SessionSummary } from "./summary-types";
+import { resolveOptions } from "./summary-options";
+import type { ResolvedOptions, SummaryOptions } from "./summary-options";
+import { TraceDecimator } from "./summary-traces";
+import type { CarInput, ChannelBlock } from "./types";
+import { UndersteerAccumulator } from "./understeer";
+
+export type { SessionSummary, FinishContext } from "./summary-types";
+export type { SummaryOptions } from "./summary-options";
+
+/** Smoother slots. Long acceleration twice: gate smoothing, and damper smoothing for the correction. */
+const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11, AX_LT = 12;
+const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate", "long_accel"] as const;
+export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
+
+export class SummaryBuilder {
+  readonly car: CarInput;
+  readonly model: CarModel;
+  readonly opts: ResolvedOptions;
+  readonly air: ReturnType<typeof sessionAirDensity>;
+  readonly edgesMs: Float64Array;
+  readonly bandCount: number;
+  readonly aero: AeroAccumulator;
+  readonly us: UndersteerAccumulator;
+  readonly traces: TraceDecimator;
+  readonly bandRows: Float64Array;
+  readonly staticGiven: boolean;
+  readonly hasBumpStops: boolean;
+  sampleRateHz = NaN;
+  rows = 0; t0 = NaN; tLast = NaN;
+  /** Channels present in the blocks (optional ones may be absent). */
+  mapped = new Set<string>();
+  /** Aero samples skipped while no static estimate existed for the bump-stop model. */
+  aeroWaitingStatic = 0;
+  contactFront = 0; contactRear = 0;
+  /** Static damper estimate from slow, unloaded running (used only when readings are not given). */
+  readonly est = new Float64Array(4); estN = 0; estMin = 0; estMax = 0;
+  refFront = NaN; refRear = NaN;
+  /** Damper-sign check: sums of ax (g) and axle damper sums. */
+  readonly sign = { n: 0, sa: 0, saa: 0, sf: 0, saf: 0, sr: 0, sar: 0 };
+  yawSignDot = 0; yawSignN = 0;
+
+  private sm: CentredSmoother | null = null;
+  private pending: ChannelBlock[] = [];
+  private block = -1;
+  private blockMin = 2;
+  private blockMinUs = 2;
+  private readonly traceRow = new Float64Array(TRACE_CHANNELS.length);
+  private readonly cols: (Float64Array | null)[] = new Array(SLOT_CHANNELS.length).fill(null);
+
+  constructor(car: CarInput, options: SummaryOptions = {}) {
+    this.car = validateCar(car);
+    this.model = carModel(this.car);
+    this.opts = resolveOptions(options);
+    this.air = sessionAirDensity(this.opts.airTempC, this.opts.airPressureHpa);
+    this.edgesMs = bandEdgesMs(this.opts.bandEdgesKmh);
+    this.bandCount = this.opts.bandEdgesKmh.length - 1;
+    this.aero = new AeroAccumulator(this.bandCount);
+    this.us = new UndersteerAccumulator(this.bandCount);
+    this.traces = new TraceDecimator(TRACE_CHANNELS, this.opts.traceBuckets);
+    this.bandRows = new Float64Array(this.bandCount);
+    this.staticGiven = this.model.staticDamperMm !== null;
+    this.hasBumpStops = this.model.bumpForcePerMmFront > 0 || this.model.bumpForcePerMmRear > 0;
+  }
+
+  push(block: ChannelBlock): void {
+    if (block.rows === 0) return;
+    for (const k of Object.keys(block.channels)) this.mapped.add(k);
+    if (!this.sm) {
+      this.pending.push(copyBlock(block));
+      const dt = estimateDt(this.pending);
+      if (dt === null) return;
+      this.start(dt);
+      const queued = this.pending;
+      this.pending = [];
+      for (const b of queued) this.run(b);
+      return;
+    }
+    this.run(block);
+  }
+
+  finish(ctx: FinishContext = {}): SessionSummary {
+    if (!this.sm && this.pending.length) {
+      this.start(estimateDt(this.pending) ?? 0.01);
+      for (const b of this.pending) this.run(b);
+      this.pending = [];
+    }
+    if (this.sm) for (let k = 0; k < this.sm.delay; k++) if (this.sm.flushStep()) this.processRow();
+    this.closeBlock();
+    return buildSummary(this, ctx);
+  }
+
+  private start(dt: number): void {
+    this.sampleRateHz = 1 / dt;
+    const h1 = Math.max(1, Math.round(this.opts.damperSmoothingS / dt / 2));
+    const h2 = Math.max(1, Math.round(this.opts.gateSmoothingS / dt / 2));
+    const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === AX_LT ? h1 : h2));
+    this.sm = new CentredSmoother(halves, dt);
+    const perBlock = this.opts.blockS / dt;
+    this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
+    this.blockMinUs = Math.max(2, Math.round(0.1 * perBlock));
+    this.estMin = Math.max(5, Math.round(0.5 / dt));
+    this.estMax = Math.round(5 / dt);
+  }
+
+  private run(block: ChannelBlock): void {
+    const sm = this.sm!;
+    for (let k = 0; k < SLOT_CHANNELS.length; k++) this.cols[k] = block.channels[SLOT_CHANNELS[k]] ?? null;
+    const cols = this.cols;
+    for (let r = 0; r < block.rows; r++) if (sm.step(cols, r)) this.processRow();
+  }
+
+  private closeBlock(): void {
+    this.aero.closeBlock(this.blockMin);
+    this.us.closeBlock(this.blockMinUs);
+  }
+
+  private processRow(): void {
+    const sm = this.sm!;
+    const m = sm.mean, sl = sm.slope, ce = sm.centre;
+    const t = ce[T];
+    if (t !== t) return;
+    if (this.rows === 0) this.t0 = t;
+    this.rows++;
+    this.tLast = t;
+    const tau = t - this.t0;
+    const blk = Math.floor(tau / this.opts.blockS);
+    if (blk !== this.block) { this.closeBlock(); this.block = blk; }
+    const g = this.opts.gates;
+    const c = this.model;
+    const v = m[V];
+    const band = v === v ? bandIndex(this.edgesMs, v) : -1;
+    if (band >= 0) this.bandRows[band]++;
+    const axG = m[AX] / G, ayG = m[AY] / G;
+    const xfl = m[DFL], xfr = m[DFR], xrl = m[DRL], xrr = m[DRR];
+    const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
+    const vFl = sl[DFL], vFr = sl[DFR], vRl = sl[DRL], vRr = sl[DRR];
+
+    // Static estimate from slow running with no load transfer (only when readings are not given).
+    if (!this.staticGiven && this.estN < this.estMax && dampersOk && v < 60 / 3.6 && v > 1 && Math.abs(axG) < 0.1 && Math.abs(ayG) < 0.1 &&
+      Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
+      this.est[0] += xfl; this.est[1] += xfr; this.est[2] += xrl; this.est[3] += xrr; this.estN++;
+    }
+    let ff = NaN, fr = NaN, inContactF = false, inContactR = false;
+    const st = c.staticDamperMm;
+    const estReady = this.estN >= this.estMin;
+    if (dampersOk && (st !== null || estReady || !this.hasBumpStops)) {
+      const n = this.estN || 1;
+      const bfl = (st ? st.fl : this.est[0] / n) + c.bumpGapFrontMm, bfr = (st ? st.fr : this.est[1] / n) + c.bumpGapFrontMm;
+      const brl = (st ? st.rl : this.est[2] / n) + c.bumpGapRearMm, brr = (st ? st.rr : this.est[3] / n) + c.bumpGapRearMm;
+      const cfl = xfl > bfl ? xfl - bfl : 0, cfr = xfr > bfr ? xfr - bfr : 0, crl = xrl > brl ? xrl - brl : 0, crr = xrr > brr ? xrr - brr : 0;
+      inContactF = cfl > 0 || cfr > 0;
+      inContactR = crl > 0 || crr > 0;
+      const lt = (c.massKg * m[AX_LT] * c.cogHeightM) / c.wheelbaseM;
+      ff = c.forcePerMmFront * (xfl + xfr - (st ? st.fl + st.fr : 0)) + c.bumpForcePerMmFront * (cfl + cfr) + lt;
+      fr = c.forcePerMmRear * (xrl + xrr - (st ? st.rl + st.rr : 0)) + c.bumpForcePerMmRear * (crl + crr) - lt;
+      if (st === null) {
+        if (this.refFront !== this.refFront) { this.refFront = ff; this.refRear = fr; }
+        ff -= this.refFront; fr -= this.refRear;
+      }
+    }
+    if (dampersOk && v > 30 / 3.6 && Math.abs(axG) > 0.05) {
+      const s = this.sign, sf = xfl + xfr, sr = xrl + xrr;
+      s.n++; s.sa += axG; s.saa += axG * axG; s.sf += sf; s.saf += axG * sf; s.sr += sr; s.sar += axG * sr;
+    }
+
+    // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
+    if (v >= g.aero_min_speed_kmh / 3.6 && Math.abs(m[AX_LT] / G) <= g.aero_max_long_g && dampersOk) {
+      const vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
+      if (Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
+        Math.abs(ce[DFL] - xfl) <= spike && Math.abs(ce[DFR] - xfr) <= spike && Math.abs(ce[DRL] - xrl) <= spike && Math.abs(ce[DRR] - xrr) <= spike) {
+        if (ff !== ff) this.aeroWaitingStatic++;
+        else {
+          const q = 0.5 * this.air.density_kg_m3 * v * v;
+          this.aero.add(tau, q, ff, fr, band, xfl + xfr, xrl + xrr, m[RHF], m[RHR]);
+          if (inContactF) this.contactFront++;
+          if (inContactR) this.contactRear++;
+        }
+      }
+    }
+
+    // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
+    if (v >= g.us_min_speed_kmh / 3.6) {
+      const steer = m[STEER], yaw = m[YAW];
+      const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : m[AY] / (v * v);
+      const geom = DEG_PER_RAD * c.wheelbaseM * kappa;
+      const steerRate = Math.abs(sl[STEER]);
+      const absAy = Math.abs(ayG);
+      if (steer === steer && geom === geom) {
+        if (absAy < g.straight_max_lat_g && steerRate < g.straight_max_steer_rate_deg_s && v >= g.straight_min_speed_kmh / 3.6) {
+          this.us.addStraight(steer - c.steeringRatio * geom);
+        } else if (band >= 0 && absAy >= g.us_min_lat_g && steerRate <= g.us_max_steer_rate_deg_s && Math.abs(sl[AY] / G) <= g.us_max_lat_jerk_g_s && Math.abs(axG) <= g.us_max_long_g) {
+          const road = steer / c.steeringRatio;
+          this.us.addCorner(band, ayG, road - geom);
+          this.us.signDot += road * geom;
+          this.us.signNorm += geom * geom;
+        }
+      }
+      if (yaw === yaw && absAy > 0.3) { this.yawSignDot += yaw * ayG > 0 ? 1 : -1; this.yawSignN++; }
+    }
+
+    const tr = this.traceRow;
+    tr[0] = ce[V] * 3.6; tr[1] = ce[AY] / G; tr[2] = ce[AX] / G; tr[3] = ce[STEER];
+    tr[4] = ce[DFL]; tr[5] = ce[DFR]; tr[6] = ce[DRL]; tr[7] = ce[DRR];
+    tr[8] = ff; tr[9] = fr; tr[10] = ce[RHF]; tr[11] = ce[RHR]; tr[12] = ce[YAW];
+    this.traces.push(t, tr);
+  }
+}
+
+export function createSummaryBuilder(car: CarInput, options: SummaryOptions = {}): SummaryBuilder {
+  return new SummaryBuilder(car, options);
+}
+
+function copyBlock(b: ChannelBlock): ChannelBlock {
+  const channels: ChannelBlock["channels"] = {};
+  for (const [k, v] of Object.entries(b.channels)) channels[k as keyof typeof channels] = Float64Array.from(v!.subarray(0, b.rows));
+  return { rows: b.rows, channels };
+}
+
+/** Median positive time step over the first rows; null until 16 steps are seen. */
+function estimateDt(blocks: ChannelBlock[]): number | null {
+  const steps: number[] = [];
+  let prev = NaN;
+  for (const b of blocks) {
+    const t = b.channels.time;
+    if (!t) continue;
+    for (let i = 0; i < b.rows && steps.length < 512; i++) {
+      const d = t[i] - prev;
+      if (d > 0) steps.push(d);
+      if (t[i] === t[i]) prev = t[i];
+    }
+  }
+  if (steps.length < 16) return null;
+  steps.sort((a, b) => a - b);
+  return steps[steps.length >> 1];
+}

@@ -1,0 +1,199 @@
+/**
+ * A small lap simulation of a fictional car, with the truth the engine should recover.
+ *
+ * The car follows the track's curvature at the profile's speed. Known to the simulation:
+ * ClA per axle (front ClA rising as the nose drops), bump stops, fuel burn, longitudinal and lateral
+ * load transfer, the chassis responding with a first-order lag behind the steering, road noise at
+ * the wheels, kerb strikes, sensor noise, a steering-wheel offset, and an understeer gradient from
+ * axle cornering stiffness that grows with vertical load (so K changes with speed as the aero loads
+ * the axles in a different ratio from the static weight).
+ */
+import { Prng, resonantNoise } from "./prng";
+import { speedProfile } from "./track";
+import type { TrackLayout } from "./track";
+
+const G = 9.80665;
+const DEG = 180 / Math.PI;
+
+export interface SimAxle { springNPerMm: number; motionRatio: number; bumpGapMm: number; bumpRateNPerMm: number; rollSpringShare: number; staticRideHeightMm: number; corneringCoeffPerRad: number }
+export interface SimCar {
+  name: string;
+  massKg: number; wheelbaseM: number; frontWeightFraction: number; cogHeightM: number; trackWidthM: number;
+  steeringRatio: number; steeringOffsetDeg: number; chassisLagS: number;
+  claFrontM2: number; claRearM2: number; claFrontPerMmDrop: number; cdaM2: number;
+  powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
+  tyreRateNPerMm: number; loadSensitivity: number;
+  fuelBurnKgPerS: number; fuelFrontShare: number;
+  front: SimAxle; rear: SimAxle;
+  staticDamperMm: { fl: number; fr: number; rl: number; rr: number };
+}
+
+export interface SimOptions { laps: number; rateHz: number; seed: number; airDensityKgM3: number; bandEdgesKmh: number[]; kerbs?: boolean }
+
+/** Columns in SI/engine units (time s, speed m/s, accel m/s², steer deg, dampers mm, ride height mm, yaw deg/s). */
+export interface SimColumns {
+  time: Float64Array; speed: Float64Array; lat_accel: Float64Array; long_accel: Float64Array; steer: Float64Array;
+  damper_fl: Float64Array; damper_fr: Float64Array; damper_rl: Float64Array; damper_rr: Float64Array;
+  ride_height_front: Float64Array; ride_height_rear: Float64Array; yaw_rate: Float64Array;
+}
+
+export interface SimTruth {
+  car: string; track: string; laps: number; rate_hz: number; seed: number; air_density_kg_m3: number;
+  cla_front_m2_at_static_ride_height: number; cla_rear_m2: number;
+  /** Least-squares slope of the simulation's true axle aero loads against q (running samples). */
+  cla_front_m2: number; cla_rear_m2_fit: number; cla_total_m2: number; balance_front_pct: number;
+  steering_offset_deg: number; fuel_burnt_kg: number; static_load_change_front_n: number; static_load_change_rear_n: number;
+  bump_stop_contact_front_pct: number; bump_stop_contact_rear_pct: number;
+  bands: { min_kmh: number; max_kmh: number; aero_load_front_n: number | null; aero_load_rear_n: number | null; balance_front_pct: number | null; understeer_gradient_deg_per_g: number | null; steady_samples: number }[];
+}
+
+function lag(x: Float64Array, dt: number, tau: number): Float64Array {
+  const y = new Float64Array(x.length);
+  const a = tau > 0 ? dt / (tau + dt) : 1;
+  y[0] = x[0];
+  for (let i = 1; i < x.length; i++) y[i] = y[i - 1] + a * (x[i] - y[i - 1]);
+  return y;
+}
+
+/** Damper travel (mm) of one corner from its spring-force change (N), with the bump stop engaging at the gap. */
+function damperTravelMm(dF: number, a: SimAxle): number {
+  const k = a.springNPerMm * a.motionRatio;
+  const x = dF / k;
+  if (x <= a.bumpGapMm || a.bumpRateNPerMm <= 0) return x;
+  return a.bumpGapMm + (dF - k * a.bumpGapMm) / ((a.springNPerMm + a.bumpRateNPerMm) * a.motionRatio);
+}
+
+function corneringStiffness(cc: number, fz: number, fz0: number, sens: number): number {
+  return cc * fz * (1 - sens * (fz / fz0 - 1));
+}
+
+export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): { columns: SimColumns; truth: SimTruth } {
+  const rng = new Prng(o.seed);
+  const rho = o.airDensityKgM3;
+  const prof = speedProfile(track, o.laps, { massKg: car.massKg, powerW: car.powerW, cdaM2: car.cdaM2, claTotalM2: car.claFrontM2 + car.claRearM2, muLat: car.muLat, muBrake: car.muBrake, cornerSpeedFactor: car.cornerSpeedFactor }, rho);
+  const dt = 1 / o.rateHz;
+  const total = prof.time[prof.time.length - 1];
+  const n = Math.floor(total / dt);
+  const V = new Float64Array(n), K = new Float64Array(n), AX = new Float64Array(n);
+  let j = 0;
+  for (let i = 0; i < n; i++) {
+    const t = i * dt;
+    while (j + 2 < prof.time.length && prof.time[j + 1] < t) j++;
+    const f = (t - prof.time[j]) / (prof.time[j + 1] - prof.time[j]);
+    V[i] = prof.speed[j] + f * (prof.speed[j + 1] - prof.speed[j]);
+    K[i] = prof.curvature[j] + f * (prof.curvature[j + 1] - prof.curvature[j]);
+    AX[i] = (V[i] * (prof.speed[j + 1] - prof.speed[j])) / prof.ds;
+  }
+  const ayPath = V.map((v, i) => v * v * K[i]);
+  const ayChassis = lag(ayPath, dt, car.chassisLagS);
+  const yawChassis = lag(V.map((v, i) => v * K[i] * DEG), dt, car.chassisLagS);
+  const axChassis = lag(AX, dt, 0.05);
+  const road = [0, 1, 2, 3].map((c) => resonantNoise(rng, n, o.rateHz, c < 2 ? 11 : 9, 0.9));
+  const body = resonantNoise(rng, n, o.rateHz, 2.5, 0.25);
+
+  const cols: SimColumns = {
+    time: new Float64Array(n), speed: new Float64Array(n), lat_accel: new Float64Array(n), long_accel: new Float64Array(n), steer: new Float64Array(n),
+    damper_fl: new Float64Array(n), damper_fr: new Float64Array(n), damper_rl: new Float64Array(n), damper_rr: new Float64Array(n),
+    ride_height_front: new Float64Array(n), ride_height_rear: new Float64Array(n), yaw_rate: new Float64Array(n),
+  };
+  const aeroF = new Float64Array(n), aeroR = new Float64Array(n), kTrue = new Float64Array(n);
+  const L = car.wheelbaseM, h = car.cogHeightM;
+  const fz0f = car.massKg * G * car.frontWeightFraction, fz0r = car.massKg * G * (1 - car.frontWeightFraction);
+  const kwF = car.front.springNPerMm * car.front.motionRatio ** 2;
+  let contactF = 0, contactR = 0, running = 0;
+  let kerb = 0;
+  for (let i = 0; i < n; i++) {
+    const t = i * dt;
+    const fuel = car.fuelBurnKgPerS * t;
+    const mass = car.massKg - fuel;
+    const q = 0.5 * rho * V[i] * V[i];
+    const lt = (-mass * axChassis[i] * h) / L;
+    const fuelF = -fuel * G * car.fuelFrontShare, fuelR = -fuel * G * (1 - car.fuelFrontShare);
+    // Front ClA depends on front ride height, which depends on the front load: iterate.
+    let fa = car.claFrontM2 * q;
+    let dropF = 0;
+    for (let it = 0; it < 4; it++) {
+      const dF = fa + lt + fuelF;
+      dropF = dF / 2 / kwF + dF / 2 / car.tyreRateNPerMm;
+      fa = car.claFrontM2 * q * (1 + car.claFrontPerMmDrop * dropF);
+    }
+    const ra = car.claRearM2 * q;
+    aeroF[i] = fa;
+    aeroR[i] = ra;
+    const latTotal = (mass * ayChassis[i] * h) / car.trackWidthM;
+    const latF = latTotal * car.frontWeightFraction * car.front.rollSpringShare / 1, latR = latTotal * (1 - car.frontWeightFraction) * car.rear.rollSpringShare;
+    const axleF = fa + lt + fuelF, axleR = ra - lt + fuelR;
+    // ay > 0 (left turn) loads the right-hand wheels.
+    const xfl = damperTravelMm(axleF / 2 - latF, car.front), xfr = damperTravelMm(axleF / 2 + latF, car.front);
+    const xrl = damperTravelMm(axleR / 2 - latR, car.rear), xrr = damperTravelMm(axleR / 2 + latR, car.rear);
+    if (V[i] > 20 / 3.6 && Math.abs(axChassis[i]) <= 0.6 * G) {
+      running++;
+      if (xfl > car.front.bumpGapMm || xfr > car.front.bumpGapMm) contactF++;
+      if (xrl > car.rear.bumpGapMm || xrr > car.rear.bumpGapMm) contactR++;
+    }
+    // Kerb strike on the inside wheels shortly after some corner exits.
+    if (o.kerbs !== false && kerb <= 0 && Math.abs(K[i]) > 1 / 70 && i > 0 && Math.abs(K[i]) < Math.abs(K[i - 1]) && rng.next() < 0.02) kerb = Math.round(0.12 / dt);
+    let kf = 0;
+    if (kerb > 0) { kf = 12 * Math.sin((Math.PI * kerb) / Math.round(0.12 / dt)); kerb--; }
+    const insideLeft = K[i] > 0;
+    cols.time[i] = t;
+    cols.speed[i] = V[i] * (1 + 0.003 * rng.gauss()) + 0.05 * rng.gauss();
+    cols.lat_accel[i] = ayChassis[i] + 0.3 * rng.gauss();
+    cols.long_accel[i] = axChassis[i] + 0.3 * rng.gauss();
+    cols.yaw_rate[i] = yawChassis[i] + 0.3 * rng.gauss();
+    const st = car.staticDamperMm;
+    cols.damper_fl[i] = st.fl + xfl + road[0][i] + body[i] + (insideLeft ? kf : 0) + 0.04 * rng.gauss();
+    cols.damper_fr[i] = st.fr + xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf) + 0.04 * rng.gauss();
+    cols.damper_rl[i] = st.rl + xrl + road[2][i] + body[i] + 0.04 * rng.gauss();
+    cols.damper_rr[i] = st.rr + xrr + road[3][i] + body[i] + 0.04 * rng.gauss();
+    cols.ride_height_front[i] = car.front.staticRideHeightMm - ((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
+    cols.ride_height_rear[i] = car.rear.staticRideHeightMm - ((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
+    // Steering: the steady-state relation at the path's demand (the chassis follows with a lag).
+    const cf = corneringStiffness(car.front.corneringCoeffPerRad, fz0f + fa, fz0f, car.loadSensitivity);
+    const cr = corneringStiffness(car.rear.corneringCoeffPerRad, fz0r + ra, fz0r, car.loadSensitivity);
+    kTrue[i] = DEG * (fz0f / cf - fz0r / cr);
+    const road_deg = DEG * L * K[i] + kTrue[i] * (ayPath[i] / G);
+    cols.steer[i] = car.steeringRatio * road_deg + car.steeringOffsetDeg + 0.15 * rng.gauss();
+  }
+  return { columns: cols, truth: truthOf(car, track, o, V, AX, ayPath, aeroF, aeroR, kTrue, n * dt, contactF, contactR, running) };
+}
+
+function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array, AX: Float64Array, ay: Float64Array, aeroF: Float64Array, aeroR: Float64Array, k: Float64Array, duration: number, contactF: number, contactR: number, running: number): SimTruth {
+  const rho = o.airDensityKgM3;
+  // True aero load vs q, least squares with an intercept, over running samples (|ax| ≤ 0.6 g).
+  let n = 0, sq = 0, sqq = 0, sf = 0, sqf = 0, sr = 0, sqr = 0;
+  const nb = o.bandEdgesKmh.length - 1;
+  const bn = new Float64Array(nb), bf = new Float64Array(nb), br = new Float64Array(nb), kw = new Float64Array(nb), ka = new Float64Array(nb), ks = new Float64Array(nb);
+  for (let i = 0; i < V.length; i++) {
+    const kmh = V[i] * 3.6;
+    let b = -1;
+    for (let e = 0; e < nb; e++) if (kmh >= o.bandEdgesKmh[e] && kmh < o.bandEdgesKmh[e + 1]) b = e;
+    if (V[i] >= 20 / 3.6 && Math.abs(AX[i]) <= 0.6 * G) {
+      const q = 0.5 * rho * V[i] * V[i];
+      n++; sq += q; sqq += q * q; sf += aeroF[i]; sqf += q * aeroF[i]; sr += aeroR[i]; sqr += q * aeroR[i];
+      if (b >= 0) { bn[b]++; bf[b] += aeroF[i]; br[b] += aeroR[i]; }
+    }
+    const ayg = Math.abs(ay[i] / G);
+    if (b >= 0 && ayg >= 0.2 && Math.abs(AX[i]) <= 0.1 * G) { kw[b] += ayg * ayg; ka[b] += k[i] * ayg * ayg; ks[b]++; }
+  }
+  const slope = (sy: number, sqy: number) => (sqy - (sq * sy) / n) / (sqq - (sq * sq) / n);
+  const claF = slope(sf, sqf), claR = slope(sr, sqr);
+  const fuel = car.fuelBurnKgPerS * duration;
+  const r4 = (v: number) => Math.round(v * 1e4) / 1e4;
+  return {
+    car: car.name, track: track.name, laps: o.laps, rate_hz: o.rateHz, seed: o.seed, air_density_kg_m3: rho,
+    cla_front_m2_at_static_ride_height: car.claFrontM2, cla_rear_m2: car.claRearM2,
+    cla_front_m2: r4(claF), cla_rear_m2_fit: r4(claR), cla_total_m2: r4(claF + claR), balance_front_pct: r4((100 * claF) / (claF + claR)),
+    steering_offset_deg: car.steeringOffsetDeg, fuel_burnt_kg: r4(fuel),
+    static_load_change_front_n: r4(-fuel * G * car.fuelFrontShare), static_load_change_rear_n: r4(-fuel * G * (1 - car.fuelFrontShare)),
+    bump_stop_contact_front_pct: r4((100 * contactF) / running), bump_stop_contact_rear_pct: r4((100 * contactR) / running),
+    bands: Array.from({ length: nb }, (_, b) => ({
+      min_kmh: o.bandEdgesKmh[b], max_kmh: o.bandEdgesKmh[b + 1],
+      aero_load_front_n: bn[b] ? r4(bf[b] / bn[b]) : null,
+      aero_load_rear_n: bn[b] ? r4(br[b] / bn[b]) : null,
+      balance_front_pct: bn[b] ? r4((100 * bf[b]) / (bf[b] + br[b])) : null,
+      understeer_gradient_deg_per_g: ks[b] ? r4(ka[b] / kw[b]) : null,
+      steady_samples: ks[b],
+    })),
+  };
+}

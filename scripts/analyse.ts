@@ -1,0 +1,98 @@
+/**
+ * analyse CLI (batch users depend on this contract):
+ *   npm run --silent analyse -- FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260]
+ *                                [--air-temp-c 20 --air-pressure-hpa 1013.25]
+ * Prints one JSON object (the session summary without its chart traces) on stdout and exits 0.
+ * Any bad input: exit 2, exactly one line `error: …` on stderr, nothing on stdout.
+ */
+import { createReadStream, readFileSync, statSync } from "node:fs";
+import { analyseLog } from "../app/engine/analyse";
+import { parseBandEdges } from "../app/engine/bands";
+import { validateCar } from "../app/engine/car";
+import { isEngineError } from "../app/engine/errors";
+import type { ChannelMap } from "../app/engine/types";
+
+class UsageError extends Error {}
+
+const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25]";
+const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa"] as const;
+type Flag = (typeof VALUE_FLAGS)[number];
+
+function parseArgs(argv: string[]): { file: string; flags: Partial<Record<Flag, string>> } {
+  const flags: Partial<Record<Flag, string>> = {};
+  const files: string[] = [];
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i];
+    if (arg === "--") continue;
+    if (arg.startsWith("--")) {
+      const eq = arg.indexOf("=");
+      const name = (eq > 0 ? arg.slice(0, eq) : arg) as Flag;
+      if (!VALUE_FLAGS.includes(name)) throw new UsageError(`unknown option ${arg.slice(0, 60)}; ${USAGE}`);
+      const value = eq > 0 ? arg.slice(eq + 1) : argv[++i];
+      if (value === undefined || value === "") throw new UsageError(`${name} needs a value; ${USAGE}`);
+      if (flags[name] !== undefined) throw new UsageError(`${name} is given twice`);
+      flags[name] = value;
+    } else files.push(arg);
+  }
+  if (files.length === 0) throw new UsageError(`no log file given; ${USAGE}`);
+  if (files.length > 1) throw new UsageError(`one log file at a time (got ${files.length}: ${files.slice(0, 3).join(", ")})`);
+  if (!flags["--car"]) throw new UsageError(`--car CAR.json is required; ${USAGE}`);
+  if (!flags["--map"]) throw new UsageError(`--map MAP.json is required; ${USAGE}`);
+  return { file: files[0], flags };
+}
+
+function readJson(path: string, what: string): unknown {
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch (e) {
+    throw new UsageError(`cannot read the ${what} ${path}: ${(e as NodeJS.ErrnoException).code === "ENOENT" ? "no such file" : (e as Error).message}`);
+  }
+  try {
+    return JSON.parse(text.replace(/^\uFEFF/, ""));
+  } catch (e) {
+    throw new UsageError(`the ${what} ${path} is not valid JSON: ${(e as Error).message}`);
+  }
+}
+
+function numberFlag(value: string | undefined, name: string): number | undefined {
+  if (value === undefined) return undefined;
+  const n = Number(value.trim().replace(",", "."));
+  if (value.trim() === "" || !Number.isFinite(n)) throw new UsageError(`${name} must be a number, got "${value}"`);
+  return n;
+}
+
+async function main(): Promise<void> {
+  const { file, flags } = parseArgs(process.argv.slice(2));
+  const car = validateCar(readJson(flags["--car"]!, "car file"));
+  const mapJson = readJson(flags["--map"]!, "channel map");
+  if (typeof mapJson !== "object" || mapJson === null || Array.isArray(mapJson)) throw new UsageError(`the channel map ${flags["--map"]} must be a JSON object`);
+  const bandEdgesKmh = flags["--bands"] !== undefined ? parseBandEdges(flags["--bands"]) : undefined;
+  const airTempC = numberFlag(flags["--air-temp-c"], "--air-temp-c");
+  const airPressureHpa = numberFlag(flags["--air-pressure-hpa"], "--air-pressure-hpa");
+  let stat;
+  try {
+    stat = statSync(file);
+  } catch (e) {
+    throw new UsageError(`cannot read the log file ${file}: ${(e as NodeJS.ErrnoException).code === "ENOENT" ? "no such file" : (e as Error).message}`);
+  }
+  if (!stat.isFile()) throw new UsageError(`the log file ${file} is not a regular file`);
+  const stream = createReadStream(file, { highWaterMark: 1 << 20 });
+  const summary = await analyseLog(stream, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa });
+  const { traces: _traces, ...out } = summary;
+  process.stdout.write(JSON.stringify(out) + "\n");
+}
+
+main().then(
+  () => { process.exitCode = 0; },
+  (e: unknown) => {
+    const oneLine = (s: string) => s.replace(/\s*\n\s*/g, " ").trim();
+    if (e instanceof UsageError || isEngineError(e) || (e as NodeJS.ErrnoException)?.code?.startsWith?.("E")) {
+      process.stderr.write(`error: ${oneLine((e as Error).message)}\n`);
+      process.exitCode = 2;
+    } else {
+      process.stderr.write(`error: internal error: ${oneLine(e instanceof Error ? e.message : String(e))}\n`);
+      process.exitCode = 1;
+    }
+  },
+);
