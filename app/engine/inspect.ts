@@ -173,7 +173,9 @@ export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan 
   for (let i = 0; i < cells.length && h < 0; i++) {
     const row = cells[i];
     if (row.length !== fields || numericShare(row, false) >= 0.5 || row.filter(isBlank).length > fields / 2) continue;
-    if (isDataRow(i + 1) || (isUnitsRow(i + 1) && isDataRow(i + 2))) h = i;
+    // Two data rows in a row (where the sample has them), so a "key;value" preamble line is not taken for data.
+    const dataFrom = (k: number) => isDataRow(k) && (k + 1 >= cells.length || isDataRow(k + 1));
+    if (dataFrom(i + 1) || (isUnitsRow(i + 1) && dataFrom(i + 2))) h = i;
   }
   if (h < 0) throw noHeader(`none of the first ${lines.length} lines is a row of ${fields} column names followed by data rows`);
   const unitsRow = isUnitsRow(h + 1);
