@@ -46,6 +46,7 @@ export default [
   route("api/t/:teamSlug/cars/import", "routes/api/cars-import.ts"),
   route("api/t/:teamSlug/cars/:carId/setups/:setupId/car.json", "routes/api/cars-export.ts"),
 
-  // Anything else.
+  // Anything else: JSON under /api/, the not-found page elsewhere.
+  route("api/*", "routes/api/not-found.ts"),
   route("*", "routes/home/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -1,9 +1,7 @@
 import { data, Link } from "react-router";
 import type { Route } from "./+types/not-found";
 
-export function loader({ request }: Route.LoaderArgs) {
-  const path = new URL(request.url).pathname;
-  if (path.startsWith("/api/")) throw Response.json({ error: "No such resource." }, { status: 404 });
+export function loader() {
   throw data("There is nothing at this address.", { status: 404 });
 }
 
