@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
+import { Wordmark } from "./wordmark";
 
 export function Panel({ title, children, actions }: { title?: ReactNode; children: ReactNode; actions?: ReactNode }) {
   return (
@@ -45,9 +46,9 @@ export function Caution({ compact }: { compact?: boolean }) {
 export function AuthCard({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {
   return (
     <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-4 py-10">
-      <Link to="/" className="mb-6 text-lg font-semibold tracking-tight text-ink">
-        Rake<span className="text-front">l</span>ine
-      </Link>
+      <div className="mb-6 text-lg">
+        <Wordmark />
+      </div>
       <div className="rounded border border-rule bg-panel px-6 py-6">
         <h1 className="mb-4 text-xl font-semibold">{title}</h1>
         {children}
