@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { existsSync, readdirSync, readFileSync } from "node:fs";
+import { readdirSync, readFileSync } from "node:fs";
+import { validateCar } from "~/engine/car";
 import { carInputToText, fromCarInput, parseCarInputText, toCarInput } from "~/lib/garage/car-json";
 
 // The CAR.json contract (issue #3, app/engine/types.ts CarInput): exactly these keys, in this order.
@@ -51,15 +52,20 @@ describe("CAR.json import → export", () => {
     expect(JSON.parse(roundTrip(JSON.stringify(minimal)))).toEqual(minimal);
   });
 
-  const sampleDir = "sample-data/cars";
-  const samples = existsSync(sampleDir) ? readdirSync(sampleDir).filter((f) => f.endsWith(".json")) : [];
-  it.each(samples.length ? samples : ["(none yet)"])("the demo car file %s round-trips", (file) => {
-    if (file === "(none yet)") {
-      expect(samples).toEqual([]);
-      return;
-    }
-    const text = readFileSync(`${sampleDir}/${file}`, "utf8");
-    expect(JSON.parse(roundTrip(text))).toEqual(JSON.parse(text));
+  // The demo generator's car files (sample-data/cars) are the CLI's own inputs: each must survive.
+  const samples = readdirSync("sample-data/cars").filter((f) => f.endsWith(".json"));
+  it("finds the demo generator's car files", () => {
+    expect(samples.length).toBeGreaterThan(0);
+  });
+  it.each(samples)("the demo car file %s round-trips and stays valid for the engine", (file) => {
+    const text = readFileSync(`sample-data/cars/${file}`, "utf8");
+    const out = roundTrip(text);
+    expect(JSON.parse(out)).toEqual(JSON.parse(text));
+    expect(() => validateCar(JSON.parse(out))).not.toThrow();
+  });
+
+  it("the exported file passes the engine's own car validation (app/engine/car.ts)", () => {
+    expect(validateCar(JSON.parse(roundTrip(CAR_FILE)))).toEqual(JSON.parse(CAR_FILE));
   });
 });
 

@@ -10,6 +10,7 @@ import {
   keepIfUnchanged,
   parseTypedNumber,
   NOT_A_NUMBER,
+  StoredValue,
   toStored,
 } from "~/lib/garage/units";
 
@@ -67,7 +68,7 @@ describe("typed numbers", () => {
     // 2450 mm / 25.4 = 96.456692... in (NIST SP 811 factor); shown with 6 significant digits.
     const shown = formatForInput(2450, "length", "imperial");
     expect(shown).toBe("96.4567");
-    expect(keepIfUnchanged(shown, 2450, "length", "imperial")).toBe(2450);
+    expect(keepIfUnchanged(shown, 2450, "length", "imperial")).toEqual(new StoredValue(2450));
     expect(keepIfUnchanged("97", 2450, "length", "imperial")).toBe("97");
   });
 });

@@ -6,7 +6,7 @@
 import { z } from "zod";
 import { CAR_FIELDS, SETUP_FIELDS, describeValue, rangeProblem, type NumberFieldSpec, type TextFieldSpec } from "./fields";
 import { summariseCornerWeights } from "./corner-weights";
-import { NOT_A_NUMBER, isUnitSystem, parseTypedNumber, toStored, type UnitSystem } from "./units";
+import { NOT_A_NUMBER, StoredValue, isUnitSystem, parseTypedNumber, toStored, type UnitSystem } from "./units";
 import { bumpStopTableProblem, linearRateFromTable, parseBumpStopTable, type BumpStopPoint } from "./bump-stop";
 
 /**
@@ -21,6 +21,11 @@ function numberField(spec: NumberFieldSpec & { required: true }, system: UnitSys
 function numberField(spec: NumberFieldSpec, system: UnitSystem): z.ZodType<number | null, unknown>;
 function numberField(spec: NumberFieldSpec, system: UnitSystem): z.ZodType<any, unknown> {
   return present((raw, ctx) => {
+    if (raw instanceof StoredValue) {
+      const problem = rangeProblem(spec, raw.value, system);
+      if (problem) ctx.addIssue({ code: "custom", message: problem });
+      return problem ? z.NEVER : raw.value;
+    }
     const typed = parseTypedNumber(raw);
     if (typed === NOT_A_NUMBER) {
       ctx.addIssue({ code: "custom", message: `${spec.label}: "${String(raw)}" is not a number.` });

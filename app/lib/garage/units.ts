@@ -107,6 +107,11 @@ export function formatQuantity(
   return unit ? `${text} ${unit}` : text;
 }
 
+/** A value already in stored units (kept from the database), passed through the form schema unconverted. */
+export class StoredValue {
+  constructor(readonly value: number) {}
+}
+
 /**
  * When a form is re-submitted, a field whose text still equals what the form showed for the
  * stored value keeps the stored value exactly (no drift from imperial rounding).
@@ -118,5 +123,5 @@ export function keepIfUnchanged(
   system: UnitSystem,
 ): unknown {
   if (stored === null || stored === undefined || typeof typed !== "string") return typed;
-  return typed.trim() === formatForInput(stored, quantity, system) ? stored : typed;
+  return typed.trim() === formatForInput(stored, quantity, system) ? new StoredValue(stored) : typed;
 }

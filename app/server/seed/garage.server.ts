@@ -1,6 +1,7 @@
 /**
  * Demo Garage for the invented scenario: Harrowgate Motor Club's two fictional cars, each with a
- * setup sheet of a few versions that differ in wing and spring settings. Idempotent: a car that
+ * setup sheet of a few versions that differ in wing and spring settings. Version 1 of each holds
+ * the same car data as the demo generator's car files in sample-data/cars/. Idempotent: a car that
  * already exists by name is left exactly as it is (edits made in the app stay).
  */
 import { and, eq } from "drizzle-orm";
@@ -43,11 +44,11 @@ export const DEMO_CARS: DemoCar[] = [
       trackFrontMm: 1480,
       trackRearMm: 1450,
       cogHeightMm: 380,
-      steeringRatio: 11,
+      steeringRatio: 11.5,
       tyreVerticalStiffnessNPerMm: 280,
       fuelTankFromFrontAxleMm: 1350,
       fuelDensityKgPerL: 0.745,
-      ...withCorners(138, 135, 175, 172), // 620 kg with driver, 44.0 % front
+      ...withCorners(131, 129.4, 180.2, 179.4), // 620 kg with driver, 42 % front (as sample-data/cars/marlin-sr2.json)
       weighedWithDriver: true,
       weighedFuelL: 30,
       notes: "Invented demo car. Scales at the Kestrel Bank Raceway paddock, driver in, 30 L.",
@@ -56,19 +57,19 @@ export const DEMO_CARS: DemoCar[] = [
     base: {
       ...none,
       frontSpringRateNPerMm: 100,
-      rearSpringRateNPerMm: 125,
-      frontMotionRatio: 0.9,
-      rearMotionRatio: 0.85,
+      rearSpringRateNPerMm: 120,
+      frontMotionRatio: 0.95,
+      rearMotionRatio: 0.9,
       frontBumpStopKind: "linear",
-      frontBumpStopGapMm: 20,
-      frontBumpStopRateNPerMm: 400,
+      frontBumpStopGapMm: 9,
+      frontBumpStopRateNPerMm: 250,
       rearBumpStopKind: "linear",
-      rearBumpStopGapMm: 25,
-      rearBumpStopRateNPerMm: 500,
-      staticDamperFlMm: 42,
-      staticDamperFrMm: 41.5,
-      staticDamperRlMm: 48,
-      staticDamperRrMm: 47.6,
+      rearBumpStopGapMm: 14,
+      rearBumpStopRateNPerMm: 300,
+      staticDamperFlMm: 31.2,
+      staticDamperFrMm: 29.8,
+      staticDamperRlMm: 35.5,
+      staticDamperRrMm: 36.1,
       rideHeightFrontMm: 55,
       rideHeightRearMm: 70,
       arbFront: "Blade 2 of 5",
@@ -79,7 +80,7 @@ export const DEMO_CARS: DemoCar[] = [
       changeNote: "Baseline from the last club round",
     },
     versions: [
-      { rearWingAngleDeg: 9, rearSpringRateNPerMm: 140, changeNote: "More wing and rear spring for the fast sweepers" },
+      { rearWingAngleDeg: 9, rearSpringRateNPerMm: 135, changeNote: "More wing and rear spring for the fast sweepers" },
       { rearWingAngleDeg: 12, frontSpringRateNPerMm: 110, frontAero: "Splitter flat, small dive planes", changeNote: "Balance the extra wing at the front" },
     ],
   },
@@ -95,7 +96,7 @@ export const DEMO_CARS: DemoCar[] = [
       tyreVerticalStiffnessNPerMm: 320,
       fuelTankFromFrontAxleMm: 1700,
       fuelDensityKgPerL: 0.745,
-      ...withCorners(372, 368, 306, 304), // 1350 kg with driver, 54.8 % front
+      ...withCorners(345.5, 343, 331, 330.5), // 1350 kg with driver, 51 % front (as sample-data/cars/vesper-gt4r.json)
       weighedWithDriver: true,
       weighedFuelL: 50,
       notes: "Invented demo car. Weighed before the Coldwater Ridge hill-climb, driver in, 50 L.",
@@ -103,25 +104,20 @@ export const DEMO_CARS: DemoCar[] = [
     sheetName: "Kestrel Bank dry",
     base: {
       ...none,
-      frontSpringRateNPerMm: 180,
-      rearSpringRateNPerMm: 160,
+      frontSpringRateNPerMm: 160,
+      rearSpringRateNPerMm: 180,
       frontMotionRatio: 0.8,
       rearMotionRatio: 0.75,
       frontBumpStopKind: "linear",
-      frontBumpStopGapMm: 25,
-      frontBumpStopRateNPerMm: 800,
-      rearBumpStopKind: "table",
-      rearBumpStopGapMm: 30,
-      rearBumpStopTable: [
-        { deflectionMm: 5, forceN: 600 },
-        { deflectionMm: 10, forceN: 1500 },
-        { deflectionMm: 15, forceN: 2800 },
-        { deflectionMm: 20, forceN: 4500 },
-      ],
-      staticDamperFlMm: 38.2,
-      staticDamperFrMm: 38.6,
-      staticDamperRlMm: 44.1,
-      staticDamperRrMm: 43.8,
+      frontBumpStopGapMm: 12,
+      frontBumpStopRateNPerMm: 500,
+      rearBumpStopKind: "linear",
+      rearBumpStopGapMm: 25,
+      rearBumpStopRateNPerMm: 400,
+      staticDamperFlMm: null,
+      staticDamperFrMm: null,
+      staticDamperRlMm: null,
+      staticDamperRrMm: null,
       rideHeightFrontMm: 75,
       rideHeightRearMm: 88,
       arbFront: "Position 3",
@@ -133,7 +129,19 @@ export const DEMO_CARS: DemoCar[] = [
     },
     versions: [
       { rearWingAngleDeg: 7, rearWingStep: "Hole 4 of 6", changeNote: "One hole more rear wing" },
-      { rearWingAngleDeg: 7, rearWingStep: "Hole 4 of 6", frontSpringRateNPerMm: 200, rearSpringRateNPerMm: 175, changeNote: "Stiffer springs for the banking" },
+      {
+        rearWingAngleDeg: 7,
+        rearWingStep: "Hole 4 of 6",
+        frontSpringRateNPerMm: 180,
+        rearBumpStopKind: "table",
+        rearBumpStopRateNPerMm: null,
+        rearBumpStopTable: [
+          { deflectionMm: 5, forceN: 900 },
+          { deflectionMm: 10, forceN: 2200 },
+          { deflectionMm: 15, forceN: 4000 },
+        ],
+        changeNote: "Stiffer front springs; progressive rear packer measured on the rig",
+      },
     ],
   },
 ];
