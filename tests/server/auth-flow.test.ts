@@ -11,7 +11,7 @@ import * as newTeamRoute from "~/routes/teams/new";
 import * as dashboardRoute from "~/routes/teams/dashboard";
 import * as settingsRoute from "~/routes/teams/settings";
 import * as invitationRoute from "~/routes/teams/invitation";
-import { requireMember } from "~/server/permissions.server";
+import { requireMember, type Permission } from "~/server/permissions.server";
 import { pool } from "~/server/db.server";
 
 const run = randomBytes(4).toString("hex");
@@ -140,7 +140,8 @@ describe("sign-up to team roles", () => {
     driverJar = await inviteAndAccept(ownerJar, driver, "driver");
     const ctx = await requireMember(getRequest(`/t/${teamSlug}`, driverJar), teamSlug, { car: ["read"] });
     expect(ctx.role).toBe("driver");
-    for (const permission of [{ session: ["read"] }, { compare: ["read"] }, { setup: ["read"] }] as const) {
+    const unshared: Permission[] = [{ session: ["read"] }, { compare: ["read"] }, { setup: ["read"] }];
+    for (const permission of unshared) {
       const refused = await outcome(() => requireMember(getRequest(`/t/${teamSlug}/sessions`, driverJar), teamSlug, permission));
       expect(refused.status).toBe(403);
     }
