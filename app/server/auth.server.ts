@@ -33,10 +33,13 @@ export const auth = betterAuth({
     sendOnSignIn: true,
     autoSignInAfterVerification: true,
     expiresIn: 24 * 60 * 60,
-    sendVerificationEmail: async ({ user, token }) => {
-      // better-auth verifies the token, signs the user in and sends them on to /verify.
-      const url = `${appUrl}/api/auth/verify-email?token=${encodeURIComponent(token)}&callbackURL=${encodeURIComponent("/verify")}`;
-      await sendMail(verificationMail(user.email, user.name, url));
+    sendVerificationEmail: async ({ user, url }) => {
+      // better-auth verifies the token, signs the user in and sends them on to the callback: /verify
+      // (with ?next= when the sign-up form carried one, e.g. back to an invitation).
+      const link = new URL(url);
+      const callback = link.searchParams.get("callbackURL");
+      if (!callback || !callback.startsWith("/verify")) link.searchParams.set("callbackURL", "/verify");
+      await sendMail(verificationMail(user.email, user.name, link.toString()));
     },
   },
   rateLimit: { enabled: env.AUTH_RATE_LIMIT === "on", window: 60, max: 100 },

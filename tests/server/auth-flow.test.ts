@@ -7,6 +7,7 @@ import { firstLink, mailCatcherDir, waitForMailTo, waitForMessage } from "./help
 import { appUrl, args, authCall, CookieJar, formRequest, getRequest, outcome } from "./auth-support";
 import * as verifyRoute from "~/routes/auth/verify";
 import * as signInRoute from "~/routes/auth/sign-in";
+import * as signUpRoute from "~/routes/auth/sign-up";
 import * as newTeamRoute from "~/routes/teams/new";
 import * as dashboardRoute from "~/routes/teams/dashboard";
 import * as settingsRoute from "~/routes/teams/settings";
@@ -38,14 +39,32 @@ async function signUpAndVerify(person: { name: string; email: string }): Promise
   return jar;
 }
 
+/**
+ * The invitee's way in: the invitation mail → the sign-up form with next=/invitations/:id → the
+ * confirmation link → back at the invitation → accept.
+ */
 async function inviteAndAccept(ownerJar: CookieJar, person: { name: string; email: string }, role: string): Promise<CookieJar> {
   const invited = await outcome(() => settingsRoute.action(args(formRequest(`/t/${teamSlug}/settings`, { intent: "invite", email: person.email, role }, ownerJar), { teamSlug })));
   expect(invited.status).toBe(200);
-  const jar = await signUpAndVerify(person);
-  // The newest mail to the person is the confirmation; the invitation came first.
   const invitationMail = await waitForMailToSubject(person.email, /invited you/);
   const invitationPath = new URL(firstLink(invitationMail, appUrl)).pathname;
   const id = invitationPath.split("/").at(-1)!;
+
+  const jar = new CookieJar();
+  const signedUp = await outcome(() =>
+    signUpRoute.action(args(formRequest("/sign-up", { ...person, password: PASSWORD, confirmPassword: PASSWORD, next: invitationPath }))),
+  );
+  expect(signedUp.status).toBe(200);
+  const confirmation = await waitForMailToSubject(person.email, /Confirm your e-mail/);
+  const verified = await authCall(firstLink(confirmation, appUrl).slice(`${appUrl}/api/auth`.length), { jar });
+  expect(verified.status).toBe(302);
+  const verifyTarget = new URL(verified.headers.get("location")!, appUrl);
+  const back = await outcome(() => verifyRoute.loader(args(getRequest(verifyTarget.pathname + verifyTarget.search, jar))));
+  expect(back.location).toBe(invitationPath);
+
+  const page = await outcome(() => invitationRoute.loader(args(getRequest(invitationPath, jar), { id })));
+  expect((page.body as { state: string; role: string }).state).toBe("open");
+  expect((page.body as { role: string }).role).toBe(role);
   const accepted = await outcome(() => invitationRoute.action(args(formRequest(invitationPath, { intent: "accept" }, jar), { id })), jar);
   expect(accepted.status).toBe(302);
   expect(accepted.location).toBe(`/t/${teamSlug}`);
