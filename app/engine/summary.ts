@@ -22,9 +22,12 @@ import { UndersteerAccumulator } from "./understeer";
 export type { SessionSummary, FinishContext } from "./summary-types";
 export type { SummaryOptions } from "./summary-options";
 
-/** Smoother slots. Long acceleration twice: gate smoothing, and damper smoothing for the correction. */
-const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11, AX_LT = 12;
-const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate", "long_accel"] as const;
+/**
+ * Smoother slots. Long acceleration and speed twice: smoothed like the gates, and smoothed like the
+ * dampers for the load-transfer correction and q (so a speed change does not lead the damper signal).
+ */
+const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11, AX_LT = 12, V_AERO = 13;
+const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate", "long_accel", "speed"] as const;
 export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
 
 export class SummaryBuilder {
@@ -108,7 +111,7 @@ export class SummaryBuilder {
     this.sampleRateHz = 1 / dt;
     const h1 = Math.max(1, Math.round(this.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(this.opts.gateSmoothingS / dt / 2));
-    const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === AX_LT ? h1 : h2));
+    const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === AX_LT || i === V_AERO ? h1 : h2));
     this.sm = new CentredSmoother(halves, dt);
     const perBlock = this.opts.blockS / dt;
     this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
@@ -183,10 +186,11 @@ export class SummaryBuilder {
       const vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
       if (Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
         Math.abs(ce[DFL] - xfl) <= spike && Math.abs(ce[DFR] - xfr) <= spike && Math.abs(ce[DRL] - xrl) <= spike && Math.abs(ce[DRR] - xrr) <= spike) {
+        const va = m[V_AERO];
         if (ff !== ff) this.aeroWaitingStatic++;
-        else {
-          const q = 0.5 * this.air.density_kg_m3 * v * v;
-          this.aero.add(tau, q, ff, fr, band, xfl + xfr, xrl + xrr, m[RHF], m[RHR]);
+        else if (va === va) {
+          const q = 0.5 * this.air.density_kg_m3 * va * va;
+          this.aero.add(tau, q, ff, fr, bandIndex(this.edgesMs, va), xfl + xfr, xrl + xrr, m[RHF], m[RHR]);
           if (inContactF) this.contactFront++;
           if (inContactR) this.contactRear++;
         }

@@ -1,0 +1,72 @@
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+
+// The analyse CLI contract from the engine issue: one JSON object on stdout and exit 0; any bad
+// input exits 2 with exactly one `error: …` line on stderr, nothing on stdout, no stack trace
+// (common practice for batch tools: exit status and a single parseable line).
+const ROOT = join(__dirname, "..", "..");
+const LOG = "sample-data/logs/marlin-kestrel-comma.csv";
+const CAR = "sample-data/cars/marlin-sr2.json";
+const MAP = "sample-data/logs/marlin-kestrel-comma.map.json";
+const dir = mkdtempSync(join(tmpdir(), "rakeline-cli-"));
+
+function cli(args: string[]) {
+  const r = spawnSync("npm", ["run", "--silent", "analyse", "--", ...args], { cwd: ROOT, encoding: "utf8" });
+  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function file(name: string, content: string | Buffer): string {
+  const p = join(dir, name);
+  writeFileSync(p, content);
+  return p;
+}
+
+describe("analyse CLI: good input", () => {
+  it("prints one JSON object with the contract fields and exits 0", () => {
+    const r = cli([LOG, "--car", CAR, "--map", MAP, "--bands", "0,80,120,160,260", "--air-temp-c", "20", "--air-pressure-hpa", "1013.25"]);
+    expect(r.stderr).toBe("");
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    for (const k of ["samples", "duration_s", "air_density_kg_m3"]) expect(typeof out[k]).toBe("number");
+    for (const k of ["cla_front_m2", "cla_rear_m2", "cla_total_m2", "balance_front_pct", "samples"]) expect(typeof out.aero[k]).toBe("number");
+    for (const k of ["from_front_axle_mm", "cog_from_front_axle_mm", "cop_behind_cog_mm"]) expect(typeof out.cop[k]).toBe("number");
+    expect(out.bands.map((b: { min_kmh: number; max_kmh: number }) => [b.min_kmh, b.max_kmh])).toEqual([[0, 80], [80, 120], [120, 160], [160, 260]]);
+    for (const b of out.bands) for (const k of ["samples", "aero_load_front_n", "aero_load_rear_n", "balance_front_pct", "understeer_gradient_deg_per_g", "understeer_samples"]) expect(k in b).toBe(true);
+    expect(Array.isArray(out.warnings)).toBe(true);
+    // Dry air at 20 °C, 1013.25 hPa: ρ = p/(R·T) = 101 325 / (287.05287 × 293.15) = 1.2041 kg/m³ (ISO 2533 constants).
+    expect(out.air_density_kg_m3).toBeCloseTo(1.2041, 4);
+    expect(r.stdout.trim().split("\n")).toHaveLength(1);
+    expect(/NaN|Infinity/.test(r.stdout)).toBe(false);
+  });
+});
+
+describe("analyse CLI: bad input exits 2 with one error line", () => {
+  const car = JSON.parse(readFileSync(join(ROOT, CAR), "utf8"));
+  const map = JSON.parse(readFileSync(join(ROOT, MAP), "utf8"));
+  const cases: [string, () => string[], RegExp][] = [
+    ["missing log file", () => ["no-such-file.csv", "--car", CAR, "--map", MAP], /no such file/],
+    ["empty log file", () => [file("empty.csv", ""), "--car", CAR, "--map", MAP], /empty/],
+    ["binary log file", () => [file("bin.csv", Buffer.from([0x50, 0x4b, 3, 4, 0, 0, 1, 2, 3])), "--car", CAR, "--map", MAP], /not a text export|not text/],
+    ["car file that is not JSON", () => [LOG, "--car", file("car.json", "{ name: oops"), "--map", MAP], /not valid JSON/],
+    ["motion ratio of 7", () => [LOG, "--car", file("car7.json", JSON.stringify({ ...car, front: { ...car.front, motion_ratio: 7 } })), "--map", MAP], /front\.motion_ratio/],
+    ["mapped column absent", () => [LOG, "--car", CAR, "--map", file("map.json", JSON.stringify({ ...map, speed: { column: "Velocity", unit: "km/h" } }))], /Velocity/],
+    ["unknown unit", () => [LOG, "--car", CAR, "--map", file("map2.json", JSON.stringify({ ...map, speed: { column: "Speed", unit: "furlongs" } }))], /furlongs/],
+    ["bad bands", () => [LOG, "--car", CAR, "--map", MAP, "--bands", "0,120,80"], /increase/],
+    ["unknown flag", () => [LOG, "--car", CAR, "--map", MAP, "--verbose"], /unknown option --verbose/],
+    ["missing --map", () => [LOG, "--car", CAR], /--map/],
+    ["non-numeric temperature", () => [LOG, "--car", CAR, "--map", MAP, "--air-temp-c", "warm"], /--air-temp-c/],
+  ];
+  it.each(cases)("%s", (_name, args, message) => {
+    const r = cli(args());
+    expect(r.status).toBe(2);
+    expect(r.stdout).toBe("");
+    const lines = r.stderr.trimEnd().split("\n");
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatch(/^error: /);
+    expect(lines[0]).toMatch(message);
+    expect(/\n\s+at /.test(r.stderr)).toBe(false);
+  });
+});

@@ -1,0 +1,142 @@
+import { describe, expect, it } from "vitest";
+import { createSummaryBuilder } from "~/engine/summary";
+import type { SessionSummary } from "~/engine/summary";
+import type { CarInput, ChannelBlock } from "~/engine/types";
+import { carFor, emptyTrace, G, toBlocks } from "./summary-synthetic";
+import type { Trace } from "./summary-synthetic";
+
+// Synthetic stint: speed swinging 15–55 m/s; spring loads = ClA·½ρV² − m·ax·h/L at the front and
+// + at the rear (aero square law, common practice; longitudinal load transfer, Gillespie ch. 2 from
+// memory), turned into damper travel with ΔFw = Ks·MR·Δx (Barton & Fieldhouse §3.9).
+const CLA_F = 0.45, CLA_R = 0.75, RHO = 1.225;
+
+function stint(car: CarInput, seconds = 300, hz = 100, extra?: (t: number, tr: Trace) => void): Trace {
+  const tr = emptyTrace();
+  const lt = (ax: number) => (car.mass_kg * ax * car.cog_height_mm) / car.wheelbase_mm;
+  for (let i = 0; i < seconds * hz; i++) {
+    const t = i / hz;
+    const w = (2 * Math.PI) / 40;
+    const v = 35 + 20 * Math.sin(w * t);
+    const ax = 20 * w * Math.cos(w * t);
+    const q = 0.5 * RHO * v * v;
+    tr.time.push(t); tr.speed.push(v); tr.ax.push(ax); tr.ay.push(0); tr.steer.push(0);
+    tr.loadFront.push(CLA_F * q - lt(ax)); tr.loadRear.push(CLA_R * q + lt(ax));
+    extra?.(t, tr);
+  }
+  return tr;
+}
+
+function run(car: CarInput, blocks: ChannelBlock[], bands?: number[]): SessionSummary {
+  const b = createSummaryBuilder(car, bands ? { bandEdgesKmh: bands } : {});
+  for (const blk of blocks) b.push(blk);
+  return b.finish();
+}
+
+function hasNaN(v: unknown): boolean {
+  if (typeof v === "number") return !Number.isFinite(v);
+  if (Array.isArray(v)) return v.some(hasNaN);
+  if (v && typeof v === "object") return Object.values(v).some(hasNaN);
+  return false;
+}
+
+describe("streaming summary", () => {
+  const car = carFor();
+  const tr = stint(car);
+
+  it("recovers ClA per axle and the balance from corrected accelerating samples", () => {
+    // Expected values are the inputs of the square-law model above.
+    const s = run(car, toBlocks(tr, car));
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
+    expect(s.aero.cla_rear_m2!).toBeCloseTo(CLA_R, 3);
+    expect(s.aero.balance_front_pct!).toBeCloseTo((100 * CLA_F) / (CLA_F + CLA_R), 1);
+    expect(s.summary_version).toBe(1);
+  });
+
+  it("does not depend on how the rows are split into blocks", () => {
+    // Common practice: a streaming computation must give the same answer for any chunking.
+    const a = run(car, toBlocks(tr, car, 4096));
+    const b = run(car, toBlocks(tr, car, 7));
+    expect(b).toEqual(a);
+  });
+
+  it("is plain JSON with no NaN, and keeps the traces to the bucket budget with peaks intact", () => {
+    // Common practice for chart decimation: min/max per bucket keeps a one-sample spike visible.
+    const spiky = stint(car);
+    spiky.steer[12_345] = 400;
+    const s = run(car, toBlocks(spiky, car));
+    expect(JSON.parse(JSON.stringify(s))).toEqual(s);
+    expect(hasNaN(s)).toBe(false);
+    const steer = s.traces.channels.steer_deg;
+    expect(s.traces.t_s.length).toBeLessThanOrEqual(2048);
+    expect(s.traces.t_s.length).toBeGreaterThan(1000);
+    expect(Math.max(...steer.max.map((v) => v ?? -Infinity))).toBe(400);
+  });
+
+  it("gives null with a reason when a figure cannot be estimated", () => {
+    // No cornering at all: an understeer gradient cannot be estimated (SAE J670 defines it in turns).
+    const s = run(car, toBlocks(tr, car));
+    for (const band of s.bands) expect(band.understeer_gradient_deg_per_g).toBeNull();
+    expect(s.warnings.some((w) => w.code === "few_understeer_samples")).toBe(true);
+    // A 10 s log has too little running for a ClA fit.
+    const short = run(car, toBlocks(stint(car, 8), car));
+    expect(short.aero.cla_front_m2).toBeNull();
+    expect(short.cop.from_front_axle_mm).toBeNull();
+    expect(short.warnings.some((w) => w.code === "few_aero_samples")).toBe(true);
+  });
+
+  it("flags front dampers logged with the wrong sign", () => {
+    // Braking compresses the front springs (load transfer, Gillespie ch. 2, from memory).
+    const blocks = toBlocks(tr, car);
+    for (const b of blocks) for (const k of ["damper_fl", "damper_fr"] as const) b.channels[k] = b.channels[k]!.map((x) => -x);
+    const s = run(car, blocks);
+    expect(s.warnings.some((w) => w.code === "suspected_sign_error" && /front/.test(w.message))).toBe(true);
+  });
+
+  it("models a linear static-load drift (fuel burn) and keeps ClA unbiased", () => {
+    // 0.74 kg/L petrol: 10 L ≈ 72.6 N of static load over the stint (common practice figure).
+    const burnN = 10 * 0.74 * G;
+    const drifting = stint(car, 300, 100, (t, x) => {
+      const i = x.loadFront.length - 1;
+      x.loadFront[i] -= 0.4 * burnN * (t / 300);
+      x.loadRear[i] -= 0.6 * burnN * (t / 300);
+    });
+    const s = run(car, toBlocks(drifting, car));
+    expect(s.aero.fuel_drift_modelled).toBe(true);
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
+    expect(s.aero.rear.static_load_change_over_stint_n!).toBeCloseTo(-0.6 * burnN, -1);
+    expect(s.warnings.some((w) => w.code === "static_load_drift")).toBe(true);
+  });
+
+  it("models bump-stop contact and reports its share", () => {
+    // Piecewise spring: past the gap the stop adds Kbs·MR·(x − gap) (common practice).
+    const bumpCar = carFor({ front: { spring_rate_n_per_mm: 120, motion_ratio: 0.9, bump_stop: { gap_mm: 3, rate_n_per_mm: 300 } } });
+    const blocks = toBlocks(tr, bumpCar);
+    const k = 120 * 0.9, kb = 300 * 0.9;
+    let r0 = 0;
+    for (const b of blocks) {
+      for (const [c, st] of [["damper_fl", 30], ["damper_fr", 31]] as const) {
+        const x = b.channels[c]!;
+        for (let i = 0; i < b.rows; i++) {
+          const f = tr.loadFront[r0 + i] / 2;
+          x[i] = st + (f / k <= 3 ? f / k : 3 + (f - 3 * k) / (k + kb));
+        }
+      }
+      r0 += b.rows;
+    }
+    const s = run(bumpCar, blocks);
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 2);
+    expect(s.aero.bump_stop_contact_front_pct!).toBeGreaterThan(10);
+    expect(s.warnings.some((w) => w.code === "bump_stop_contact")).toBe(true);
+  });
+
+  it("survives dropouts (NaN cells) without zeros leaking in", () => {
+    // NaN = dropout convention (DEVELOPERS.md); a zero would read as a 30 mm extension.
+    const blocks = toBlocks(tr, car);
+    let n = 0;
+    for (const b of blocks) for (let i = 0; i < b.rows; i += 97) { b.channels.damper_fl![i] = NaN; b.channels.speed![(i + 13) % b.rows] = NaN; n++; }
+    expect(n).toBeGreaterThan(100);
+    const s = run(car, blocks);
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 2);
+    expect(hasNaN(s)).toBe(false);
+  });
+});
