@@ -32,7 +32,7 @@ export default function EditCar({ loaderData, actionData }: Route.ComponentProps
   const { car, team } = loaderData;
   // Without corner weights, mass and front % are the stated values and stay editable.
   return (
-    <main className="mx-auto max-w-5xl px-4 py-6">
+    <div className="max-w-5xl">
       <h1 className="mb-4 text-2xl font-semibold">Edit {car.name}</h1>
       <CarForm
         draftKey={`${team.slug}:car:${car.id}`}
@@ -42,7 +42,7 @@ export default function EditCar({ loaderData, actionData }: Route.ComponentProps
         formError={actionData?.errors ? "Some values need a look; each is marked below. Nothing was changed." : undefined}
         submitLabel="Save car"
       />
-    </main>
+    </div>
   );
 }
 

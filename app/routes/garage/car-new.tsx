@@ -25,7 +25,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export default function NewCar({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <main className="mx-auto max-w-5xl px-4 py-6">
+    <div className="max-w-5xl">
       <h1 className="mb-1 text-2xl font-semibold">New car</h1>
       <p className="mb-4 text-sm text-ink-soft">
         Enter the dimensions and the four scale readings; Rakeline works out mass, static front %, cross weight and where
@@ -42,7 +42,7 @@ export default function NewCar({ loaderData, actionData }: Route.ComponentProps)
       <div className="mt-6">
         <Caution compact />
       </div>
-    </main>
+    </div>
   );
 }
 

@@ -107,7 +107,7 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
   const base = `/t/${team.slug}/garage/${car.id}`;
   const suffix = units === "imperial" ? "?units=imperial" : "";
   return (
-    <main className="mx-auto max-w-6xl space-y-4 px-4 py-6">
+    <div className="space-y-4">
       <header className="flex flex-wrap items-center justify-between gap-3">
         <div>
           <p className="text-sm text-ink-soft">
@@ -189,7 +189,7 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
         )}
       </Panel>
       <Caution compact />
-    </main>
+    </div>
   );
 }
 

@@ -29,7 +29,7 @@ export default function Cars({ loaderData }: Route.ComponentProps) {
   const base = `/t/${team.slug}/garage`;
   const filtered = Boolean(query.q || query.category);
   return (
-    <main className="mx-auto max-w-6xl px-4 py-6">
+    <div>
       <header className="mb-4 flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl font-semibold">Garage</h1>
         {canEdit && (
@@ -110,7 +110,7 @@ export default function Cars({ loaderData }: Route.ComponentProps) {
           </table>
         </div>
       )}
-    </main>
+    </div>
   );
 }
 

@@ -34,7 +34,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function ImportCar({ actionData }: Route.ComponentProps) {
   const errors = actionData?.errors;
   return (
-    <main className="mx-auto max-w-3xl px-4 py-6">
+    <div className="max-w-3xl">
       <h1 className="mb-1 text-2xl font-semibold">Import a car file</h1>
       <p className="mb-4 text-sm text-ink-soft">
         A CAR.json as the command-line analysis reads it becomes a new car with one setup (version 1). Corner weights are
@@ -68,7 +68,7 @@ export default function ImportCar({ actionData }: Route.ComponentProps) {
       <div className="mt-6">
         <Caution compact />
       </div>
-    </main>
+    </div>
   );
 }
 

@@ -34,7 +34,7 @@ export default function SetupDiff({ loaderData }: Route.ComponentProps) {
   const { before, after, rows, units, team, carId } = loaderData;
   const base = `/t/${team.slug}/garage/${carId}/setups`;
   return (
-    <main className="mx-auto max-w-4xl space-y-4 px-4 py-6">
+    <div className="max-w-4xl space-y-4">
       <header className="flex items-end justify-between">
         <h1 className="text-2xl font-semibold">
           {after.name}: <Link to={`${base}/${before.id}`} className="underline">v{before.version}</Link> →{" "}
@@ -68,7 +68,7 @@ export default function SetupDiff({ loaderData }: Route.ComponentProps) {
           </table>
         )}
       </Panel>
-    </main>
+    </div>
   );
 }
 

@@ -41,7 +41,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function EditSetup({ loaderData, actionData }: Route.ComponentProps) {
   const { setup, team } = loaderData;
   return (
-    <main className="mx-auto max-w-5xl px-4 py-6">
+    <div className="max-w-5xl">
       <h1 className="mb-4 text-2xl font-semibold">
         Edit {setup.sheetName} <span className="num text-ink-soft">v{setup.version}</span>
       </h1>
@@ -54,7 +54,7 @@ export default function EditSetup({ loaderData, actionData }: Route.ComponentPro
         mode="edit"
         used={setup.sessions}
       />
-    </main>
+    </div>
   );
 }
 

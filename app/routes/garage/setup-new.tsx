@@ -38,7 +38,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function NewSetup({ loaderData, actionData }: Route.ComponentProps) {
   const { car, team, initial } = loaderData;
   return (
-    <main className="mx-auto max-w-5xl px-4 py-6">
+    <div className="max-w-5xl">
       <h1 className="mb-4 text-2xl font-semibold">New setup for {car.name}</h1>
       <SetupForm
         draftKey={`${team.slug}:setup:new:${car.id}`}
@@ -51,7 +51,7 @@ export default function NewSetup({ loaderData, actionData }: Route.ComponentProp
       <div className="mt-6">
         <Caution compact />
       </div>
-    </main>
+    </div>
   );
 }
 

@@ -47,7 +47,7 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
   const exportUrl = `/api/t/${team.slug}/cars/${car.id}/setups/${setup.id}/car.json`;
   const others = history.filter((h) => h.id !== setup.id);
   return (
-    <main className="mx-auto max-w-6xl space-y-4 px-4 py-6">
+    <div className="space-y-4">
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <p className="text-sm text-ink-soft">
@@ -125,7 +125,7 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
         </table>
       </Panel>
       <Caution compact />
-    </main>
+    </div>
   );
 }
 
