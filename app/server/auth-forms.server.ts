@@ -1,9 +1,24 @@
 import { redirect } from "react-router";
 import { auth } from "./auth.server";
+import { env } from "./env.server";
 import { withAuthCookies } from "./session.server";
 
-// The sign-in family of forms, over better-auth's server API. Each answer is either a redirect that
-// carries better-auth's cookies, or a specific message for the form.
+// The sign-in family of forms. Each form action calls better-auth's HTTP endpoint with the browser's
+// own headers, so its rate limiter (by CLIENT_IP_HEADER) and Origin/CSRF checks apply to the forms
+// exactly as to /api/auth. Each answer is either a redirect carrying better-auth's cookies, or a
+// specific message for the form.
+
+const FORWARDED = ["cookie", "origin", "referer", "user-agent", "sec-fetch-site", "sec-fetch-mode", "sec-fetch-dest"];
+const appUrl = env.APP_URL.replace(/\/$/, "");
+
+function callAuth(request: Request, path: string, body: unknown): Promise<Response> {
+  const headers = new Headers({ "content-type": "application/json" });
+  for (const name of [...FORWARDED, env.CLIENT_IP_HEADER.toLowerCase()]) {
+    const value = request.headers.get(name);
+    if (value) headers.set(name, value);
+  }
+  return auth.handler(new Request(`${appUrl}/api/auth${path}`, { method: "POST", headers, body: JSON.stringify(body) }));
+}
 
 type AuthFailure = { status: number; code: string; message: string };
 export type FormResult = { ok: true; response: Response } | { ok: false; formError: string; status: number };
@@ -43,10 +58,11 @@ export function verifyCallback(next: string | undefined): string {
 }
 
 export async function signUp(request: Request, input: { name: string; email: string; password: string; next?: string }): Promise<FormResult> {
-  const response = await auth.api.signUpEmail({
-    body: { name: input.name, email: input.email, password: input.password, callbackURL: verifyCallback(input.next) },
-    headers: request.headers,
-    asResponse: true,
+  const response = await callAuth(request, "/sign-up/email", {
+    name: input.name,
+    email: input.email,
+    password: input.password,
+    callbackURL: verifyCallback(input.next),
   });
   if (!response.ok) {
     const f = await failureOf(response);
@@ -56,11 +72,7 @@ export async function signUp(request: Request, input: { name: string; email: str
 }
 
 export async function signIn(request: Request, input: { email: string; password: string }, next: string): Promise<FormResult> {
-  const response = await auth.api.signInEmail({
-    body: { email: input.email, password: input.password, callbackURL: verifyCallback(next) },
-    headers: request.headers,
-    asResponse: true,
-  });
+  const response = await callAuth(request, "/sign-in/email", { email: input.email, password: input.password, callbackURL: verifyCallback(next) });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
@@ -69,12 +81,12 @@ export async function signIn(request: Request, input: { email: string; password:
 }
 
 export async function signOut(request: Request): Promise<Response> {
-  const response = await auth.api.signOut({ headers: request.headers, asResponse: true });
+  const response = await callAuth(request, "/sign-out", {});
   return withAuthCookies(response, redirect("/"));
 }
 
 export async function requestPasswordReset(request: Request, email: string): Promise<FormResult> {
-  const response = await auth.api.requestPasswordReset({ body: { email, redirectTo: "/reset-password" }, headers: request.headers, asResponse: true });
+  const response = await callAuth(request, "/request-password-reset", { email, redirectTo: "/reset-password" });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
@@ -83,7 +95,7 @@ export async function requestPasswordReset(request: Request, email: string): Pro
 }
 
 export async function resetPassword(request: Request, token: string, newPassword: string): Promise<FormResult> {
-  const response = await auth.api.resetPassword({ body: { token, newPassword }, headers: request.headers, asResponse: true });
+  const response = await callAuth(request, "/reset-password", { token, newPassword });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
@@ -92,11 +104,7 @@ export async function resetPassword(request: Request, token: string, newPassword
 }
 
 export async function changePassword(request: Request, currentPassword: string, newPassword: string): Promise<FormResult> {
-  const response = await auth.api.changePassword({
-    body: { currentPassword, newPassword, revokeOtherSessions: true },
-    headers: request.headers,
-    asResponse: true,
-  });
+  const response = await callAuth(request, "/change-password", { currentPassword, newPassword, revokeOtherSessions: true });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
