@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { carFormSchema, fieldErrors, setupFormSchema } from "~/lib/garage/schemas";
 import { linearRateFromTable, parseBumpStopTable } from "~/lib/garage/bump-stop";
+import { applyExactNumbers } from "~/lib/garage/form-data";
+import { CAR_FIELDS } from "~/lib/garage/fields";
 
 const car = {
   name: "Test car",
@@ -116,5 +118,23 @@ describe("bump-stop tables", () => {
   it("a falling force is refused with the row number", () => {
     const errors = errorsOf(setupFormSchema("metric").safeParse({ ...setup, frontBumpStopKind: "table", frontBumpStopGapMm: "10", frontBumpStopTable: "2 100\n4 80" }));
     expect(errors.frontBumpStopTable).toMatch(/row 2: force must not fall/);
+  });
+});
+
+describe("exact values behind converted inputs", () => {
+  // 1367 lb × 0.45359237 = 620.06 kg (NIST SP 811), no corner weights
+  const imperialCar = { name: "Imperial", steeringRatio: "12", fuelDensityKgPerL: "0.745", massKg: "1367", staticFrontWeightPct: "44" };
+  it("a value typed in mm, shown in inches and posted back unchanged is stored as typed", () => {
+    // 2450 mm / 25.4 = 96.4567 in at 6 significant digits; 96.4567 × 25.4 = 2450.00018 mm would be stored otherwise
+    const fields = { ...imperialCar, wheelbaseMm: "96.4567", "exact.wheelbaseMm": "2450", cogHeightMm: "16.5354", "exact.cogHeightMm": "420" };
+    const exact = carFormSchema("imperial").safeParse(applyExactNumbers(fields, CAR_FIELDS, "imperial"));
+    expect(exact.success && exact.data.wheelbaseMm).toBe(2450);
+    expect(exact.success && exact.data.cogHeightMm).toBe(420);
+  });
+
+  it("once the person edits the text, the typed value counts (97 in × 25.4 = 2463.8 mm)", () => {
+    const fields = { ...imperialCar, wheelbaseMm: "97", "exact.wheelbaseMm": "2450", cogHeightMm: "16.5" };
+    const edited = carFormSchema("imperial").safeParse(applyExactNumbers(fields, CAR_FIELDS, "imperial"));
+    expect(edited.success && edited.data.wheelbaseMm).toBeCloseTo(2463.8, 10);
   });
 });

@@ -10,6 +10,24 @@ import { formatForInput, parseTypedNumber, NOT_A_NUMBER, toStored, type Quantity
 
 type SchemaFactory = (system: UnitSystem) => z.ZodType;
 const DRAFT_PREFIX = "rakeline:draft:";
+const EXACT_PREFIX = "exact.";
+
+/** A hidden `exact.<field>` input holding the stored value behind a converted number. */
+function setExact(form: HTMLFormElement, field: string, stored: string, shown?: string) {
+  let input = form.elements.namedItem(EXACT_PREFIX + field) as HTMLInputElement | null;
+  if (!input) {
+    input = document.createElement("input");
+    input.type = "hidden";
+    input.name = EXACT_PREFIX + field;
+    form.appendChild(input);
+  }
+  input.value = stored;
+  if (shown !== undefined) input.dataset.shown = shown;
+  else {
+    const visible = form.elements.namedItem(field);
+    if (visible instanceof HTMLInputElement) input.dataset.shown = visible.value;
+  }
+}
 
 function readForm(form: HTMLFormElement): Record<string, string> {
   const out: Record<string, string> = {};
@@ -48,6 +66,7 @@ export function useGarageForm(options: {
       if (raw) {
         const draft = JSON.parse(raw) as { savedAt: string; system: UnitSystem; values: Record<string, string> };
         for (const [name, value] of Object.entries(draft.values)) {
+          if (name.startsWith(EXACT_PREFIX)) setExact(form, name.slice(EXACT_PREFIX.length), value);
           const el = form.elements.namedItem(name);
           if (el instanceof HTMLInputElement && el.type === "checkbox") el.checked = value === "on";
           else if (el instanceof HTMLInputElement || el instanceof HTMLTextAreaElement || el instanceof HTMLSelectElement) el.value = value;
@@ -107,7 +126,12 @@ export function useGarageForm(options: {
       const typed = parseTypedNumber(el.value);
       if (typed === undefined || typed === NOT_A_NUMBER) continue;
       const quantity = el.dataset.quantity as Quantity;
-      el.value = formatForInput(toStored(typed, quantity, system), quantity, next);
+      // The exact stored value rides along, so switching units does not move a value by rounding.
+      const exact = form.elements.namedItem(EXACT_PREFIX + el.name);
+      const previous = exact instanceof HTMLInputElement && el.value.trim() === exact.dataset.shown ? Number(exact.value) : null;
+      const stored = previous ?? toStored(typed, quantity, system);
+      el.value = formatForInput(stored, quantity, next);
+      setExact(form, el.name, String(stored), el.value);
     }
     setSystemState(next);
     setValues(readForm(form));

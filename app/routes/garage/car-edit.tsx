@@ -4,7 +4,7 @@ import { carRowValues, getCar, updateCar } from "~/server/garage-cars.server";
 import { ids } from "~/server/garage-routes.server";
 import { CAR_FIELDS } from "~/lib/garage/fields";
 import { carFormSchema, fieldErrors } from "~/lib/garage/schemas";
-import { formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { CarForm } from "~/components/garage/car-form";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/car-edit";
@@ -22,7 +22,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const current = await getCar(ctx.team.id, carId);
   const fields = formFields(await request.formData());
   const system = unitSystemOf(fields.units);
-  const parsed = carFormSchema(system).safeParse(keepUnchangedNumbers(fields, CAR_FIELDS, current, system));
+  const parsed = carFormSchema(system).safeParse(keepUnchangedNumbers(applyExactNumbers(fields, CAR_FIELDS, system), CAR_FIELDS, current, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
   await updateCar(ctx.team.id, carId, carRowValues(parsed.data));
   return redirect(`/t/${ctx.team.slug}/garage/${carId}`);

@@ -2,7 +2,8 @@ import { data, redirect } from "react-router";
 import { requireMember } from "~/server/permissions.server";
 import { carRowValues, createCar } from "~/server/garage-cars.server";
 import { carFormSchema, fieldErrors } from "~/lib/garage/schemas";
-import { formFields, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, formFields, unitSystemOf } from "~/lib/garage/form-data";
+import { CAR_FIELDS } from "~/lib/garage/fields";
 import { CarForm } from "~/components/garage/car-form";
 import { Caution } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
@@ -17,7 +18,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
   const fields = formFields(await request.formData());
   const system = unitSystemOf(fields.units);
-  const parsed = carFormSchema(system).safeParse(fields);
+  const parsed = carFormSchema(system).safeParse(applyExactNumbers(fields, CAR_FIELDS, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
   const carId = await createCar(ctx.team.id, ctx.user.id, carRowValues(parsed.data));
   return redirect(`/t/${ctx.team.slug}/garage/${carId}`);

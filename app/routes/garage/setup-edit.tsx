@@ -4,7 +4,7 @@ import { getSetup, saveSetupEdit, setupRowValues } from "~/server/garage-setups.
 import { ids } from "~/server/garage-routes.server";
 import { SETUP_FIELDS } from "~/lib/garage/fields";
 import { fieldErrors, setupFormSchema } from "~/lib/garage/schemas";
-import { formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { SetupForm } from "~/components/garage/setup-form";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/setup-edit";
@@ -22,7 +22,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const current = await getSetup(ctx.team.id, carId, setupId);
   const fields = formFields(await request.formData());
   const system = unitSystemOf(fields.units);
-  const parsed = setupFormSchema(system).safeParse(keepUnchangedNumbers(fields, SETUP_FIELDS, current, system));
+  const parsed = setupFormSchema(system).safeParse(keepUnchangedNumbers(applyExactNumbers(fields, SETUP_FIELDS, system), SETUP_FIELDS, current, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
   const { sheetName, values } = setupRowValues(parsed.data);
   const saved = await saveSetupEdit({
