@@ -4,7 +4,7 @@ import { can, requireMember } from "~/server/permissions.server";
 import { duplicateCar, getCar } from "~/server/garage-cars.server";
 import { SETUP_SORTS, duplicateSetup, listSetupSheets } from "~/server/garage-setups.server";
 import { displayUnits, ids, searchParamsOf } from "~/server/garage-routes.server";
-import { cogFromFrontAxleMm, summariseCornerWeights } from "~/lib/garage/corner-weights";
+import { cogFromFrontAxleMm, summariseCornerWeights, withFuelChange } from "~/lib/garage/corner-weights";
 import { formatQuantity, type UnitSystem } from "~/lib/garage/units";
 import { Caution, EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
@@ -74,6 +74,19 @@ function Figures({ car, units }: { car: Route.ComponentProps["loaderData"]["car"
     ["Fuel tank behind the front axle", len(car.fuelTankFromFrontAxleMm)],
     ["Fuel density", `${car.fuelDensityKgPerL} kg/L`],
   ];
+  if (car.fuelTankFromFrontAxleMm !== null) {
+    // What 10 L of fuel burnt does to the static figures (lever rule about the axles).
+    const burn = withFuelChange({
+      massKg: car.massKg,
+      staticFrontPct: car.staticFrontWeightPct,
+      wheelbaseMm: car.wheelbaseMm,
+      fuelChangeL: -10,
+      fuelDensityKgPerL: car.fuelDensityKgPerL,
+      tankFromFrontAxleMm: car.fuelTankFromFrontAxleMm,
+    });
+    const shift = burn.staticFrontPct - car.staticFrontWeightPct;
+    rows.push(["Per 10 L of fuel burnt", `${formatQuantity(burn.fuelMassChangeKg, "mass", units, 2)}, front ${shift >= 0 ? "+" : ""}${shift.toFixed(2)} pp`]);
+  }
   return (
     <div className="grid gap-4 md:grid-cols-[1fr_auto]">
       <dl className="grid grid-cols-[1fr_auto] gap-x-6 gap-y-0.5 text-sm">
