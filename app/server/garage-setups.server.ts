@@ -11,6 +11,7 @@ import { analysisSessions } from "../db/schema/sessions";
 import { user } from "../db/schema/auth";
 import type { SetupFormValues } from "../lib/garage/schemas";
 import { diffSetups, summariseDiff } from "../lib/garage/diff";
+import type { UnitSystem } from "../lib/garage/units";
 import { db } from "./db.server";
 import { getCar } from "./garage-cars.server";
 
@@ -98,7 +99,7 @@ export async function isSetupUsed(setupId: string): Promise<boolean> {
 }
 
 /** Every version of a sheet, newest first, each with what changed from the one before. */
-export async function setupHistory(teamId: string, sheetId: string) {
+export async function setupHistory(teamId: string, sheetId: string, units: UnitSystem = "metric") {
   const rows = await db
     .select({ setup: setups, authorName: user.name })
     .from(setups)
@@ -114,7 +115,7 @@ export async function setupHistory(teamId: string, sheetId: string) {
     authorName: r.authorName,
     changeNote: r.setup.changeNote,
     sessions: used.get(r.setup.id) ?? 0,
-    change: i === 0 ? "first version" : summariseDiff(diffSetups(rows[i - 1].setup, r.setup, "metric")),
+    change: i === 0 ? "first version" : summariseDiff(diffSetups(rows[i - 1].setup, r.setup, units)),
   }));
   return history.reverse();
 }

@@ -21,14 +21,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { carId, setupId } = ids(params, "carId", "setupId");
   const car = await getCar(ctx.team.id, carId);
   const setup = await getSetup(ctx.team.id, carId, setupId);
-  const history = await setupHistory(ctx.team.id, setup.sheetId);
+  const units = displayUnits(request);
+  const history = await setupHistory(ctx.team.id, setup.sheetId, units);
   return {
     team: ctx.team,
     car: { id: car.id, name: car.name },
     setup,
     history,
     notice: searchParamsOf(request, searchSchema),
-    units: displayUnits(request),
+    units,
     canEdit: can(ctx.role, { setup: ["update"] }),
     canCreate: can(ctx.role, { setup: ["create"] }),
   };
@@ -82,6 +83,12 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
       )}
       <Panel title="Setup">
         <SetupSheet setup={setup} units={units} />
+        {(setup.frontBumpStopKind === "table" || setup.rearBumpStopKind === "table") && (
+          <p className="mt-2 text-xs text-caution">
+            The analysis models a linear bump stop: the CAR.json carries the table's least-squares rate through zero
+            (shown as "fit"), which understates a progressive stop deep in its travel.
+          </p>
+        )}
       </Panel>
       <Panel title="History">
         {others.length > 0 && (
