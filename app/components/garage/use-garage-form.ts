@@ -89,6 +89,12 @@ export function useGarageForm(options: {
     [storageKey],
   );
 
+  // A form the server refused comes back with its values still in the inputs: keep them as the draft again.
+  useEffect(() => {
+    if (formRef.current && options.serverErrors && Object.keys(options.serverErrors).length) saveDraft(formRef.current, system);
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- only when a new answer arrives
+  }, [options.serverErrors]);
+
   const onInput = (event: FormEvent<HTMLFormElement>) => {
     const form = event.currentTarget;
     setValues(readForm(form));

@@ -1,4 +1,4 @@
-import { Form, Link, redirect } from "react-router";
+import { Form, Link, data, redirect } from "react-router";
 import { z } from "zod";
 import { can, requireMember } from "~/server/permissions.server";
 import { duplicateCar, getCar } from "~/server/garage-cars.server";
@@ -43,7 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const { carId } = ids(params, "carId");
   const parsed = intentSchema.safeParse(Object.fromEntries(await request.formData()));
-  if (!parsed.success) throw new Response("Unknown action.", { status: 400 });
+  if (!parsed.success) throw data("Unknown action: duplicate-car or duplicate-setup (with a setupId).", { status: 400 });
   const base = `/t/${ctx.team.slug}/garage`;
   if (parsed.data.intent === "duplicate-car") {
     await requireMember(request, params.teamSlug, { car: ["create"] });

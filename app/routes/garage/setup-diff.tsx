@@ -1,4 +1,4 @@
-import { Link } from "react-router";
+import { Link, data } from "react-router";
 import { z } from "zod";
 import { requireMember } from "~/server/permissions.server";
 import { getSetup } from "~/server/garage-setups.server";
@@ -15,7 +15,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const { carId, setupId } = ids(params, "carId", "setupId");
   const parsed = searchSchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
-  if (!parsed.success) throw new Response("Choose a version to compare with (?against=…).", { status: 400 });
+  if (!parsed.success) throw data("Choose a version to compare with (?against=<setup id>).", { status: 400 });
   const [a, b] = await Promise.all([getSetup(ctx.team.id, carId, parsed.data.against), getSetup(ctx.team.id, carId, setupId)]);
   // Older version on the left, whichever order the link named them in.
   const [before, after] = a.version <= b.version ? [a, b] : [b, a];
