@@ -2,7 +2,7 @@ import { Link, data } from "react-router";
 import { z } from "zod";
 import { requireMember } from "~/server/permissions.server";
 import { getSetup } from "~/server/garage-setups.server";
-import { displayUnits, ids, searchParamsOf } from "~/server/garage-routes.server";
+import { displayUnits, ids } from "~/server/garage-routes.server";
 import { diffSetups } from "~/lib/garage/diff";
 import { Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
