@@ -9,6 +9,7 @@ import { formatQuantity, type UnitSystem } from "~/lib/garage/units";
 import { Caution, EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
+import { CogDiagram } from "~/components/garage/cog-diagram";
 import type { Route } from "./+types/car";
 
 const searchSchema = z.object({
@@ -97,20 +98,23 @@ function Figures({ car, units }: { car: Route.ComponentProps["loaderData"]["car"
           </div>
         ))}
       </dl>
-      {corners && (
-        <figure className="text-sm">
-          <figcaption className="mb-1 text-ink-soft">
-            Scales: driver {car.weighedWithDriver ? "in" : "out"}, fuel {formatQuantity(car.weighedFuelL, "volume", units)}
-          </figcaption>
-          <div className="num grid grid-cols-2 gap-1 text-right">
-            {[car.cornerFlKg, car.cornerFrKg, car.cornerRlKg, car.cornerRrKg].map((w, i) => (
-              <div key={i} className={`rounded border px-3 py-1 ${i < 2 ? "border-front" : "border-rear"}`}>
-                <span className="float-left text-ink-faint">{["FL", "FR", "RL", "RR"][i]}</span> {formatQuantity(w, "mass", units)}
-              </div>
-            ))}
-          </div>
-        </figure>
-      )}
+      <div className="space-y-3">
+        <CogDiagram wheelbaseMm={car.wheelbaseMm} cogFromFrontMm={cogFromFrontAxleMm(car.wheelbaseMm, car.staticFrontWeightPct)} cogHeightMm={car.cogHeightMm} />
+        {corners && (
+          <figure className="text-sm">
+            <figcaption className="mb-1 text-ink-soft">
+              Scales: driver {car.weighedWithDriver ? "in" : "out"}, fuel {formatQuantity(car.weighedFuelL, "volume", units)}
+            </figcaption>
+            <div className="num grid grid-cols-2 gap-1 text-right">
+              {[car.cornerFlKg, car.cornerFrKg, car.cornerRlKg, car.cornerRrKg].map((w, i) => (
+                <div key={i} className={`rounded border px-3 py-1 ${i < 2 ? "border-front" : "border-rear"}`}>
+                  <span className="float-left text-ink-faint">{["FL", "FR", "RL", "RR"][i]}</span> {formatQuantity(w, "mass", units)}
+                </div>
+              ))}
+            </div>
+          </figure>
+        )}
+      </div>
     </div>
   );
 }
