@@ -27,7 +27,7 @@ export function NumberInput({ name, spec, system, defaultValue, error, hint, cla
   className?: string;
 }) {
   const id = `f-${name}`;
-  const unit = unitLabel(spec.quantity, system);
+  const unit = spec.displayUnit ?? unitLabel(spec.quantity, system);
   return (
     <div className={className ?? "mb-3"}>
       <label htmlFor={id} className="mb-1 block text-sm font-medium">
@@ -46,7 +46,7 @@ export function NumberInput({ name, spec, system, defaultValue, error, hint, cla
           aria-describedby={`${id}-msg`}
           className={`num text-right ${inputLook(error)}`}
         />
-        {unit && <span className="num w-14 shrink-0 text-sm text-ink-soft">{unit}</span>}
+        <span className="num w-14 shrink-0 text-sm text-ink-soft">{unit}</span>
       </div>
       <Message id={`${id}-msg`} error={error} hint={hint ?? spec.hint} />
     </div>

@@ -2,15 +2,18 @@ import type { ReactNode } from "react";
 import { Link, useSearchParams } from "react-router";
 
 /** A column header that sorts the table through the URL (?sort=…&dir=…), so the server does the work. */
-export function SortHeader({ column, children, align = "left", defaultSort }: {
+export function SortHeader({ column, children, align = "left", defaultSort, defaultDir = "asc" }: {
   column: string;
   children: ReactNode;
   align?: "left" | "right";
   defaultSort: string;
+  /** The order the server uses when the URL names none. */
+  defaultDir?: "asc" | "desc";
 }) {
   const [params] = useSearchParams();
   const current = params.get("sort") ?? defaultSort;
-  const dir = params.get("dir") === "desc" ? "desc" : "asc";
+  const named = params.get("dir");
+  const dir = named === "desc" || named === "asc" ? named : defaultDir;
   const next = new URLSearchParams(params);
   next.set("sort", column);
   next.set("dir", current === column && dir === "asc" ? "desc" : "asc");

@@ -15,6 +15,8 @@ export interface NumberFieldSpec {
   required?: boolean;
   /** Shown beside the input. */
   hint?: string;
+  /** Unit text for a dimensionless field ("%", ": 1"); others take theirs from the quantity. */
+  displayUnit?: string;
   /** A more helpful message than the generic range one, for known typing errors. */
   explain?: (stored: number, system: UnitSystem) => string | undefined;
 }
@@ -113,6 +115,7 @@ export const CAR_FIELDS = {
     kind: "number",
     label: "Steering ratio",
     quantity: "ratio",
+    displayUnit: ": 1",
     min: 5,
     max: 30,
     required: true,
@@ -160,6 +163,7 @@ export const CAR_FIELDS = {
     kind: "number",
     label: "Static front weight",
     quantity: "ratio",
+    displayUnit: "%",
     min: 20,
     max: 80,
     hint: "% of the total on the front axle.",

@@ -169,12 +169,12 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
           <table className="w-full text-sm">
             <thead className="border-b border-rule">
               <tr>
-                <SortHeader column="name" defaultSort="updated">Setup</SortHeader>
-                <SortHeader column="version" defaultSort="updated" align="right">Latest version</SortHeader>
+                <SortHeader column="name" defaultSort="updated" defaultDir="desc">Setup</SortHeader>
+                <SortHeader column="version" defaultSort="updated" defaultDir="desc" align="right">Latest version</SortHeader>
                 <th className="px-3 py-2 text-right font-medium">Springs F / R</th>
                 <th className="px-3 py-2 text-right font-medium">Rear wing</th>
                 <th className="px-3 py-2 text-right font-medium">Sessions</th>
-                <SortHeader column="updated" defaultSort="updated" align="right">Changed</SortHeader>
+                <SortHeader column="updated" defaultSort="updated" defaultDir="desc" align="right">Changed</SortHeader>
                 {canCreateSetup && <th className="px-3 py-2"><span className="sr-only">Actions</span></th>}
               </tr>
             </thead>
