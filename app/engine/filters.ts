@@ -1,121 +1,151 @@
 /**
- * Streaming centred moving averages with a common delay line.
+ * Streaming centred moving averages over blocks, with a common delay.
  *
  * Each channel gets a boxcar of 2h+1 samples centred on the same output row, so the filter has
- * zero phase relative to the other channels (the whole row is delayed by D = max h samples).
- * A boxcar of length T has its −3 dB point near 0.443/T: 0.11 s ≈ 4 Hz for dampers,
- * 0.21 s ≈ 2 Hz for the understeer gates. The slope is the difference of the two half-window
- * means over (h+1) samples, a derivative that is much less noisy than a one-step difference.
- * NaN (dropout) samples are left out of the sums; an output is NaN when fewer than h+1 of the
- * 2h+1 samples are valid.
+ * zero phase relative to the other channels: the whole row is delayed by D = max h samples, and the
+ * last 2D raw samples are carried into the next block. A boxcar of length T has its −3 dB point near
+ * 0.443/T: 0.11 s ≈ 4 Hz for dampers, 0.21 s ≈ 2 Hz for the understeer gates. The slope is the
+ * difference of the two half-window means over (h+1) samples, a derivative much less noisy than a
+ * one-step difference. NaN (dropout) samples are left out of the sums; an output is NaN when fewer
+ * than h+1 of the 2h+1 samples are valid.
+ *
+ * Work is done column by column with block-local prefix sums (tight loops, no per-row calls).
  */
-export class CentredSmoother {
+export class BlockSmoother {
   readonly channels: number;
   readonly delay: number;
-  /** Filtered value of each channel at the centre row (valid after `step` returns true). */
-  readonly mean: Float64Array;
-  /** Slope per second at the centre row. */
-  readonly slope: Float64Array;
-  /** Unfiltered value at the centre row. */
-  readonly centre: Float64Array;
+  /** Per channel, valid for indices 0 … (count returned by push/flush) − 1. */
+  mean: Float64Array[] = [];
+  slope: Float64Array[] = [];
+  centre: Float64Array[] = [];
 
   private readonly half: Int32Array;
-  private readonly ring: Float64Array;
-  private readonly mask: number;
-  private readonly s1: Float64Array;
-  private readonly n1: Float64Array;
-  private readonly s2: Float64Array;
-  private readonly n2: Float64Array;
   private readonly slopeScale: Float64Array;
-  private row = 0;
+  private readonly needSlope: boolean[];
+  private readonly absent: boolean[];
+  private ext: Float64Array[] = [];
+  private pre: Float64Array = new Float64Array(0);
+  private cnt: Float64Array = new Float64Array(0);
+  private cap = 0;
+  private seen = 0;
 
-  constructor(halfWindows: ArrayLike<number>, dtS: number) {
-    const c = halfWindows.length;
-    this.channels = c;
+  /** `needSlope[k]` false skips the slope of channel k (its slope output stays NaN). */
+  constructor(halfWindows: ArrayLike<number>, dtS: number, needSlope?: boolean[], capacityRows = 16_384) {
+    this.channels = halfWindows.length;
+    this.needSlope = Array.from({ length: this.channels }, (_, k) => needSlope?.[k] ?? true);
+    this.absent = new Array(this.channels).fill(false);
     this.half = Int32Array.from(halfWindows as ArrayLike<number>);
     let d = 0;
-    for (let i = 0; i < c; i++) d = Math.max(d, this.half[i]);
+    for (let i = 0; i < this.channels; i++) d = Math.max(d, this.half[i]);
     this.delay = d;
-    let size = 1;
-    while (size < 2 * d + 2) size <<= 1;
-    this.mask = size - 1;
-    this.ring = new Float64Array(size * c).fill(NaN);
-    this.mean = new Float64Array(c);
-    this.slope = new Float64Array(c);
-    this.centre = new Float64Array(c);
-    this.s1 = new Float64Array(c);
-    this.n1 = new Float64Array(c);
-    this.s2 = new Float64Array(c);
-    this.n2 = new Float64Array(c);
-    this.slopeScale = new Float64Array(c);
-    for (let i = 0; i < c; i++) this.slopeScale[i] = 1 / ((this.half[i] + 1) * dtS);
+    this.slopeScale = Float64Array.from(this.half, (h) => (h > 0 ? 1 / ((h + 1) * dtS) : NaN));
+    this.grow(capacityRows);
+    for (const e of this.ext) e.fill(NaN, 0, 2 * d);
   }
 
-  /**
-   * Take row `r` of the given columns (null column = not logged → NaN). Returns true when an
-   * output row (delayed by `delay`) is ready in mean/slope/centre.
-   */
-  step(cols: ReadonlyArray<Float64Array | null>, r: number): boolean {
-    const c = this.channels;
-    const ring = this.ring;
-    const mask = this.mask;
-    const i = this.row++;
-    const base = (i & mask) * c;
-    for (let k = 0; k < c; k++) {
+  private grow(rows: number): void {
+    const d2 = 2 * this.delay;
+    const old = this.ext;
+    this.cap = rows;
+    this.ext = [];
+    this.mean = [];
+    this.slope = [];
+    this.centre = [];
+    for (let k = 0; k < this.channels; k++) {
+      const e = new Float64Array(rows + d2);
+      if (old[k]) e.set(old[k].subarray(0, d2));
+      this.ext.push(e);
+      this.mean.push(new Float64Array(rows));
+      this.slope.push(new Float64Array(rows));
+      this.centre.push(new Float64Array(rows));
+    }
+    this.pre = new Float64Array(rows + d2 + 1);
+    this.cnt = new Float64Array(rows + d2 + 1);
+  }
+
+  /** Feed `rows` rows (null column = not logged → NaN). Returns how many delayed rows are ready. */
+  push(cols: ReadonlyArray<Float64Array | null>, rows: number): number {
+    if (rows > this.cap) this.grow(rows);
+    const d = this.delay, d2 = 2 * d;
+    for (let k = 0; k < this.channels; k++) {
+      const e = this.ext[k];
       const col = cols[k];
-      ring[base + k] = col === null ? NaN : col[r];
+      this.absent[k] = col === null;
+      if (col === null) e.fill(NaN, d2, d2 + rows);
+      else e.set(col.subarray(0, rows), d2);
     }
-    return this.advance(i);
+    return this.compute(rows);
   }
 
-  /** Push an empty row (end of stream): call `delay` times; true when a delayed row is ready. */
-  flushStep(): boolean {
-    const c = this.channels;
-    const i = this.row++;
-    const base = (i & this.mask) * c;
-    for (let k = 0; k < c; k++) this.ring[base + k] = NaN;
-    return this.advance(i);
+  /** End of stream: push D empty rows so the last real rows come out. */
+  flush(): number {
+    const d = this.delay, d2 = 2 * d;
+    if (d === 0) return 0;
+    for (let k = 0; k < this.channels; k++) this.ext[k].fill(NaN, d2, d2 + d);
+    return this.compute(d);
   }
 
-  private advance(i: number): boolean {
-    const centreRow = i - this.delay;
-    const c = this.channels;
-    const ring = this.ring;
-    const mask = this.mask;
-    const cb = (centreRow & mask) * c;
-    const ready = centreRow >= 0;
-    for (let k = 0; k < c; k++) {
+  private compute(rows: number): number {
+    const d = this.delay, d2 = 2 * d;
+    const n0 = this.seen;
+    this.seen += rows;
+    // ext index e ↔ stream row n0 − 2D + e; centres e = D … rows+D−1, but never before row 0.
+    const eStart = Math.max(d, d2 - n0);
+    const eEnd = rows + d;
+    const out = Math.max(0, eEnd - eStart);
+    const len = rows + d2;
+    const pre = this.pre, cnt = this.cnt;
+    for (let k = 0; k < this.channels; k++) {
+      const e = this.ext[k];
       const h = this.half[k];
-      if (h === 0) {
-        if (ready) this.centre[k] = this.mean[k] = ring[cb + k];
-        this.slope[k] = NaN;
-        continue;
+      const mean = this.mean[k], slope = this.slope[k], centre = this.centre[k];
+      if (this.absent[k] && out > 0) {
+        // A channel that is not logged: NaN out, no sums.
+        mean.fill(NaN, 0, out); slope.fill(NaN, 0, out); centre.fill(NaN, 0, out);
+      } else if (h === 0) {
+        for (let c = eStart, j = 0; c < eEnd; c++, j++) { const x = e[c]; centre[j] = x; mean[j] = x; slope[j] = NaN; }
+      } else {
+        // Prefix sums; the counts are only written when the block holds a dropout.
+        let s = 0, nan = 0;
+        pre[0] = 0;
+        for (let i = 0; i < len; i++) {
+          const x = e[i];
+          if (x === x) s += x; else nan++;
+          pre[i + 1] = s;
+        }
+        const scale = this.slopeScale[k];
+        centre.set(e.subarray(eStart, eEnd));
+        if (nan === 0) {
+          const inv = 1 / (2 * h + 1), invH = 1 / h;
+          for (let c = eStart, j = 0; c < eEnd; c++, j++) mean[j] = (pre[c + h + 1] - pre[c - h]) * inv;
+          if (this.needSlope[k]) {
+            for (let c = eStart, j = 0; c < eEnd; c++, j++) slope[j] = (pre[c + h + 1] - pre[c + 1] - (pre[c] - pre[c - h])) * invH * scale;
+          } else slope.fill(NaN, 0, out);
+          e.copyWithin(0, rows, rows + d2);
+          continue;
+        }
+        let n = 0;
+        cnt[0] = 0;
+        for (let i = 0; i < len; i++) {
+          if (e[i] === e[i]) n++;
+          cnt[i + 1] = n;
+        }
+        for (let c = eStart, j = 0; c < eEnd; c++, j++) {
+          const nAll = cnt[c + h + 1] - cnt[c - h];
+          mean[j] = nAll >= h + 1 ? (pre[c + h + 1] - pre[c - h]) / nAll : NaN;
+        }
+        if (this.needSlope[k]) {
+          for (let c = eStart, j = 0; c < eEnd; c++, j++) {
+            const n1 = cnt[c] - cnt[c - h], n2 = cnt[c + h + 1] - cnt[c + 1];
+            slope[j] = n1 * 2 >= h && n2 * 2 >= h && n1 > 0 && n2 > 0
+              ? ((pre[c + h + 1] - pre[c + 1]) / n2 - (pre[c] - pre[c - h]) / n1) * scale
+              : NaN;
+          }
+        } else slope.fill(NaN, 0, out);
       }
-      // second half [c+1, c+h]: gains c+h, loses c (which becomes the centre)
-      if (centreRow + h >= 0) {
-        const enter = ring[((centreRow + h) & mask) * c + k];
-        if (enter === enter) { this.s2[k] += enter; this.n2[k]++; }
-      }
-      if (!ready) continue;
-      const xc = ring[cb + k];
-      this.centre[k] = xc;
-      if (xc === xc) { this.s2[k] -= xc; this.n2[k]--; }
-      // first half [c−h, c−1]: gains c−1, loses c−h−1
-      if (centreRow >= 1) {
-        const prev = ring[((centreRow - 1) & mask) * c + k];
-        if (prev === prev) { this.s1[k] += prev; this.n1[k]++; }
-      }
-      if (centreRow >= h + 1) {
-        const leave = ring[((centreRow - h - 1) & mask) * c + k];
-        if (leave === leave) { this.s1[k] -= leave; this.n1[k]--; }
-      }
-      const n1 = this.n1[k];
-      const n2 = this.n2[k];
-      const nc = xc === xc ? 1 : 0;
-      const n = n1 + n2 + nc;
-      this.mean[k] = n >= h + 1 ? (this.s1[k] + this.s2[k] + (nc ? xc : 0)) / n : NaN;
-      this.slope[k] = n1 * 2 >= h && n2 * 2 >= h && n1 > 0 && n2 > 0 ? (this.s2[k] / n2 - this.s1[k] / n1) * this.slopeScale[k] : NaN;
+      // Carry the last 2D raw samples to the front for the next block.
+      e.copyWithin(0, rows, rows + d2);
     }
-    return ready;
+    return out;
   }
 }

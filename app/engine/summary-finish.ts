@@ -183,6 +183,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     traces: s.traces.output(
       { speed_kmh: 1, lat_accel_g: 3, long_accel_g: 3, steer_deg: 1, axle_load_front_n: 0, axle_load_rear_n: 0, yaw_rate_deg_s: 1 },
       (name, t, v) => {
+        if (name === "speed_kmh") return v * 3.6;
+        if (name === "lat_accel_g" || name === "long_accel_g") return v / 9.80665;
         if (name !== "axle_load_front_n" && name !== "axle_load_rear_n") return v;
         if (!traceFit) return NaN;
         const af = name === "axle_load_front_n" ? traceFit.front : traceFit.rear;

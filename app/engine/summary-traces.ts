@@ -29,23 +29,40 @@ export class TraceDecimator {
     this.hi = new Float64Array(this.cap * c);
   }
 
-  /** Add one row; `values` holds one value per channel (NaN = missing). */
-  push(t: number, values: Float64Array): void {
+  /**
+   * Add `count` rows column by column (tight loops; no per-row calls). `cols[k]` null = channel not
+   * logged; `scale[k]` (> 0) converts to the output unit, applied at output time.
+   */
+  pushColumns(t: Float64Array, cols: ReadonlyArray<Float64Array | null>, count: number): void {
     const c = this.names.length;
-    const b = this.buckets;
-    const o = b * c;
-    if (this.inBucket === 0) {
-      this.t0[b] = t;
-      for (let k = 0; k < c; k++) { this.lo[o + k] = Infinity; this.hi[o + k] = -Infinity; }
-    }
-    for (let k = 0; k < c; k++) {
-      const v = values[k];
-      if (v < this.lo[o + k]) this.lo[o + k] = v;
-      if (v > this.hi[o + k]) this.hi[o + k] = v;
-    }
-    if (++this.inBucket === this.width) {
-      this.inBucket = 0;
-      if (++this.buckets === this.cap) this.merge();
+    let j = 0;
+    while (j < count) {
+      const b = this.buckets;
+      const o = b * c;
+      if (this.inBucket === 0) {
+        this.t0[b] = t[j];
+        for (let k = 0; k < c; k++) { this.lo[o + k] = Infinity; this.hi[o + k] = -Infinity; }
+      }
+      const take = Math.min(this.width - this.inBucket, count - j);
+      const end = j + take;
+      for (let k = 0; k < c; k++) {
+        const col = cols[k];
+        if (col === null) continue;
+        let lo = this.lo[o + k], hi = this.hi[o + k];
+        for (let i = j; i < end; i++) {
+          const v = col[i];
+          if (v < lo) lo = v;
+          if (v > hi) hi = v;
+        }
+        this.lo[o + k] = lo;
+        this.hi[o + k] = hi;
+      }
+      this.inBucket += take;
+      j = end;
+      if (this.inBucket === this.width) {
+        this.inBucket = 0;
+        if (++this.buckets === this.cap) this.merge();
+      }
     }
   }
 

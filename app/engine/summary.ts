@@ -5,12 +5,11 @@
  * The per-row path allocates nothing.
  */
 import { AeroAccumulator } from "./aero";
-import { bandEdgesMs, bandIndex } from "./bands";
+import { bandEdgesMs } from "./bands";
 import { carModel, validateCar } from "./car";
 import type { CarModel } from "./car";
-import { sessionAirDensity, STANDARD_GRAVITY_M_S2 as G } from "./density";
-import { CentredSmoother } from "./filters";
-import { DEG_PER_RAD } from "./physics";
+import { sessionAirDensity, STANDARD_GRAVITY_M_S2 } from "./density";
+import { BlockSmoother } from "./filters";
 import { buildSummary } from "./summary-finish";
 import type { FinishContext, SessionSummary } from "./summary-types";
 import { resolveOptions } from "./summary-options";
@@ -20,6 +19,10 @@ import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
+
+// Module-local copies: a loader may turn imported bindings into getters, too slow per row.
+const G = STANDARD_GRAVITY_M_S2;
+const DEG_PER_RAD = 180 / Math.PI;
 export type { SummaryOptions } from "./summary-options";
 
 /**
@@ -57,12 +60,14 @@ export class SummaryBuilder {
   readonly sign = { n: 0, sa: 0, saa: 0, sf: 0, saf: 0, sr: 0, sar: 0 };
   yawSignDot = 0; yawSignN = 0;
 
-  private sm: CentredSmoother | null = null;
+  private sm: BlockSmoother | null = null;
   private pending: ChannelBlock[] = [];
   private block = -1;
   private blockMin = 2;
   private blockMinUs = 2;
-  private readonly traceRow = new Float64Array(TRACE_CHANNELS.length);
+  private ffOut = new Float64Array(0);
+  private frOut = new Float64Array(0);
+  private readonly traceCols: (Float64Array | null)[] = new Array(TRACE_CHANNELS.length).fill(null);
   private readonly cols: (Float64Array | null)[] = new Array(SLOT_CHANNELS.length).fill(null);
 
   constructor(car: CarInput, options: SummaryOptions = {}) {
@@ -102,7 +107,7 @@ export class SummaryBuilder {
       for (const b of this.pending) this.run(b);
       this.pending = [];
     }
-    if (this.sm) for (let k = 0; k < this.sm.delay; k++) if (this.sm.flushStep()) this.processRow();
+    if (this.sm) this.consume(this.sm.flush());
     this.closeBlock();
     return buildSummary(this, ctx);
   }
@@ -112,7 +117,7 @@ export class SummaryBuilder {
     const h1 = Math.max(1, Math.round(this.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(this.opts.gateSmoothingS / dt / 2));
     const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === AX_LT || i === V_AERO ? h1 : h2));
-    this.sm = new CentredSmoother(halves, dt);
+    this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === AY || i === STEER || (i >= DFL && i <= DRR)));
     const perBlock = this.opts.blockS / dt;
     this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
     this.blockMinUs = Math.max(2, Math.round(0.1 * perBlock));
@@ -123,8 +128,7 @@ export class SummaryBuilder {
   private run(block: ChannelBlock): void {
     const sm = this.sm!;
     for (let k = 0; k < SLOT_CHANNELS.length; k++) this.cols[k] = block.channels[SLOT_CHANNELS[k]] ?? null;
-    const cols = this.cols;
-    for (let r = 0; r < block.rows; r++) if (sm.step(cols, r)) this.processRow();
+    this.consume(sm.push(this.cols, block.rows));
   }
 
   private closeBlock(): void {
@@ -132,96 +136,117 @@ export class SummaryBuilder {
     this.us.closeBlock(this.blockMinUs);
   }
 
-  private processRow(): void {
+  /** The per-row path: `count` delayed rows are ready in the smoother's output arrays. */
+  private consume(count: number): void {
     const sm = this.sm!;
     const m = sm.mean, sl = sm.slope, ce = sm.centre;
-    const t = ce[T];
-    if (t !== t) return;
-    if (this.rows === 0) this.t0 = t;
-    this.rows++;
-    this.tLast = t;
-    const tau = t - this.t0;
-    const blk = Math.floor(tau / this.opts.blockS);
-    if (blk !== this.block) { this.closeBlock(); this.block = blk; }
+    const cT = ce[T], mV = m[V], mAY = m[AY], mAX = m[AX], mSTEER = m[STEER], mYAW = m[YAW], mAXLT = m[AX_LT], mVA = m[V_AERO];
+    const mFL = m[DFL], mFR = m[DFR], mRL = m[DRL], mRR = m[DRR], mRHF = m[RHF], mRHR = m[RHR];
+    const sFL = sl[DFL], sFR = sl[DFR], sRL = sl[DRL], sRR = sl[DRR], sSTEER = sl[STEER], sAY = sl[AY];
+    const cV = ce[V], cAY = ce[AY], cAX = ce[AX], cSTEER = ce[STEER], cFL = ce[DFL], cFR = ce[DFR], cRL = ce[DRL], cRR = ce[DRR], cRHF = ce[RHF], cRHR = ce[RHR], cYAW = ce[YAW];
     const g = this.opts.gates;
     const c = this.model;
-    const v = m[V];
-    const band = v === v ? bandIndex(this.edgesMs, v) : -1;
-    if (band >= 0) this.bandRows[band]++;
-    const axG = m[AX] / G, ayG = m[AY] / G;
-    const xfl = m[DFL], xfr = m[DFR], xrl = m[DRL], xrr = m[DRR];
-    const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
-    const vFl = sl[DFL], vFr = sl[DFR], vRl = sl[DRL], vRr = sl[DRR];
-
-    // Static estimate from slow running with no load transfer (only when readings are not given).
-    if (!this.staticGiven && this.estN < this.estMax && dampersOk && v < 60 / 3.6 && v > 1 && Math.abs(axG) < 0.1 && Math.abs(ayG) < 0.1 &&
-      Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
-      this.est[0] += xfl; this.est[1] += xfr; this.est[2] += xrl; this.est[3] += xrr; this.estN++;
-    }
-    let ff = NaN, fr = NaN, inContactF = false, inContactR = false;
+    const edges = this.edgesMs;
+    const lastEdge = edges.length - 1;
+    const blockS = this.opts.blockS;
+    const rho = this.air.density_kg_m3;
+    const aeroMinV = g.aero_min_speed_kmh / 3.6, aeroMaxAx = g.aero_max_long_g * G, vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
+    const usMinV = g.us_min_speed_kmh / 3.6, straightMinV = g.straight_min_speed_kmh / 3.6;
     const st = c.staticDamperMm;
-    const estReady = this.estN >= this.estMin;
-    if (dampersOk && (st !== null || estReady || !this.hasBumpStops)) {
-      const n = this.estN || 1;
-      const bfl = (st ? st.fl : this.est[0] / n) + c.bumpGapFrontMm, bfr = (st ? st.fr : this.est[1] / n) + c.bumpGapFrontMm;
-      const brl = (st ? st.rl : this.est[2] / n) + c.bumpGapRearMm, brr = (st ? st.rr : this.est[3] / n) + c.bumpGapRearMm;
-      const cfl = xfl > bfl ? xfl - bfl : 0, cfr = xfr > bfr ? xfr - bfr : 0, crl = xrl > brl ? xrl - brl : 0, crr = xrr > brr ? xrr - brr : 0;
-      inContactF = cfl > 0 || cfr > 0;
-      inContactR = crl > 0 || crr > 0;
-      const lt = (c.massKg * m[AX_LT] * c.cogHeightM) / c.wheelbaseM;
-      ff = c.forcePerMmFront * (xfl + xfr - (st ? st.fl + st.fr : 0)) + c.bumpForcePerMmFront * (cfl + cfr) + lt;
-      fr = c.forcePerMmRear * (xrl + xrr - (st ? st.rl + st.rr : 0)) + c.bumpForcePerMmRear * (crl + crr) - lt;
-      if (st === null) {
-        if (this.refFront !== this.refFront) { this.refFront = ff; this.refRear = fr; }
-        ff -= this.refFront; fr -= this.refRear;
-      }
-    }
-    if (dampersOk && v > 30 / 3.6 && Math.abs(axG) > 0.05) {
-      const s = this.sign, sf = xfl + xfr, sr = xrl + xrr;
-      s.n++; s.sa += axG; s.saa += axG * axG; s.sf += sf; s.saf += axG * sf; s.sr += sr; s.sar += axG * sr;
-    }
+    const ltPerMs2 = (c.massKg * c.cogHeightM) / c.wheelbaseM;
+    if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
+    const ffOut = this.ffOut, frOut = this.frOut;
+    for (let j = 0; j < count; j++) {
+      const t = cT[j];
+      ffOut[j] = NaN; frOut[j] = NaN;
+      if (t !== t) continue;
+      if (this.rows === 0) this.t0 = t;
+      this.rows++;
+      this.tLast = t;
+      const tau = t - this.t0;
+      const blk = Math.floor(tau / blockS);
+      if (blk !== this.block) { this.closeBlock(); this.block = blk; }
+      const v = mV[j];
+      let band = -1;
+      if (v >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (v < edges[e]) { band = e - 1; break; }
+      if (band >= 0) this.bandRows[band]++;
+      const axG = mAX[j] / G, ayG = mAY[j] / G;
+      const xfl = mFL[j], xfr = mFR[j], xrl = mRL[j], xrr = mRR[j];
+      const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
+      const vFl = sFL[j], vFr = sFR[j], vRl = sRL[j], vRr = sRR[j];
 
-    // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
-    if (v >= g.aero_min_speed_kmh / 3.6 && Math.abs(m[AX_LT] / G) <= g.aero_max_long_g && dampersOk) {
-      const vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
-      if (Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
-        Math.abs(ce[DFL] - xfl) <= spike && Math.abs(ce[DFR] - xfr) <= spike && Math.abs(ce[DRL] - xrl) <= spike && Math.abs(ce[DRR] - xrr) <= spike) {
-        const va = m[V_AERO];
-        if (ff !== ff) this.aeroWaitingStatic++;
-        else if (va === va) {
-          const q = 0.5 * this.air.density_kg_m3 * va * va;
-          this.aero.add(tau, q, ff, fr, bandIndex(this.edgesMs, va), xfl + xfr, xrl + xrr, m[RHF], m[RHR]);
-          if (inContactF) this.contactFront++;
-          if (inContactR) this.contactRear++;
+      // Static estimate from slow running with no load transfer (only when readings are not given).
+      if (!this.staticGiven && this.estN < this.estMax && dampersOk && v < 60 / 3.6 && v > 1 && Math.abs(axG) < 0.1 && Math.abs(ayG) < 0.1 &&
+        Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
+        this.est[0] += xfl; this.est[1] += xfr; this.est[2] += xrl; this.est[3] += xrr; this.estN++;
+      }
+      let ff = NaN, fr = NaN, inContactF = false, inContactR = false;
+      const estReady = this.estN >= this.estMin;
+      if (dampersOk && (st !== null || estReady || !this.hasBumpStops)) {
+        const n = this.estN || 1;
+        const bfl = (st ? st.fl : this.est[0] / n) + c.bumpGapFrontMm, bfr = (st ? st.fr : this.est[1] / n) + c.bumpGapFrontMm;
+        const brl = (st ? st.rl : this.est[2] / n) + c.bumpGapRearMm, brr = (st ? st.rr : this.est[3] / n) + c.bumpGapRearMm;
+        const cfl = xfl > bfl ? xfl - bfl : 0, cfr = xfr > bfr ? xfr - bfr : 0, crl = xrl > brl ? xrl - brl : 0, crr = xrr > brr ? xrr - brr : 0;
+        inContactF = cfl > 0 || cfr > 0;
+        inContactR = crl > 0 || crr > 0;
+        const lt = ltPerMs2 * mAXLT[j];
+        ff = c.forcePerMmFront * (xfl + xfr - (st ? st.fl + st.fr : 0)) + c.bumpForcePerMmFront * (cfl + cfr) + lt;
+        fr = c.forcePerMmRear * (xrl + xrr - (st ? st.rl + st.rr : 0)) + c.bumpForcePerMmRear * (crl + crr) - lt;
+        if (st === null) {
+          if (this.refFront !== this.refFront) { this.refFront = ff; this.refRear = fr; }
+          ff -= this.refFront; fr -= this.refRear;
         }
       }
-    }
+      if (dampersOk && v > 30 / 3.6 && Math.abs(axG) > 0.05) {
+        const s = this.sign, sf = xfl + xfr, sr = xrl + xrr;
+        s.n++; s.sa += axG; s.saa += axG * axG; s.sf += sf; s.saf += axG * sf; s.sr += sr; s.sar += axG * sr;
+      }
 
-    // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
-    if (v >= g.us_min_speed_kmh / 3.6) {
-      const steer = m[STEER], yaw = m[YAW];
-      const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : m[AY] / (v * v);
-      const geom = DEG_PER_RAD * c.wheelbaseM * kappa;
-      const steerRate = Math.abs(sl[STEER]);
-      const absAy = Math.abs(ayG);
-      if (steer === steer && geom === geom) {
-        if (absAy < g.straight_max_lat_g && steerRate < g.straight_max_steer_rate_deg_s && v >= g.straight_min_speed_kmh / 3.6) {
-          this.us.addStraight(steer - c.steeringRatio * geom);
-        } else if (band >= 0 && absAy >= g.us_min_lat_g && steerRate <= g.us_max_steer_rate_deg_s && Math.abs(sl[AY] / G) <= g.us_max_lat_jerk_g_s && Math.abs(axG) <= g.us_max_long_g) {
-          const road = steer / c.steeringRatio;
-          this.us.addCorner(band, ayG, road - geom);
-          this.us.signDot += road * geom;
-          this.us.signNorm += geom * geom;
+      // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
+      if (v >= aeroMinV && Math.abs(mAXLT[j]) <= aeroMaxAx && dampersOk) {
+        if (Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
+          Math.abs(cFL[j] - xfl) <= spike && Math.abs(cFR[j] - xfr) <= spike && Math.abs(cRL[j] - xrl) <= spike && Math.abs(cRR[j] - xrr) <= spike) {
+          const va = mVA[j];
+          if (ff !== ff) this.aeroWaitingStatic++;
+          else if (va === va) {
+            const q = 0.5 * rho * va * va;
+            let ba = -1;
+            if (va >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (va < edges[e]) { ba = e - 1; break; }
+            this.aero.add(tau, q, ff, fr, ba, xfl + xfr, xrl + xrr, mRHF[j], mRHR[j]);
+            if (inContactF) this.contactFront++;
+            if (inContactR) this.contactRear++;
+          }
         }
       }
-      if (yaw === yaw && absAy > 0.3) { this.yawSignDot += yaw * ayG > 0 ? 1 : -1; this.yawSignN++; }
-    }
 
-    const tr = this.traceRow;
-    tr[0] = ce[V] * 3.6; tr[1] = ce[AY] / G; tr[2] = ce[AX] / G; tr[3] = ce[STEER];
-    tr[4] = ce[DFL]; tr[5] = ce[DFR]; tr[6] = ce[DRL]; tr[7] = ce[DRR];
-    tr[8] = ff; tr[9] = fr; tr[10] = ce[RHF]; tr[11] = ce[RHR]; tr[12] = ce[YAW];
-    this.traces.push(t, tr);
+      // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
+      if (v >= usMinV) {
+        const steer = mSTEER[j], yaw = mYAW[j];
+        const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : mAY[j] / (v * v);
+        const geom = DEG_PER_RAD * c.wheelbaseM * kappa;
+        const steerRate = Math.abs(sSTEER[j]);
+        const absAy = Math.abs(ayG);
+        if (steer === steer && geom === geom) {
+          if (absAy < g.straight_max_lat_g && steerRate < g.straight_max_steer_rate_deg_s && v >= straightMinV) {
+            this.us.addStraight(steer - c.steeringRatio * geom);
+          } else if (band >= 0 && absAy >= g.us_min_lat_g && steerRate <= g.us_max_steer_rate_deg_s && Math.abs(sAY[j] / G) <= g.us_max_lat_jerk_g_s && Math.abs(axG) <= g.us_max_long_g) {
+            const road = steer / c.steeringRatio;
+            this.us.addCorner(band, ayG, road - geom);
+            this.us.signDot += road * geom;
+            this.us.signNorm += geom * geom;
+          }
+        }
+        if (yaw === yaw && absAy > 0.3) { this.yawSignDot += yaw * ayG > 0 ? 1 : -1; this.yawSignN++; }
+      }
+
+      ffOut[j] = ff; frOut[j] = fr;
+    }
+    // Chart traces column by column, in SI; converted to display units at output.
+    const tc = this.traceCols;
+    const has = (name: string, col: Float64Array) => (this.mapped.has(name) ? col : null);
+    tc[0] = cV; tc[1] = cAY; tc[2] = cAX; tc[3] = cSTEER; tc[4] = cFL; tc[5] = cFR; tc[6] = cRL; tc[7] = cRR;
+    tc[8] = ffOut; tc[9] = frOut; tc[10] = has("ride_height_front", cRHF); tc[11] = has("ride_height_rear", cRHR); tc[12] = has("yaw_rate", cYAW);
+    this.traces.pushColumns(cT, tc, count);
   }
 }
 
