@@ -3,6 +3,7 @@ import { AuthCard } from "~/components/ui/panels";
 import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, forgotPasswordSchema } from "~/lib/auth-schemas";
 import { requestPasswordReset } from "~/server/auth-forms.server";
+import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/forgot-password";
 
 export async function action({ request }: Route.ActionArgs) {
@@ -16,7 +17,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function ForgotPassword({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { errors, onSubmit } = useFormCheck(forgotPasswordSchema, actionData?.errors as Record<string, string> | undefined);
   if (actionData?.sentTo) {
     return (
       <AuthCard title="Check your e-mail" footer={<Link className="text-accent underline" to="/sign-in">Back to sign in</Link>}>
@@ -29,7 +30,7 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
   }
   return (
     <AuthCard title="Reset your password" footer={<Link className="text-accent underline" to="/sign-in">Back to sign in</Link>}>
-      <Form method="post" noValidate>
+      <Form method="post" noValidate onSubmit={onSubmit}>
         <p className="mb-4 text-sm text-ink-soft">Enter the e-mail address of your account; we send a link to choose a new password.</p>
         <FormAlert>{errors.form}</FormAlert>
         <Field label="E-mail" name="email" type="email" autoComplete="email" required error={errors.email} />

@@ -3,6 +3,7 @@ import { AuthCard } from "~/components/ui/panels";
 import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, PASSWORD_MIN, resetPasswordSchema } from "~/lib/auth-schemas";
 import { resetPassword } from "~/server/auth-forms.server";
+import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/reset-password";
 
 export function loader({ request }: Route.LoaderArgs) {
@@ -20,7 +21,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { errors, onSubmit } = useFormCheck(resetPasswordSchema, actionData?.errors as Record<string, string> | undefined);
   if (!loaderData.token) {
     return (
       <AuthCard title="Reset link incomplete">
@@ -31,7 +32,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   }
   return (
     <AuthCard title="Choose a new password">
-      <Form method="post" noValidate>
+      <Form method="post" noValidate onSubmit={onSubmit}>
         <FormAlert>{errors.form ?? errors.token}</FormAlert>
         <input type="hidden" name="token" value={loaderData.token} />
         <Field label="New password" name="password" type="password" autoComplete="new-password" required minLength={PASSWORD_MIN} error={errors.password} hint={`At least ${PASSWORD_MIN} characters.`} />

@@ -4,6 +4,7 @@ import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, safeNext, signInSchema } from "~/lib/auth-schemas";
 import { signIn } from "~/server/auth-forms.server";
 import { getSignedIn } from "~/server/session.server";
+import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/sign-in";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -25,12 +26,12 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { errors, onSubmit } = useFormCheck(signInSchema, actionData?.errors as Record<string, string> | undefined);
   const next = loaderData.next;
   const signUpHref = next ? `/sign-up?next=${encodeURIComponent(next)}` : "/sign-up";
   return (
     <AuthCard title="Sign in" footer={<>New to Rakeline? <Link className="text-accent underline" to={signUpHref}>Create an account</Link></>}>
-      <Form method="post" noValidate>
+      <Form method="post" noValidate onSubmit={onSubmit}>
         {loaderData.reset && <FormAlert tone="info">Your password has been changed. Sign in with the new one.</FormAlert>}
         <FormAlert>{errors.form}</FormAlert>
         <input type="hidden" name="next" value={next} />

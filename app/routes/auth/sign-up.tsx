@@ -4,6 +4,7 @@ import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, PASSWORD_MIN, safeNext, signUpSchema } from "~/lib/auth-schemas";
 import { signUp } from "~/server/auth-forms.server";
 import { getSignedIn } from "~/server/session.server";
+import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/sign-up";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -28,7 +29,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function SignUp({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { errors, onSubmit } = useFormCheck(signUpSchema, actionData?.errors as Record<string, string> | undefined);
   const next = loaderData.next;
   if (actionData?.sentTo) {
     return (
@@ -44,7 +45,7 @@ export default function SignUp({ loaderData, actionData }: Route.ComponentProps)
   const signInHref = next ? `/sign-in?next=${encodeURIComponent(next)}` : "/sign-in";
   return (
     <AuthCard title="Create your Rakeline account" footer={<>Already have an account? <Link className="text-accent underline" to={signInHref}>Sign in</Link></>}>
-      <Form method="post" noValidate>
+      <Form method="post" noValidate onSubmit={onSubmit}>
         <FormAlert>{errors.form}</FormAlert>
         <input type="hidden" name="next" value={next} />
         <Field label="Name" name="name" autoComplete="name" required defaultValue={actionData?.values.name} error={errors.name} />

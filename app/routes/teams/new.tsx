@@ -8,6 +8,7 @@ import { ROLE_LABELS } from "~/lib/access";
 import { createTeamSchema, slugify } from "~/lib/team-schemas";
 import { listTeamsOf, requireUser } from "~/server/permissions.server";
 import { createTeam, pendingInvitationsFor, slugTaken } from "~/server/teams.server";
+import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/new";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -31,7 +32,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function NewTeam({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string> = actionData?.errors ?? {};
+  const { errors, onSubmit } = useFormCheck(createTeamSchema, actionData?.errors as Record<string, string> | undefined);
   const [name, setName] = useState(actionData?.values.name ?? "");
   const [slug, setSlug] = useState(actionData?.values.slug ?? "");
   const [slugEdited, setSlugEdited] = useState(Boolean(actionData?.values.slug));
@@ -42,7 +43,7 @@ export default function NewTeam({ loaderData, actionData }: Route.ComponentProps
           <p className="mb-4 text-sm text-ink-soft">
             A team holds your cars, their setups and every session. You become its owner and can invite engineers, analysts and drivers.
           </p>
-          <Form method="post" noValidate>
+          <Form method="post" noValidate onSubmit={onSubmit}>
             <FormAlert>{errors.form}</FormAlert>
             <Field
               label="Team name"
