@@ -1,0 +1,66 @@
+import { describe, expect, it } from "vitest";
+import { BlockSmoother } from "~/engine/filters";
+import { TraceDecimator } from "~/engine/summary-traces";
+
+function runSmoother(x: Float64Array, half: number[], dt: number, blockRows: number) {
+  const sm = new BlockSmoother(half, dt);
+  const mean: number[] = [], slope: number[] = [], centre: number[] = [];
+  const take = (n: number) => { for (let j = 0; j < n; j++) { mean.push(sm.mean[0][j]); slope.push(sm.slope[0][j]); centre.push(sm.centre[0][j]); } };
+  for (let r = 0; r < x.length; r += blockRows) take(sm.push([x.subarray(r, Math.min(x.length, r + blockRows))], Math.min(blockRows, x.length - r)));
+  take(sm.flush());
+  return { mean, slope, centre };
+}
+
+describe("centred moving average (zero-phase boxcar)", () => {
+  it("passes a straight line unchanged and returns its slope", () => {
+    // Any symmetric FIR filter keeps a linear trend and has zero phase (common practice, DSP).
+    const dt = 0.01;
+    const x = Float64Array.from({ length: 1000 }, (_, i) => 3 + 2.5 * i * dt);
+    const { mean, slope } = runSmoother(x, [5], dt, 128);
+    expect(mean).toHaveLength(1000);
+    for (let i = 10; i < 990; i++) {
+      expect(mean[i]).toBeCloseTo(x[i], 9);
+      expect(slope[i]).toBeCloseTo(2.5, 9);
+    }
+  });
+
+  it("attenuates a sine by the boxcar gain sin(πfN/fs)/(N·sin(πf/fs)) without delaying it", () => {
+    // Frequency response of an N-point moving average (common practice, DSP textbooks).
+    const fs = 100, f = 3, n = 11, dt = 1 / fs;
+    const x = Float64Array.from({ length: 2000 }, (_, i) => Math.sin(2 * Math.PI * f * i * dt));
+    const { mean } = runSmoother(x, [(n - 1) / 2], dt, 333);
+    const gain = Math.sin((Math.PI * f * n) / fs) / (n * Math.sin((Math.PI * f) / fs));
+    for (let i = 100; i < 1900; i++) expect(mean[i]).toBeCloseTo(gain * x[i], 9);
+  });
+
+  it("gives the same output for any block size, and leaves dropouts out instead of reading them as zero", () => {
+    // Common practice: streaming results must not depend on chunking; NaN = dropout (DEVELOPERS.md).
+    const x = Float64Array.from({ length: 777 }, (_, i) => 20 + Math.sin(i / 9) + (i % 13 === 0 ? NaN : 0));
+    const a = runSmoother(x, [4], 0.02, 1);
+    const b = runSmoother(x, [4], 0.02, 500);
+    for (const key of ["mean", "slope", "centre"] as const) {
+      expect(b[key]).toHaveLength(a[key].length);
+      a[key].forEach((v, i) => (Number.isNaN(v) ? expect(b[key][i]).toBeNaN() : expect(b[key][i]).toBeCloseTo(v, 9)));
+    }
+    for (let i = 5; i < 770; i++) expect(a.mean[i]).toBeGreaterThan(18);
+  });
+});
+
+describe("trace decimation", () => {
+  it("keeps min and max of every bucket while the bucket width doubles", () => {
+    // Min/max decimation keeps one-sample peaks visible in a chart (common practice for plots).
+    const d = new TraceDecimator(["x"], 64);
+    const n = 10_000;
+    const t = Float64Array.from({ length: n }, (_, i) => i * 0.01);
+    const x = Float64Array.from({ length: n }, (_, i) => Math.sin(i / 100));
+    x[4321] = 9;
+    x[8765] = -9;
+    d.pushColumns(t, [x], 5000);
+    d.pushColumns(t.subarray(5000), [x.subarray(5000)], 5000);
+    const out = d.output({ x: 3 });
+    expect(out.t_s.length).toBeLessThanOrEqual(64);
+    expect(Math.max(...out.channels.x.max.map((v) => v ?? -Infinity))).toBe(9);
+    expect(Math.min(...out.channels.x.min.map((v) => v ?? Infinity))).toBe(-9);
+    expect(out.bucket_rows * out.t_s.length).toBeGreaterThanOrEqual(n);
+  });
+});
