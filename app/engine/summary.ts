@@ -26,11 +26,13 @@ const DEG_PER_RAD = 180 / Math.PI;
 export type { SummaryOptions } from "./summary-options";
 
 /**
- * Smoother slots. Long acceleration and speed twice: smoothed like the gates, and smoothed like the
- * dampers for the load-transfer correction and q (so a speed change does not lead the damper signal).
+ * Smoother slots. Speed and long acceleration are smoothed like the dampers (so q and the
+ * load-transfer correction line up in time with the damper signal); lateral acceleration, steering
+ * and yaw rate get the longer ≈0.2 s smoothing of the understeer gates.
  */
-const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11, AX_LT = 12, V_AERO = 13;
-const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate", "long_accel", "speed"] as const;
+const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11;
+const AX_LT = AX, V_AERO = V;
+const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate"] as const;
 export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
 
 export class SummaryBuilder {
@@ -62,7 +64,8 @@ export class SummaryBuilder {
 
   private sm: BlockSmoother | null = null;
   private pending: ChannelBlock[] = [];
-  private block = -1;
+  private blockStart = 0;
+  private blockEnd = -1;
   private blockMin = 2;
   private blockMinUs = 2;
   private ffOut = new Float64Array(0);
@@ -116,7 +119,7 @@ export class SummaryBuilder {
     this.sampleRateHz = 1 / dt;
     const h1 = Math.max(1, Math.round(this.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(this.opts.gateSmoothingS / dt / 2));
-    const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === AX_LT || i === V_AERO ? h1 : h2));
+    const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === V || i === AX ? h1 : h2));
     this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === AY || i === STEER || (i >= DFL && i <= DRR)));
     const perBlock = this.opts.blockS / dt;
     this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
@@ -156,16 +159,21 @@ export class SummaryBuilder {
     const ltPerMs2 = (c.massKg * c.cogHeightM) / c.wheelbaseM;
     if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
     const ffOut = this.ffOut, frOut = this.frOut;
+    let rows = this.rows, t0 = this.t0, tLast = this.tLast, blockStart = this.blockStart, blockEnd = this.blockEnd;
     for (let j = 0; j < count; j++) {
       const t = cT[j];
       ffOut[j] = NaN; frOut[j] = NaN;
       if (t !== t) continue;
-      if (this.rows === 0) this.t0 = t;
-      this.rows++;
-      this.tLast = t;
-      const tau = t - this.t0;
-      const blk = Math.floor(tau / blockS);
-      if (blk !== this.block) { this.closeBlock(); this.block = blk; }
+      if (rows === 0) { this.t0 = t0 = t; }
+      rows++;
+      tLast = t;
+      const tau = t - t0;
+      if (!(tau >= blockStart && tau < blockEnd)) {
+        this.closeBlock();
+        const blk = Math.floor(tau / blockS);
+        blockStart = blk * blockS;
+        blockEnd = blockStart + blockS;
+      }
       const v = mV[j];
       let band = -1;
       if (v >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (v < edges[e]) { band = e - 1; break; }
@@ -241,6 +249,7 @@ export class SummaryBuilder {
 
       ffOut[j] = ff; frOut[j] = fr;
     }
+    this.rows = rows; this.tLast = tLast; this.blockStart = blockStart; this.blockEnd = blockEnd;
     // Chart traces column by column, in SI; converted to display units at output.
     const tc = this.traceCols;
     const has = (name: string, col: Float64Array) => (this.mapped.has(name) ? col : null);
