@@ -89,6 +89,13 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (s.us.signNorm > 0 && s.us.signDot < 0) warn("suspected_sign_error", "steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)");
   if (s.yawSignN > 50 && s.yawSignDot < 0) warn("suspected_sign_error", "yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map");
 
+  const emptyBands = s.opts.bandEdgesKmh.slice(0, -1).map((lo, b) => [lo, s.opts.bandEdgesKmh[b + 1], s.bandRows[b]] as const).filter((x) => x[2] === 0);
+  if (emptyBands.length) warn("empty_band", `no samples in ${emptyBands.map(([lo, hi]) => `${lo}–${hi}`).join(", ")} km/h: those bands have no figures`);
+  if (!s.staticGiven && s.estN < s.estMin) warn("no_ride_height_reference", "ride-height changes need a static damper reference: give static_damper_mm, or log some slow running (under 60 km/h) at the start");
+  if (!s.mapped.has("ride_height_front") || !s.mapped.has("ride_height_rear")) flags.push("ride_height_from_dampers_only");
+  if (s.mapped.has("yaw_rate")) flags.push("curvature_from_yaw_rate");
+  if (s.hasBumpStops) flags.push("bump_stops_modelled");
+  if (withDrift) flags.push("static_load_drift_modelled");
   const bands: BandSummary[] = [];
   const a = s.aero.bands;
   const edges = s.opts.bandEdgesKmh;
@@ -100,6 +107,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     const loadR = fit && n > 0 ? bandAeroLoadN(n, a.st[b], a.sr[b], fit.rear) : NaN;
     const qMean = n > 0 ? a.sq[b] / n : NaN;
     let bal = NaN;
+    if (fit && n === 0 && s.bandRows[b] > 0) warn("band_no_aero_samples", `${label}: none of the ${s.bandRows[b]} samples passed the aero gates (|ax| ≤ ${s.opts.gates.aero_max_long_g} g, steady dampers, above ${s.opts.gates.aero_min_speed_kmh} km/h)`);
     if (fit && n > 0) {
       if (loadF + loadR > 0.05 * weightN) bal = (100 * loadF) / (loadF + loadR);
       else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);

@@ -145,3 +145,49 @@ describe("streaming summary", () => {
     expect(hasNaN(s)).toBe(false);
   });
 });
+
+// Constant-radius cornering from the steady-state relation δ = 57.3·L/R + K·ay (Gillespie,
+// Fundamentals of Vehicle Dynamics ch. 6, from memory), both directions, no straights.
+function cornering(car: CarInput, k: number, offsetDeg: number, radius = 60, hz = 50): Trace {
+  const tr = emptyTrace();
+  const l = car.wheelbase_mm / 1000;
+  let t = 0;
+  for (const dir of [1, -1]) for (let i = 0; i < 60 * hz; i++) {
+    const v = 9 + (15 * i) / (60 * hz);
+    const ay = (dir * v * v) / radius;
+    const road = (57.29578 * l) / (dir * radius) + k * (ay / G);
+    tr.time.push(t); tr.speed.push(v); tr.ay.push(ay); tr.ax.push(0.05); tr.steer.push(car.steering_ratio * road + offsetDeg);
+    tr.loadFront.push(0); tr.loadRear.push(0);
+    t += 1 / hz;
+  }
+  return tr;
+}
+
+describe("steering offset and sign checks", () => {
+  const car = carFor();
+
+  it("without straights, finds the offset from corners of both directions and says so", () => {
+    // K = 1.2 deg/g and a 3° offset are the inputs of the Gillespie relation above.
+    const s = run(car, toBlocks(cornering(car, 1.2, 3), car), [0, 300]);
+    expect(s.steering.offset_source).toBe("corners");
+    expect(s.steering.offset_deg!).toBeCloseTo(3, 1);
+    expect(s.bands[0].understeer_gradient_deg_per_g!).toBeCloseTo(1.2, 2);
+    expect(s.warnings.map((w) => w.code)).toContain("steering_offset_from_corners");
+  });
+
+  it("flags steering logged with the opposite sign to lateral acceleration", () => {
+    // ISO 8855 axes: a left turn has positive steer and positive lateral acceleration.
+    const tr = cornering(car, 1.2, 0);
+    tr.steer = tr.steer.map((x) => -x);
+    const s = run(car, toBlocks(tr, car), [0, 300]);
+    expect(s.warnings.some((w) => w.code === "suspected_sign_error" && /steering/.test(w.message))).toBe(true);
+  });
+
+  it("names the bands the car never reached", () => {
+    // Bands are [lo, hi) in km/h; a 9–24 m/s run (32–86 km/h) never reaches 200 km/h.
+    const s = run(car, toBlocks(cornering(car, 1.2, 0), car), [0, 100, 200, 300]);
+    expect(s.bands[2].samples).toBe(0);
+    expect(s.bands[2].understeer_gradient_deg_per_g).toBeNull();
+    expect(s.warnings.find((w) => w.code === "empty_band")!.message).toMatch(/200–300/);
+  });
+});
