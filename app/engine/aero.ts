@@ -37,10 +37,17 @@ export function createBandAeroSums(bands: number): BandAeroSums {
   return { n: z(), st: z(), sq: z(), sf: z(), sr: z(), dampFront: z(), dampRear: z(), rhFront: z(), rhFrontN: z(), rhRear: z(), rhRearN: z() };
 }
 
+/** Front ride-height bins (change from static, mm) for the balance-against-ride-height map. */
+export const RH_MAP_LO_MM = -40;
+export const RH_MAP_BIN_MM = 2;
+export const RH_MAP_BINS = 25;
+
 export class AeroAccumulator {
   readonly samples = new AxleRegressionSums();
   readonly blocks = new AxleRegressionSums();
   readonly bands: BandAeroSums;
+  /** Per front ride-height bin: n, Στ, Σq, ΣF_front, ΣF_rear. */
+  readonly rhMap = new Float64Array(RH_MAP_BINS * 5);
   private bn = 0; private bt = 0; private bq = 0; private bf = 0; private br = 0;
 
   constructor(bandCount: number) {
@@ -56,6 +63,13 @@ export class AeroAccumulator {
     b.dampFront[band] += dampFront; b.dampRear[band] += dampRear;
     if (rhFront === rhFront) { b.rhFront[band] += rhFront; b.rhFrontN[band]++; }
     if (rhRear === rhRear) { b.rhRear[band] += rhRear; b.rhRearN[band]++; }
+  }
+
+  addRideHeight(rhChangeFrontMm: number, t: number, q: number, f: number, r: number): void {
+    const bin = Math.floor((rhChangeFrontMm - RH_MAP_LO_MM) / RH_MAP_BIN_MM);
+    if (!(bin >= 0 && bin < RH_MAP_BINS)) return;
+    const o = bin * 5, m = this.rhMap;
+    m[o]++; m[o + 1] += t; m[o + 2] += q; m[o + 3] += f; m[o + 4] += r;
   }
 
   /** End of a time block: its mean enters the block-level sums when it holds enough samples. */

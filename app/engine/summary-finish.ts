@@ -1,5 +1,5 @@
 /** Turns the streaming statistics into the SessionSummary (fits, bands, warnings). */
-import { bandAeroLoadN, fitAero } from "./aero";
+import { bandAeroLoadN, fitAero, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { SummaryBuilder } from "./summary";
@@ -188,6 +188,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       curvature_source: s.mapped.has("yaw_rate") ? "yaw_rate" : "lat_accel",
     },
     bands,
+    aero_map_front_ride_height: rideHeightMap(s, fit, weightN),
     traces: s.traces.output(
       { speed_kmh: 1, lat_accel_g: 3, long_accel_g: 3, steer_deg: 1, axle_load_front_n: 0, axle_load_rear_n: 0, yaw_rate_deg_s: 1 },
       (name, t, v) => {
@@ -226,4 +227,28 @@ function rideHeights(s: SummaryBuilder, b: number, loadF: number, loadR: number)
     ride_height_rear_mm: r(rhR, 2),
     rake_mm: r(rhR - rhF, 2),
   };
+}
+
+/** Bins with at least 2 s of samples; balance only where the aero load is ≥ 5 % of the weight. */
+function rideHeightMap(s: SummaryBuilder, fit: AeroFit | null, weightN: number): SessionSummary["aero_map_front_ride_height"] {
+  const out: SessionSummary["aero_map_front_ride_height"] = [];
+  if (!fit) return out;
+  const m = s.aero.rhMap;
+  const minSamples = 2 * (Number.isFinite(s.sampleRateHz) ? s.sampleRateHz : 50);
+  for (let bin = 0; bin < RH_MAP_BINS; bin++) {
+    const o = bin * 5, n = m[o];
+    if (n < minSamples) continue;
+    const f = bandAeroLoadN(n, m[o + 1], m[o + 3], fit.front);
+    const rr = bandAeroLoadN(n, m[o + 1], m[o + 4], fit.rear);
+    out.push({
+      ride_height_change_front_min_mm: RH_MAP_LO_MM + bin * RH_MAP_BIN_MM,
+      ride_height_change_front_max_mm: RH_MAP_LO_MM + (bin + 1) * RH_MAP_BIN_MM,
+      samples: n,
+      mean_dynamic_pressure_pa: r(m[o + 2] / n, 1)!,
+      aero_load_front_n: r(f, 1),
+      aero_load_rear_n: r(rr, 1),
+      balance_front_pct: f + rr > 0.05 * weightN ? r((100 * f) / (f + rr), 2) : null,
+    });
+  }
+  return out;
 }

@@ -84,6 +84,19 @@ export interface SessionSummary {
     curvature_source: "yaw_rate" | "lat_accel";
   };
   bands: BandSummary[];
+  /**
+   * Balance against front ride height: bins of the front suspension's ride-height change from
+   * static (wheel travel from the dampers; tyre deflection not included), negative = nose lower.
+   */
+  aero_map_front_ride_height: {
+    ride_height_change_front_min_mm: number;
+    ride_height_change_front_max_mm: number;
+    samples: number;
+    mean_dynamic_pressure_pa: number;
+    aero_load_front_n: number | null;
+    aero_load_rear_n: number | null;
+    balance_front_pct: number | null;
+  }[];
   traces: TraceOutput;
   quality: { flags: string[]; aero_samples_waiting_for_static: number };
   warnings: SummaryWarning[];

@@ -221,6 +221,10 @@ export class SummaryBuilder {
             let ba = -1;
             if (va >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (va < edges[e]) { ba = e - 1; break; }
             this.aero.add(tau, q, ff, fr, ba, xfl + xfr, xrl + xrr, mRHF[j], mRHR[j]);
+          if (st !== null || estReady) {
+            const sf = st !== null ? st.fl + st.fr : (this.est[0] + this.est[1]) / this.estN;
+            this.aero.addRideHeight(-(xfl + xfr - sf) / 2 / c.motionRatioFront, tau, q, ff, fr);
+          }
             if (inContactF) this.contactFront++;
             if (inContactR) this.contactRear++;
           }

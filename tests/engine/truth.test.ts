@@ -63,6 +63,14 @@ describe("truth recovery: warnings the scenario should raise", () => {
     expect(s.aero.rear.static_load_change_over_stint_n!).toBeLessThan(0);
   });
 
+  it("the Marlin's front ClA rising as the nose drops shows in the ride-height map", async () => {
+    // Scenario input: front ClA +0.4 % per mm of front ride-height drop (sample-data/scenario.ts).
+    const { s } = await analyse("marlin-kestrel-comma.csv");
+    const bins = s.aero_map_front_ride_height.filter((b) => b.balance_front_pct !== null);
+    expect(bins.length).toBeGreaterThanOrEqual(3);
+    expect(bins[0].balance_front_pct!).toBeGreaterThan(bins[bins.length - 1].balance_front_pct!);
+  });
+
   it("the hill-climb run is short and says so", async () => {
     const { s } = await analyse("vesper-coldwater-comma.csv");
     expect(s.warnings.map((w) => w.code)).toContain("few_aero_samples");
