@@ -4,16 +4,23 @@ import { ErrorView } from "~/components/ui/error-view";
 import { can, ROLE_LABELS } from "~/lib/access";
 import { requireMember } from "~/server/permissions.server";
 import { listMembers } from "~/server/teams.server";
+import { listCars } from "~/server/garage-cars.server";
 import type { Route } from "./+types/dashboard";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const ctx = await requireMember(request, params.teamSlug);
-  const members = await listMembers(ctx.team.id);
-  return { team: ctx.team, role: ctx.role, memberCount: members.length };
+  const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
+  const [members, cars] = await Promise.all([listMembers(ctx.team.id), listCars(ctx.team.id, { sort: "updated", dir: "desc" })]);
+  return {
+    team: ctx.team,
+    role: ctx.role,
+    memberCount: members.length,
+    carCount: cars.length,
+    recentCars: cars.slice(0, 5).map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
+  };
 }
 
 export default function Dashboard({ loaderData }: Route.ComponentProps) {
-  const { team, role, memberCount } = loaderData;
+  const { team, role, memberCount, carCount, recentCars } = loaderData;
   const base = `/t/${team.slug}`;
   return (
     <div className="space-y-5">
@@ -27,14 +34,40 @@ export default function Dashboard({ loaderData }: Route.ComponentProps) {
         </p>
       </div>
       <div className="grid gap-4 md:grid-cols-2">
-        <Panel title="Garage">
-          <EmptyState
-            title="Add your first car"
-            action={can(role, { car: ["create"] }) ? { to: `${base}/garage`, label: "Open the Garage" } : undefined}
-          >
-            The Garage keeps each car's dimensions, weights and setup sheets. Every Balance report starts from a car, so add one
-            first{can(role, { car: ["create"] }) ? "." : " — ask an engineer or the owner of the team to add it."}
-          </EmptyState>
+        <Panel
+          title={<>Garage {carCount > 0 && <span className="num text-sm font-normal text-ink-faint">({carCount})</span>}</>}
+          actions={carCount > 0 ? <Link className="text-sm text-accent underline" to={`${base}/garage`}>All cars</Link> : undefined}
+        >
+          {carCount === 0 ? (
+            <EmptyState
+              title="Add your first car"
+              action={can(role, { car: ["create"] }) ? { to: `${base}/garage`, label: "Open the Garage" } : undefined}
+            >
+              The Garage keeps each car's dimensions, weights and setup sheets. Every Balance report starts from a car, so add one
+              first{can(role, { car: ["create"] }) ? "." : " — ask an engineer or the owner of the team to add it."}
+            </EmptyState>
+          ) : (
+            <table className="w-full text-sm">
+              <thead className="text-left text-ink-faint">
+                <tr className="border-b border-rule-soft">
+                  <th className="py-1.5 pr-3 font-medium">Car</th>
+                  <th className="py-1.5 pr-3 font-medium">Category</th>
+                  <th className="py-1.5 pr-3 text-right font-medium">Mass</th>
+                  <th className="py-1.5 text-right font-medium">Setup sheets</th>
+                </tr>
+              </thead>
+              <tbody>
+                {recentCars.map((c) => (
+                  <tr key={c.id} className="border-b border-rule-soft">
+                    <td className="py-1.5 pr-3"><Link className="text-accent underline" to={`${base}/garage/${c.id}`}>{c.name}</Link></td>
+                    <td className="py-1.5 pr-3 text-ink-soft">{c.category ?? "—"}</td>
+                    <td className="num py-1.5 pr-3 text-right">{`${Math.round(c.massKg)} kg`}</td>
+                    <td className="num py-1.5 text-right">{c.setupSheets}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
         </Panel>
         <Panel title="Sessions">
           <EmptyState title="Drop a log">
