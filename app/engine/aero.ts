@@ -1,6 +1,7 @@
 /**
  * Aero load per axle: streaming sufficient statistics and the least-squares fit of
- * F_axle = [a] + [b·τ] + ClA·q  (q = ½ρV², τ = seconds since the first sample).
+ * F_axle = [a] + [b·τ] + ClA·q  (q = ½ρV², τ = seconds since the first sample, taken as the
+ * mean time of the sample's 1 s block in the cross terms).
  *
  * - a: static axle load (only when static damper readings are not given; otherwise the force is
  *   already relative to static and the fit goes through the origin).
@@ -42,27 +43,36 @@ export const RH_MAP_LO_MM = -40;
 export const RH_MAP_BIN_MM = 2;
 export const RH_MAP_BINS = 25;
 
+const BS = 11; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r
+
+/**
+ * Per-row work is kept to plain sums of the current time block; the time terms of the fit use the
+ * block's mean time (the drift is slow, so a 1 s step is no loss) and are folded in at block end.
+ */
 export class AeroAccumulator {
   readonly samples = new AxleRegressionSums();
   readonly blocks = new AxleRegressionSums();
-  readonly bands: BandAeroSums;
   /** Per front ride-height bin: n, Στ, Σq, ΣF_front, ΣF_rear. */
   readonly rhMap = new Float64Array(RH_MAP_BINS * 5);
-  private bn = 0; private bt = 0; private bq = 0; private bf = 0; private br = 0;
+  private readonly band: Float64Array;
+  private readonly bandCount: number;
+  // current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr²
+  private bn = 0; private bt = 0; private btt = 0; private bq = 0; private bqq = 0;
+  private bf = 0; private bqf = 0; private bff = 0; private br = 0; private bqr = 0; private brr = 0;
 
   constructor(bandCount: number) {
-    this.bands = createBandAeroSums(bandCount);
+    this.bandCount = bandCount;
+    this.band = new Float64Array(bandCount * BS);
   }
 
   add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
-    this.samples.add(t, q, f, r);
-    this.bn++; this.bt += t; this.bq += q; this.bf += f; this.br += r;
+    this.bn++; this.bt += t; this.btt += t * t; this.bq += q; this.bqq += q * q;
+    this.bf += f; this.bqf += q * f; this.bff += f * f; this.br += r; this.bqr += q * r; this.brr += r * r;
     if (band < 0) return;
-    const b = this.bands;
-    b.n[band]++; b.st[band] += t; b.sq[band] += q; b.sf[band] += f; b.sr[band] += r;
-    b.dampFront[band] += dampFront; b.dampRear[band] += dampRear;
-    if (rhFront === rhFront) { b.rhFront[band] += rhFront; b.rhFrontN[band]++; }
-    if (rhRear === rhRear) { b.rhRear[band] += rhRear; b.rhRearN[band]++; }
+    const b = this.band, o = band * BS;
+    b[o]++; b[o + 1] += t; b[o + 2] += q; b[o + 3] += f; b[o + 4] += r; b[o + 5] += dampFront; b[o + 6] += dampRear;
+    if (rhFront === rhFront) { b[o + 7] += rhFront; b[o + 8]++; }
+    if (rhRear === rhRear) { b[o + 9] += rhRear; b[o + 10]++; }
   }
 
   addRideHeight(rhChangeFrontMm: number, t: number, q: number, f: number, r: number): void {
@@ -72,11 +82,25 @@ export class AeroAccumulator {
     m[o]++; m[o + 1] += t; m[o + 2] += q; m[o + 3] += f; m[o + 4] += r;
   }
 
-  /** End of a time block: its mean enters the block-level sums when it holds enough samples. */
+  /** End of a time block: fold its sums in; its mean enters the block-level sums when it holds enough samples. */
   closeBlock(minSamples: number): void {
     const n = this.bn;
-    if (n >= minSamples && n > 0) this.blocks.add(this.bt / n, this.bq / n, this.bf / n, this.br / n);
-    this.bn = 0; this.bt = 0; this.bq = 0; this.bf = 0; this.br = 0;
+    if (n > 0) {
+      const s = this.samples, tb = this.bt / n;
+      s.n += n; s.st += this.bt; s.stt += this.btt; s.sq += this.bq; s.stq += tb * this.bq; s.sqq += this.bqq;
+      s.sf += this.bf; s.stf += tb * this.bf; s.sqf += this.bqf; s.sff += this.bff;
+      s.sr += this.br; s.str += tb * this.br; s.sqr += this.bqr; s.srr += this.brr;
+      if (n >= minSamples) this.blocks.add(tb, this.bq / n, this.bf / n, this.br / n);
+    }
+    this.bn = this.bt = this.btt = this.bq = this.bqq = this.bf = this.bqf = this.bff = this.br = this.bqr = this.brr = 0;
+  }
+
+  /** Band sums as named arrays (for the end of the session). */
+  get bands(): BandAeroSums {
+    const out = createBandAeroSums(this.bandCount);
+    const keys: (keyof BandAeroSums)[] = ["n", "st", "sq", "sf", "sr", "dampFront", "dampRear", "rhFront", "rhFrontN", "rhRear", "rhRearN"];
+    for (let b = 0; b < this.bandCount; b++) keys.forEach((k, i) => (out[k][b] = this.band[b * BS + i]));
+    return out;
   }
 }
 

@@ -105,24 +105,20 @@ export class BlockSmoother {
       } else if (h === 0) {
         for (let c = eStart, j = 0; c < eEnd; c++, j++) { const x = e[c]; centre[j] = x; mean[j] = x; slope[j] = NaN; }
       } else {
-        // Prefix sums; the counts are only written when the block holds a dropout.
-        let s = 0, nan = 0;
+        const scale = this.slopeScale[k];
+        centre.set(e.subarray(eStart, eEnd));
+        if (out > 0 && this.runningSums(e, h, eStart, eEnd, mean, this.needSlope[k] ? slope : null, scale)) {
+          if (!this.needSlope[k]) slope.fill(NaN, 0, out);
+          e.copyWithin(0, rows, rows + d2);
+          continue;
+        }
+        // The block holds a dropout: prefix sums with counts.
+        let s = 0;
         pre[0] = 0;
         for (let i = 0; i < len; i++) {
           const x = e[i];
-          if (x === x) s += x; else nan++;
+          if (x === x) s += x;
           pre[i + 1] = s;
-        }
-        const scale = this.slopeScale[k];
-        centre.set(e.subarray(eStart, eEnd));
-        if (nan === 0) {
-          const inv = 1 / (2 * h + 1), invH = 1 / h;
-          for (let c = eStart, j = 0; c < eEnd; c++, j++) mean[j] = (pre[c + h + 1] - pre[c - h]) * inv;
-          if (this.needSlope[k]) {
-            for (let c = eStart, j = 0; c < eEnd; c++, j++) slope[j] = (pre[c + h + 1] - pre[c + 1] - (pre[c] - pre[c - h])) * invH * scale;
-          } else slope.fill(NaN, 0, out);
-          e.copyWithin(0, rows, rows + d2);
-          continue;
         }
         let n = 0;
         cnt[0] = 0;
@@ -147,5 +143,28 @@ export class BlockSmoother {
       e.copyWithin(0, rows, rows + d2);
     }
     return out;
+  }
+
+  /**
+   * Fast path for a block without dropouts: one pass of running window and half-window sums.
+   * Returns false (outputs to be recomputed) as soon as a NaN shows up in the sums.
+   */
+  private runningSums(e: Float64Array, h: number, c0: number, c1: number, mean: Float64Array, slope: Float64Array | null, scale: number): boolean {
+    let s1 = 0, s2 = 0;
+    for (let i = c0 - h; i < c0; i++) s1 += e[i];
+    for (let i = c0 + 1; i <= c0 + h; i++) s2 += e[i];
+    let xc = e[c0];
+    const inv = 1 / (2 * h + 1), k = scale / h;
+    mean[0] = (s1 + xc + s2) * inv;
+    if (slope) slope[0] = (s2 - s1) * k;
+    for (let c = c0 + 1, j = 1; c < c1; c++, j++) {
+      // first half gains the old centre and loses c−h−1; second half gains c+h and loses the new centre
+      s1 += xc - e[c - h - 1];
+      xc = e[c];
+      s2 += e[c + h] - xc;
+      mean[j] = (s1 + xc + s2) * inv;
+      if (slope) slope[j] = (s2 - s1) * k;
+    }
+    return s1 === s1 && s2 === s2 && xc === xc;
   }
 }

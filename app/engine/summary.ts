@@ -31,7 +31,6 @@ export type { SummaryOptions } from "./summary-options";
  * and yaw rate get the longer ≈0.2 s smoothing of the understeer gates.
  */
 const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11;
-const AX_LT = AX, V_AERO = V;
 const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate"] as const;
 export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
 
@@ -143,7 +142,7 @@ export class SummaryBuilder {
   private consume(count: number): void {
     const sm = this.sm!;
     const m = sm.mean, sl = sm.slope, ce = sm.centre;
-    const cT = ce[T], mV = m[V], mAY = m[AY], mAX = m[AX], mSTEER = m[STEER], mYAW = m[YAW], mAXLT = m[AX_LT], mVA = m[V_AERO];
+    const cT = ce[T], mV = m[V], mAY = m[AY], mAX = m[AX], mSTEER = m[STEER], mYAW = m[YAW];
     const mFL = m[DFL], mFR = m[DFR], mRL = m[DRL], mRR = m[DRR], mRHF = m[RHF], mRHR = m[RHR];
     const sFL = sl[DFL], sFR = sl[DFR], sRL = sl[DRL], sRR = sl[DRR], sSTEER = sl[STEER], sAY = sl[AY];
     const cV = ce[V], cAY = ce[AY], cAX = ce[AX], cSTEER = ce[STEER], cFL = ce[DFL], cFR = ce[DFR], cRL = ce[DRL], cRR = ce[DRR], cRHF = ce[RHF], cRHR = ce[RHR], cYAW = ce[YAW];
@@ -159,6 +158,22 @@ export class SummaryBuilder {
     const ltPerMs2 = (c.massKg * c.cogHeightM) / c.wheelbaseM;
     if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
     const ffOut = this.ffOut, frOut = this.frOut;
+    const aero = this.aero, us = this.us, bandRows = this.bandRows, est = this.est, sign = this.sign;
+    const kF = c.forcePerMmFront, kR = c.forcePerMmRear, kbF = c.bumpForcePerMmFront, kbR = c.bumpForcePerMmRear;
+    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, ratio = c.steeringRatio, geomPerKappa = DEG_PER_RAD * c.wheelbaseM;
+    const straightLat = g.straight_max_lat_g, straightRate = g.straight_max_steer_rate_deg_s, usLat = g.us_min_lat_g, usRate = g.us_max_steer_rate_deg_s;
+    const usJerk = g.us_max_lat_jerk_g_s * G, usLong = g.us_max_long_g;
+    const needBump = this.hasBumpStops, collectEst = !this.staticGiven, estMin = this.estMin, estMax = this.estMax;
+    let estN = this.estN, refF = this.refFront, refR = this.refRear;
+    // Static reference per corner: the readings when given, else the running estimate.
+    let sfl = 0, sfr = 0, srl = 0, srr = 0;
+    const setStatic = () => {
+      if (st) { sfl = st.fl; sfr = st.fr; srl = st.rl; srr = st.rr; }
+      else if (estN > 0) { sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN; }
+    };
+    setStatic();
+    const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
+    let contactF = 0, contactR = 0, waiting = 0;
     let rows = this.rows, t0 = this.t0, tLast = this.tLast, blockStart = this.blockStart, blockEnd = this.blockEnd;
     for (let j = 0; j < count; j++) {
       const t = cT[j];
@@ -177,56 +192,50 @@ export class SummaryBuilder {
       const v = mV[j];
       let band = -1;
       if (v >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (v < edges[e]) { band = e - 1; break; }
-      if (band >= 0) this.bandRows[band]++;
-      const axG = mAX[j] / G, ayG = mAY[j] / G;
+      if (band >= 0) bandRows[band]++;
+      const ax = mAX[j], ay = mAY[j];
       const xfl = mFL[j], xfr = mFR[j], xrl = mRL[j], xrr = mRR[j];
       const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
-      const vFl = sFL[j], vFr = sFR[j], vRl = sRL[j], vRr = sRR[j];
-
-      // Static estimate from slow running with no load transfer (only when readings are not given).
-      if (!this.staticGiven && this.estN < this.estMax && dampersOk && v < 60 / 3.6 && v > 1 && Math.abs(axG) < 0.1 && Math.abs(ayG) < 0.1 &&
-        Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
-        this.est[0] += xfl; this.est[1] += xfr; this.est[2] += xrl; this.est[3] += xrr; this.estN++;
-      }
-      let ff = NaN, fr = NaN, inContactF = false, inContactR = false;
-      const estReady = this.estN >= this.estMin;
-      if (dampersOk && (st !== null || estReady || !this.hasBumpStops)) {
-        const n = this.estN || 1;
-        const bfl = (st ? st.fl : this.est[0] / n) + c.bumpGapFrontMm, bfr = (st ? st.fr : this.est[1] / n) + c.bumpGapFrontMm;
-        const brl = (st ? st.rl : this.est[2] / n) + c.bumpGapRearMm, brr = (st ? st.rr : this.est[3] / n) + c.bumpGapRearMm;
-        const cfl = xfl > bfl ? xfl - bfl : 0, cfr = xfr > bfr ? xfr - bfr : 0, crl = xrl > brl ? xrl - brl : 0, crr = xrr > brr ? xrr - brr : 0;
-        inContactF = cfl > 0 || cfr > 0;
-        inContactR = crl > 0 || crr > 0;
-        const lt = ltPerMs2 * mAXLT[j];
-        ff = c.forcePerMmFront * (xfl + xfr - (st ? st.fl + st.fr : 0)) + c.bumpForcePerMmFront * (cfl + cfr) + lt;
-        fr = c.forcePerMmRear * (xrl + xrr - (st ? st.rl + st.rr : 0)) + c.bumpForcePerMmRear * (crl + crr) - lt;
-        if (st === null) {
-          if (this.refFront !== this.refFront) { this.refFront = ff; this.refRear = fr; }
-          ff -= this.refFront; fr -= this.refRear;
+      let ff = NaN, fr = NaN;
+      if (dampersOk) {
+        const vFl = sFL[j], vFr = sFR[j], vRl = sRL[j], vRr = sRR[j];
+        // Static estimate from slow running with no load transfer (only when readings are not given).
+        if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(ay) < 0.1 * G &&
+          Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
+          est[0] += xfl; est[1] += xfr; est[2] += xrl; est[3] += xrr; estN++;
+          setStatic();
         }
-      }
-      if (dampersOk && v > 30 / 3.6 && Math.abs(axG) > 0.05) {
-        const s = this.sign, sf = xfl + xfr, sr = xrl + xrr;
-        s.n++; s.sa += axG; s.saa += axG * axG; s.sf += sf; s.saf += axG * sf; s.sr += sr; s.sar += axG * sr;
-      }
-
-      // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
-      if (v >= aeroMinV && Math.abs(mAXLT[j]) <= aeroMaxAx && dampersOk) {
-        if (Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
-          Math.abs(cFL[j] - xfl) <= spike && Math.abs(cFR[j] - xfr) <= spike && Math.abs(cRL[j] - xrl) <= spike && Math.abs(cRR[j] - xrr) <= spike) {
-          const va = mVA[j];
-          if (ff !== ff) this.aeroWaitingStatic++;
-          else if (va === va) {
-            const q = 0.5 * rho * va * va;
-            let ba = -1;
-            if (va >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (va < edges[e]) { ba = e - 1; break; }
-            this.aero.add(tau, q, ff, fr, ba, xfl + xfr, xrl + xrr, mRHF[j], mRHR[j]);
-          if (st !== null || estReady) {
-            const sf = st !== null ? st.fl + st.fr : (this.est[0] + this.est[1]) / this.estN;
-            this.aero.addRideHeight(-(xfl + xfr - sf) / 2 / c.motionRatioFront, tau, q, ff, fr);
+        const staticKnown = st !== null || estN >= estMin;
+        let cf = 0, cr = 0;
+        if (staticKnown || !needBump) {
+          if (needBump) {
+            const cfl = xfl - sfl - gapF, cfr = xfr - sfr - gapF, crl = xrl - srl - gapR, crr = xrr - srr - gapR;
+            cf = (cfl > 0 ? cfl : 0) + (cfr > 0 ? cfr : 0);
+            cr = (crl > 0 ? crl : 0) + (crr > 0 ? crr : 0);
           }
-            if (inContactF) this.contactFront++;
-            if (inContactR) this.contactRear++;
+          const lt = ltPerMs2 * ax;
+          ff = kF * (xfl + xfr - offF) + kbF * cf + lt;
+          fr = kR * (xrl + xrr - offR) + kbR * cr - lt;
+          if (st === null) {
+            if (refF !== refF) { refF = ff; refR = fr; }
+            ff -= refF; fr -= refR;
+          }
+        }
+        if (v > 30 / 3.6 && Math.abs(ax) > 0.05 * G) {
+          const axG = ax / G, sf = xfl + xfr, sr = xrl + xrr;
+          sign.n++; sign.sa += axG; sign.saa += axG * axG; sign.sf += sf; sign.saf += axG * sf; sign.sr += sr; sign.sar += axG * sr;
+        }
+        // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
+        if (v >= aeroMinV && Math.abs(ax) <= aeroMaxAx &&
+          Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
+          Math.abs(cFL[j] - xfl) <= spike && Math.abs(cFR[j] - xfr) <= spike && Math.abs(cRL[j] - xrl) <= spike && Math.abs(cRR[j] - xrr) <= spike) {
+          if (ff !== ff) waiting++;
+          else {
+            const q = 0.5 * rho * v * v;
+            aero.add(tau, q, ff, fr, band, xfl + xfr, xrl + xrr, mRHF[j], mRHR[j]);
+            if (staticKnown) aero.addRideHeight(-(xfl + xfr - sfl - sfr) / 2 / mrF, tau, q, ff, fr);
+            if (cf > 0) contactF++;
+            if (cr > 0) contactR++;
           }
         }
       }
@@ -234,18 +243,19 @@ export class SummaryBuilder {
       // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
       if (v >= usMinV) {
         const steer = mSTEER[j], yaw = mYAW[j];
-        const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : mAY[j] / (v * v);
-        const geom = DEG_PER_RAD * c.wheelbaseM * kappa;
+        const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : ay / (v * v);
+        const geom = geomPerKappa * kappa;
         const steerRate = Math.abs(sSTEER[j]);
+        const ayG = ay / G;
         const absAy = Math.abs(ayG);
         if (steer === steer && geom === geom) {
-          if (absAy < g.straight_max_lat_g && steerRate < g.straight_max_steer_rate_deg_s && v >= straightMinV) {
-            this.us.addStraight(steer - c.steeringRatio * geom);
-          } else if (band >= 0 && absAy >= g.us_min_lat_g && steerRate <= g.us_max_steer_rate_deg_s && Math.abs(sAY[j] / G) <= g.us_max_lat_jerk_g_s && Math.abs(axG) <= g.us_max_long_g) {
-            const road = steer / c.steeringRatio;
-            this.us.addCorner(band, ayG, road - geom);
-            this.us.signDot += road * geom;
-            this.us.signNorm += geom * geom;
+          if (absAy < straightLat && steerRate < straightRate && v >= straightMinV) {
+            us.addStraight(steer - ratio * geom);
+          } else if (band >= 0 && absAy >= usLat && steerRate <= usRate && Math.abs(sAY[j]) <= usJerk && Math.abs(ax) <= usLong * G) {
+            const road = steer / ratio;
+            us.addCorner(band, ayG, road - geom);
+            us.signDot += road * geom;
+            us.signNorm += geom * geom;
           }
         }
         if (yaw === yaw && absAy > 0.3) { this.yawSignDot += yaw * ayG > 0 ? 1 : -1; this.yawSignN++; }
@@ -253,6 +263,8 @@ export class SummaryBuilder {
 
       ffOut[j] = ff; frOut[j] = fr;
     }
+    this.estN = estN; this.refFront = refF; this.refRear = refR;
+    this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
     this.rows = rows; this.tLast = tLast; this.blockStart = blockStart; this.blockEnd = blockEnd;
     // Chart traces column by column, in SI; converted to display units at output.
     const tc = this.traceCols;
