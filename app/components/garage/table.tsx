@@ -40,7 +40,7 @@ export function UnitsLink({ system }: { system: "metric" | "imperial" }) {
   next.set("units", system === "metric" ? "imperial" : "metric");
   return (
     <Link to={`?${next}`} className="text-sm text-accent underline" preventScrollReset>
-      Show in {system === "metric" ? "in · lb · lbf/in" : "mm · kg · N/mm"}
+      {system === "metric" ? "Imperial units (in · lb · lbf/in)" : "Metric units (mm · kg · N/mm)"}
     </Link>
   );
 }
