@@ -47,6 +47,14 @@ export interface IngestResult {
   rowsWithoutTime: number;
 }
 
+/**
+ * A plain Uint8Array view (no copy) of a chunk, so the hot loop only ever sees one array type:
+ * Node's Buffer is a Uint8Array subclass, and mixing the two makes element access polymorphic.
+ */
+function plain(chunk: Uint8Array): Uint8Array {
+  return Object.getPrototypeOf(chunk) === Uint8Array.prototype ? chunk : new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.length);
+}
+
 async function* chunksOf(source: AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>): AsyncGenerator<Uint8Array> {
   if (typeof (source as ReadableStream<Uint8Array>).getReader === "function") {
     const reader = (source as ReadableStream<Uint8Array>).getReader();
@@ -54,13 +62,13 @@ async function* chunksOf(source: AsyncIterable<Uint8Array> | ReadableStream<Uint
       for (;;) {
         const { done, value } = await reader.read();
         if (done) return;
-        if (value.length) yield value;
+        if (value.length) yield plain(value);
       }
     } finally {
       reader.releaseLock();
     }
   } else {
-    for await (const chunk of source as AsyncIterable<Uint8Array>) if (chunk.length) yield chunk;
+    for await (const chunk of source as AsyncIterable<Uint8Array>) if (chunk.length) yield plain(chunk);
   }
 }
 

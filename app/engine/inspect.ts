@@ -184,7 +184,7 @@ export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan 
 
   let commaCells = 0;
   let pointCells = 0;
-  for (const r of dataRows) for (const c of r) if (/^\s*[+-]?\d*,\d/.test(c)) commaCells++; else if (/^\s*[+-]?\d*\.\d/.test(c)) pointCells++;
+  for (const r of dataRows) for (const c of r) if (/^\s*[+-]?(\d+,\d*|,\d)/.test(c)) commaCells++; else if (/^\s*[+-]?(\d+\.\d*|\.\d)/.test(c)) pointCells++;
   const decimalComma = comma && commaCells > pointCells;
 
   const notes: string[] = [];
