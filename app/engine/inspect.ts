@@ -153,6 +153,9 @@ function unitFromName(name: string): string | null {
 export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan {
   checkIsText(bytes);
   const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+  if (bytes.indexOf(10) < 0 && bytes.indexOf(13) >= 0) {
+    throw new EngineError("no_header", "no header found: the lines end with a carriage return only (an old Mac line ending); save the export with LF or CRLF line ends");
+  }
   const { lines, crlf } = readLines(bytes, bom ? 3 : 0, isWholeFile);
   const found = detectDelimiter(lines);
   const noHeader = (why: string) =>

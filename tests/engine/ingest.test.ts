@@ -126,6 +126,17 @@ describe("rows split across chunk boundaries", () => {
 });
 
 describe("streaming behaviour", () => {
+  it("finds a header behind a preamble longer than the first 64 KB", async () => {
+    const meta: Record<string, string> = {};
+    for (let i = 0; i < 100; i++) meta[`Setup note ${i}`] = "Kestrel Bank, turn 3 ".repeat(40);
+    const bytes = bytesOf(writeExport(stintChannels(300), meta, { preamble: true }));
+    const { result } = await ingestAll(inPieces(bytes, 16384), STINT_MAP);
+    expect(result.header.headerLine).toBe(102);
+    expect(Object.keys(result.header.metadata)).toHaveLength(100);
+    expect(result.rows).toBe(300);
+  });
+
+
   it("reports progress in bytes up to the file size and accepts a ReadableStream", async () => {
     const bytes = bytesOf(writeExport(stintChannels(400), METADATA, {}));
     const seen: number[] = [];
