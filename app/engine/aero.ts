@@ -43,7 +43,8 @@ export const RH_MAP_LO_MM = -40;
 export const RH_MAP_BIN_MM = 2;
 export const RH_MAP_BINS = 25;
 
-const BS = 11; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r
+export const BAND_STRIDE = 11;
+const BS = BAND_STRIDE; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r
 
 /**
  * Per-row work is kept to plain sums of the current time block; the time terms of the fit use the
@@ -54,11 +55,11 @@ export class AeroAccumulator {
   readonly blocks = new AxleRegressionSums();
   /** Per front ride-height bin: n, Στ, Σq, ΣF_front, ΣF_rear. */
   readonly rhMap = new Float64Array(RH_MAP_BINS * 5);
-  private readonly band: Float64Array;
+  /** Band sums, stride BAND_STRIDE (the summary's row loop writes them directly). */
+  readonly band: Float64Array;
   private readonly bandCount: number;
-  // current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr²
-  private bn = 0; private bt = 0; private btt = 0; private bq = 0; private bqq = 0;
-  private bf = 0; private bqf = 0; private bff = 0; private br = 0; private bqr = 0; private brr = 0;
+  /** Current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr² (the row loop keeps these in locals). */
+  readonly cur = new Float64Array(11);
 
   constructor(bandCount: number) {
     this.bandCount = bandCount;
@@ -66,8 +67,8 @@ export class AeroAccumulator {
   }
 
   add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
-    this.bn++; this.bt += t; this.btt += t * t; this.bq += q; this.bqq += q * q;
-    this.bf += f; this.bqf += q * f; this.bff += f * f; this.br += r; this.bqr += q * r; this.brr += r * r;
+    const c = this.cur;
+    c[0]++; c[1] += t; c[2] += t * t; c[3] += q; c[4] += q * q; c[5] += f; c[6] += q * f; c[7] += f * f; c[8] += r; c[9] += q * r; c[10] += r * r;
     if (band < 0) return;
     const b = this.band, o = band * BS;
     b[o]++; b[o + 1] += t; b[o + 2] += q; b[o + 3] += f; b[o + 4] += r; b[o + 5] += dampFront; b[o + 6] += dampRear;
@@ -84,15 +85,16 @@ export class AeroAccumulator {
 
   /** End of a time block: fold its sums in; its mean enters the block-level sums when it holds enough samples. */
   closeBlock(minSamples: number): void {
-    const n = this.bn;
+    const c = this.cur;
+    const n = c[0];
     if (n > 0) {
-      const s = this.samples, tb = this.bt / n;
-      s.n += n; s.st += this.bt; s.stt += this.btt; s.sq += this.bq; s.stq += tb * this.bq; s.sqq += this.bqq;
-      s.sf += this.bf; s.stf += tb * this.bf; s.sqf += this.bqf; s.sff += this.bff;
-      s.sr += this.br; s.str += tb * this.br; s.sqr += this.bqr; s.srr += this.brr;
-      if (n >= minSamples) this.blocks.add(tb, this.bq / n, this.bf / n, this.br / n);
+      const s = this.samples, tb = c[1] / n;
+      s.n += n; s.st += c[1]; s.stt += c[2]; s.sq += c[3]; s.stq += tb * c[3]; s.sqq += c[4];
+      s.sf += c[5]; s.stf += tb * c[5]; s.sqf += c[6]; s.sff += c[7];
+      s.sr += c[8]; s.str += tb * c[8]; s.sqr += c[9]; s.srr += c[10];
+      if (n >= minSamples) this.blocks.add(tb, c[3] / n, c[5] / n, c[8] / n);
     }
-    this.bn = this.bt = this.btt = this.bq = this.bqq = this.bf = this.bqf = this.bff = this.br = this.bqr = this.brr = 0;
+    c.fill(0);
   }
 
   /** Band sums as named arrays (for the end of the session). */

@@ -4,7 +4,7 @@
  * delay line for the centred filters, sufficient statistics for the fits, decimated traces.
  * The per-row path allocates nothing.
  */
-import { AeroAccumulator } from "./aero";
+import { AeroAccumulator, BAND_STRIDE } from "./aero";
 import { bandEdgesMs } from "./bands";
 import { carModel, validateCar } from "./car";
 import type { CarModel } from "./car";
@@ -175,6 +175,9 @@ export class SummaryBuilder {
     const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
     let contactF = 0, contactR = 0, waiting = 0;
     let rows = this.rows, t0 = this.t0, tLast = this.tLast, blockStart = this.blockStart, blockEnd = this.blockEnd;
+    // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
+    const cur = aero.cur, bs = aero.band;
+    let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
     for (let j = 0; j < count; j++) {
       const t = cT[j];
       ffOut[j] = NaN; frOut[j] = NaN;
@@ -184,7 +187,9 @@ export class SummaryBuilder {
       tLast = t;
       const tau = t - t0;
       if (!(tau >= blockStart && tau < blockEnd)) {
+        cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
         this.closeBlock();
+        bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = 0;
         const blk = Math.floor(tau / blockS);
         blockStart = blk * blockS;
         blockEnd = blockStart + blockS;
@@ -226,13 +231,21 @@ export class SummaryBuilder {
           sign.n++; sign.sa += axG; sign.saa += axG * axG; sign.sf += sf; sign.saf += axG * sf; sign.sr += sr; sign.sar += axG * sr;
         }
         // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
-        if (v >= aeroMinV && Math.abs(ax) <= aeroMaxAx &&
-          Math.abs(vFl) <= vmax && Math.abs(vFr) <= vmax && Math.abs(vRl) <= vmax && Math.abs(vRr) <= vmax &&
-          Math.abs(cFL[j] - xfl) <= spike && Math.abs(cFR[j] - xfr) <= spike && Math.abs(cRL[j] - xrl) <= spike && Math.abs(cRR[j] - xrr) <= spike) {
+        // One branch for all gates (bitwise &): noisy data makes each separate test hard to predict.
+        const vAbs = Math.max(Math.abs(vFl), Math.abs(vFr), Math.abs(vRl), Math.abs(vRr));
+        const spikeAbs = Math.max(Math.abs(cFL[j] - xfl), Math.abs(cFR[j] - xfr), Math.abs(cRL[j] - xrl), Math.abs(cRR[j] - xrr));
+        if (((v >= aeroMinV ? 1 : 0) & (Math.abs(ax) <= aeroMaxAx ? 1 : 0) & (vAbs <= vmax ? 1 : 0) & (spikeAbs <= spike ? 1 : 0)) === 1) {
           if (ff !== ff) waiting++;
           else {
             const q = 0.5 * rho * v * v;
-            aero.add(tau, q, ff, fr, band, xfl + xfr, xrl + xrr, mRHF[j], mRHR[j]);
+            bn++; bt += tau; btt += tau * tau; bq += q; bqq += q * q; bf += ff; bqf += q * ff; bff += ff * ff; br += fr; bqr += q * fr; brr += fr * fr;
+            if (band >= 0) {
+              const o = band * BAND_STRIDE;
+              bs[o]++; bs[o + 1] += tau; bs[o + 2] += q; bs[o + 3] += ff; bs[o + 4] += fr; bs[o + 5] += xfl + xfr; bs[o + 6] += xrl + xrr;
+              const rhf = mRHF[j], rhr = mRHR[j];
+              if (rhf === rhf) { bs[o + 7] += rhf; bs[o + 8]++; }
+              if (rhr === rhr) { bs[o + 9] += rhr; bs[o + 10]++; }
+            }
             if (staticKnown) aero.addRideHeight(-(xfl + xfr - sfl - sfr) / 2 / mrF, tau, q, ff, fr);
             if (cf > 0) contactF++;
             if (cr > 0) contactR++;
@@ -251,7 +264,7 @@ export class SummaryBuilder {
         if (steer === steer && geom === geom) {
           if (absAy < straightLat && steerRate < straightRate && v >= straightMinV) {
             us.addStraight(steer - ratio * geom);
-          } else if (band >= 0 && absAy >= usLat && steerRate <= usRate && Math.abs(sAY[j]) <= usJerk && Math.abs(ax) <= usLong * G) {
+          } else if (((band >= 0 ? 1 : 0) & (absAy >= usLat ? 1 : 0) & (steerRate <= usRate ? 1 : 0) & (Math.abs(sAY[j]) <= usJerk ? 1 : 0) & (Math.abs(ax) <= usLong * G ? 1 : 0)) === 1) {
             const road = steer / ratio;
             us.addCorner(band, ayG, road - geom);
             us.signDot += road * geom;
@@ -263,6 +276,7 @@ export class SummaryBuilder {
 
       ffOut[j] = ff; frOut[j] = fr;
     }
+    cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
     this.rows = rows; this.tLast = tLast; this.blockStart = blockStart; this.blockEnd = blockEnd;
