@@ -17,6 +17,7 @@ import type { ResolvedOptions, SummaryOptions } from "./summary-options";
 import { TraceDecimator } from "./summary-traces";
 import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
+import { copyBlock, estimateDt } from "./summary-blocks";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
 
@@ -291,28 +292,4 @@ export class SummaryBuilder {
 
 export function createSummaryBuilder(car: CarInput, options: SummaryOptions = {}): SummaryBuilder {
   return new SummaryBuilder(car, options);
-}
-
-function copyBlock(b: ChannelBlock): ChannelBlock {
-  const channels: ChannelBlock["channels"] = {};
-  for (const [k, v] of Object.entries(b.channels)) channels[k as keyof typeof channels] = Float64Array.from(v!.subarray(0, b.rows));
-  return { rows: b.rows, channels };
-}
-
-/** Median positive time step over the first rows; null until 16 steps are seen. */
-function estimateDt(blocks: ChannelBlock[]): number | null {
-  const steps: number[] = [];
-  let prev = NaN;
-  for (const b of blocks) {
-    const t = b.channels.time;
-    if (!t) continue;
-    for (let i = 0; i < b.rows && steps.length < 512; i++) {
-      const d = t[i] - prev;
-      if (d > 0) steps.push(d);
-      if (t[i] === t[i]) prev = t[i];
-    }
-  }
-  if (steps.length < 16) return null;
-  steps.sort((a, b) => a - b);
-  return steps[steps.length >> 1];
 }
