@@ -121,7 +121,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     aeroF[i] = fa;
     aeroR[i] = ra;
     const latTotal = (mass * ayChassis[i] * h) / car.trackWidthM;
-    const latF = latTotal * car.frontWeightFraction * car.front.rollSpringShare / 1, latR = latTotal * (1 - car.frontWeightFraction) * car.rear.rollSpringShare;
+    const latF = latTotal * car.frontWeightFraction * car.front.rollSpringShare, latR = latTotal * (1 - car.frontWeightFraction) * car.rear.rollSpringShare;
     const axleF = fa + lt + fuelF, axleR = ra - lt + fuelR;
     // ay > 0 (left turn) loads the right-hand wheels.
     const xfl = damperTravelMm(axleF / 2 - latF, car.front), xfr = damperTravelMm(axleF / 2 + latF, car.front);
