@@ -1,0 +1,67 @@
+import { readFileSync } from "node:fs";
+import { describe, expect, it } from "vitest";
+import { expose, proxy, wrap } from "comlink";
+import { engineApi, type EngineApi } from "../../workers/engine-api";
+import type { CarInput, ChannelMap } from "../../app/engine/types";
+
+const LOG = "sample-data/logs/marlin-kestrel-semicolon";
+const bytes = readFileSync(`${LOG}.csv`);
+const map = JSON.parse(readFileSync(`${LOG}.map.json`, "utf8")) as ChannelMap;
+const truth = JSON.parse(readFileSync(`${LOG}.truth.json`, "utf8"));
+const car = JSON.parse(readFileSync(new URL(truth.car_file, new URL(`../../${LOG}.csv`, import.meta.url)), "utf8")) as CarInput;
+
+/** The page talks to the worker through comlink over a message port; the same is done here with a MessageChannel. */
+function connect(): { api: ReturnType<typeof wrap<EngineApi>>; close(): void } {
+  const { port1, port2 } = new MessageChannel();
+  expose(engineApi, port1 as unknown as Parameters<typeof expose>[1]);
+  const api = wrap<EngineApi>(port2 as unknown as Parameters<typeof wrap>[0]);
+  return { api, close: () => { port1.close(); port2.close(); } };
+}
+
+describe("engine worker API over comlink", () => {
+  it("proposes the channel map the demo generator wrote for this log", async () => {
+    const { api, close } = connect();
+    const COMMA = "sample-data/logs/marlin-kestrel-comma";
+    const commaMap = JSON.parse(readFileSync(`${COMMA}.map.json`, "utf8")) as ChannelMap;
+    try {
+      const res = await api.inspect(new Blob([readFileSync(`${COMMA}.csv`)]));
+      expect(res.ok).toBe(true);
+      if (!res.ok) return;
+      // The generator's map.json is the truth for which column holds which channel.
+      for (const [channel, entry] of Object.entries(commaMap)) {
+        expect(res.value.suggestion.map[channel as keyof ChannelMap]?.column).toBe(entry!.column);
+      }
+      expect(res.value.header.delimiter).toBe(",");
+    } finally {
+      close();
+    }
+  });
+
+  it("analyses the whole file in the worker, reports progress to the end and recovers the generator's ClA", async () => {
+    const { api, close } = connect();
+    try {
+      const seen: number[] = [];
+      const res = await api.analyse(new Blob([bytes]), car, map, {}, proxy((b: number) => { seen.push(b); }));
+      expect(res.ok).toBe(true);
+      if (!res.ok) return;
+      // Demo truth, within the issue's tolerance (ClA within 5 %).
+      expect(Math.abs(res.value.aero.cla_front_m2! / truth.cla_front_m2 - 1)).toBeLessThan(0.05);
+      expect(Math.abs(res.value.aero.cla_rear_m2! / truth.cla_rear_m2_fit - 1)).toBeLessThan(0.05);
+      expect(seen.at(-1)).toBe(bytes.length);
+    } finally {
+      close();
+    }
+  });
+
+  it("returns an input problem as data with its code, not as a thrown error", async () => {
+    const { api, close } = connect();
+    try {
+      const binary = new Uint8Array(4096);
+      binary.set([80, 75, 3, 4]); // a ZIP signature followed by NUL bytes
+      const res = await api.inspect(new Blob([binary]));
+      expect(res).toMatchObject({ ok: false, code: "not_text" });
+    } finally {
+      close();
+    }
+  });
+});
