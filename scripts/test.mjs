@@ -1,7 +1,7 @@
 // `npm test`: provision a separate test instance (MariaDB on 3308 with a fresh rakeline_test, catcher on 2526),
 // then typecheck, vitest unit + integration, build, serve on 127.0.0.1:3100 and run the browser tests.
 // Exits non-zero when any stage fails and always stops what it started.
-import { mkdirSync, rmSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import { chromiumPackage, ensureDebianPackages, mariadbPackage } from "./lib/apt.mjs";
 import { ensureNodeModules } from "./lib/deps.mjs";
@@ -18,11 +18,37 @@ const results = [];
 let lock = null;
 let stopping = false;
 
+// Each vitest run also writes its JSON report here, so the summary can count tests across runs.
+const reportDir = path.join(repoRoot, ".data", "test-reports");
+const reports = [];
+
+function vitestArgs(vitest, name, rest) {
+  const file = path.join(reportDir, `${name}.json`);
+  rmSync(file, { force: true });
+  reports.push(file);
+  return [vitest, "run", "--reporter=default", "--reporter=json", `--outputFile.json=${file}`, ...rest];
+}
+
+/** Totals over the vitest reports written by this run: the closing "N passed, N failed" line. */
+function testTally() {
+  let passed = 0, failed = 0, skipped = 0;
+  for (const file of reports) {
+    if (!existsSync(file)) continue;
+    const r = JSON.parse(readFileSync(file, "utf8"));
+    passed += r.numPassedTests ?? 0;
+    failed += r.numFailedTests ?? 0;
+    skipped += (r.numPendingTests ?? 0) + (r.numTodoTests ?? 0);
+  }
+  return { passed, failed, skipped };
+}
+
 function printSummary() {
   banner("npm test summary");
   for (const { stage, status, seconds } of results) {
     console.log(`  ${status.padEnd(7)} ${stage.padEnd(58)} ${seconds.toFixed(1).padStart(6)} s`);
   }
+  const { passed, failed, skipped } = testTally();
+  console.log(`\nTests: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
 }
 
 async function finish(exitCode, reason) {
@@ -106,6 +132,7 @@ async function main() {
     await assertPortFree("127.0.0.1", instance.smtpPort, "Another npm test may be running its mail catcher; stop it first.");
   });
   if (!portsFree) return finish(1, "a port npm test needs is taken");
+  mkdirSync(reportDir, { recursive: true });
   const db = await provision();
   if (!db) return finish(1, "provisioning failed; no tests were run");
 
@@ -129,7 +156,7 @@ async function main() {
       (await node([reactRouter, "typegen"], baseEnv)) && (await node([tsc], baseEnv)));
   }
   if (!e2eOnly) {
-    await stage("Unit and integration tests (vitest run)", () => node([vitest, "run", ...filters], vitestEnv));
+    await stage("Unit and integration tests (vitest run)", () => node(vitestArgs(vitest, "unit-integration", filters), vitestEnv));
   }
   if (full || e2eOnly) {
     const built = await stage("Build (react-router build)", async () => (await buildApp(repoRoot, baseEnv)) === 0);
@@ -139,7 +166,7 @@ async function main() {
         stack.push("app server (test)", server.stop);
         lock.record("app server", server.pid, "@react-router/serve/bin.js");
         try {
-          return await node([vitest, "run", "--config", "vitest.e2e.config.ts", ...filters], vitestEnv);
+          return await node(vitestArgs(vitest, "browser", ["--config", "vitest.e2e.config.ts", ...filters]), vitestEnv);
         } finally {
           if (!stopping) await server.stop();
         }
