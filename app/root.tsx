@@ -3,6 +3,8 @@ import { ErrorView } from "./components/ui/error-view";
 import type { Route } from "./+types/root";
 import "./app.css";
 
+export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
+
 export function Layout({ children }: { children: React.ReactNode }) {
   return (
     <html lang="en">
