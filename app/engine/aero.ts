@@ -77,7 +77,7 @@ export class AeroAccumulator {
   }
 
   addRideHeight(rhChangeFrontMm: number, t: number, q: number, f: number, r: number): void {
-    const bin = Math.floor((rhChangeFrontMm - RH_MAP_LO_MM) / RH_MAP_BIN_MM);
+    const bin = Math.floor((rhChangeFrontMm - RH_MAP_LO_MM) * (1 / RH_MAP_BIN_MM));
     if (!(bin >= 0 && bin < RH_MAP_BINS)) return;
     const o = bin * 5, m = this.rhMap;
     m[o]++; m[o + 1] += t; m[o + 2] += q; m[o + 3] += f; m[o + 4] += r;

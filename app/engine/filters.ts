@@ -10,6 +10,8 @@
  * than h+1 of the 2h+1 samples are valid.
  *
  * Work is done column by column with block-local prefix sums (tight loops, no per-row calls).
+ * `centre` (and `mean` of an unfiltered channel) are views into the delay line, not copies: they
+ * stay valid until the next push or flush, which first carries the last 2D samples forward.
  */
 export class BlockSmoother {
   readonly channels: number;
@@ -28,6 +30,11 @@ export class BlockSmoother {
   private cnt: Float64Array = new Float64Array(0);
   private cap = 0;
   private seen = 0;
+  /** Rows of the last compute whose tail (2D samples) is still to be carried to the front. */
+  private carryFrom = -1;
+  /** Own output arrays (absent channels are written here; `centre`/`mean` may point into `ext`). */
+  private ownMean: Float64Array[] = [];
+  private ownCentre: Float64Array[] = [];
 
   /** `needSlope[k]` false skips the slope of channel k (its slope output stays NaN). */
   constructor(halfWindows: ArrayLike<number>, dtS: number, needSlope?: boolean[], capacityRows = 16_384) {
@@ -59,12 +66,15 @@ export class BlockSmoother {
       this.slope.push(new Float64Array(rows));
       this.centre.push(new Float64Array(rows));
     }
+    this.ownMean = this.mean.slice();
+    this.ownCentre = this.centre.slice();
     this.pre = new Float64Array(rows + d2 + 1);
     this.cnt = new Float64Array(rows + d2 + 1);
   }
 
   /** Feed `rows` rows (null column = not logged → NaN). Returns how many delayed rows are ready. */
   push(cols: ReadonlyArray<Float64Array | null>, rows: number): number {
+    this.carry();
     if (rows > this.cap) this.grow(rows);
     const d = this.delay, d2 = 2 * d;
     for (let k = 0; k < this.channels; k++) {
@@ -81,8 +91,18 @@ export class BlockSmoother {
   flush(): number {
     const d = this.delay, d2 = 2 * d;
     if (d === 0) return 0;
+    this.carry();
     for (let k = 0; k < this.channels; k++) this.ext[k].fill(NaN, d2, d2 + d);
     return this.compute(d);
+  }
+
+  /** Carry the last 2D raw samples of the previous block to the front of each delay line. */
+  private carry(): void {
+    const r = this.carryFrom;
+    if (r < 0) return;
+    const d2 = 2 * this.delay;
+    for (let k = 0; k < this.channels; k++) this.ext[k].copyWithin(0, r, r + d2);
+    this.carryFrom = -1;
   }
 
   private compute(rows: number): number {
@@ -98,18 +118,24 @@ export class BlockSmoother {
     for (let k = 0; k < this.channels; k++) {
       const e = this.ext[k];
       const h = this.half[k];
-      const mean = this.mean[k], slope = this.slope[k], centre = this.centre[k];
+      const slope = this.slope[k];
+      const mean = this.ownMean[k];
+      this.mean[k] = mean;
       if (this.absent[k] && out > 0) {
         // A channel that is not logged: NaN out, no sums.
+        const centre = this.ownCentre[k];
+        this.centre[k] = centre;
         mean.fill(NaN, 0, out); slope.fill(NaN, 0, out); centre.fill(NaN, 0, out);
-      } else if (h === 0) {
-        for (let c = eStart, j = 0; c < eEnd; c++, j++) { const x = e[c]; centre[j] = x; mean[j] = x; slope[j] = NaN; }
+        continue;
+      }
+      this.centre[k] = e.subarray(eStart, eStart + out);
+      if (h === 0) {
+        this.mean[k] = this.centre[k];
+        slope.fill(NaN, 0, out);
       } else {
         const scale = this.slopeScale[k];
-        centre.set(e.subarray(eStart, eEnd));
         if (out > 0 && this.runningSums(e, h, eStart, eEnd, mean, this.needSlope[k] ? slope : null, scale)) {
           if (!this.needSlope[k]) slope.fill(NaN, 0, out);
-          e.copyWithin(0, rows, rows + d2);
           continue;
         }
         // The block holds a dropout: prefix sums with counts.
@@ -139,9 +165,9 @@ export class BlockSmoother {
           }
         } else slope.fill(NaN, 0, out);
       }
-      // Carry the last 2D raw samples to the front for the next block.
-      e.copyWithin(0, rows, rows + d2);
     }
+    // The last 2D raw samples move to the front at the next push/flush (the views stay valid till then).
+    this.carryFrom = rows;
     return out;
   }
 

@@ -24,6 +24,8 @@ export type { SessionSummary, FinishContext } from "./summary-types";
 // Module-local copies: a loader may turn imported bindings into getters, too slow per row.
 const G = STANDARD_GRAVITY_M_S2;
 const DEG_PER_RAD = 180 / Math.PI;
+// Reciprocals: the row loop multiplies instead of dividing (a division costs several multiplies).
+const INV_G = 1 / G, RAD_PER_DEG = Math.PI / 180;
 export type { SummaryOptions } from "./summary-options";
 
 /**
@@ -161,20 +163,21 @@ export class SummaryBuilder {
     const ffOut = this.ffOut, frOut = this.frOut;
     const aero = this.aero, us = this.us, bandRows = this.bandRows, est = this.est, sign = this.sign;
     const kF = c.forcePerMmFront, kR = c.forcePerMmRear, kbF = c.bumpForcePerMmFront, kbR = c.bumpForcePerMmRear;
-    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, ratio = c.steeringRatio, geomPerKappa = DEG_PER_RAD * c.wheelbaseM;
+    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, ratio = c.steeringRatio, invRatio = 1 / ratio, geomPerKappa = DEG_PER_RAD * c.wheelbaseM;
+    const rhPerDamp = -0.5 / mrF, halfRho = 0.5 * rho;
     const straightLat = g.straight_max_lat_g, straightRate = g.straight_max_steer_rate_deg_s, usLat = g.us_min_lat_g, usRate = g.us_max_steer_rate_deg_s;
     const usJerk = g.us_max_lat_jerk_g_s * G, usLong = g.us_max_long_g;
     const needBump = this.hasBumpStops, collectEst = !this.staticGiven, estMin = this.estMin, estMax = this.estMax;
     let estN = this.estN, refF = this.refFront, refR = this.refRear;
-    // Static reference per corner: the readings when given, else the running estimate.
+    // Static reference per corner: the readings when given, else the running estimate (kept in
+    // plain locals, no closure: captured variables would live in a heap context inside the loop).
     let sfl = 0, sfr = 0, srl = 0, srr = 0;
-    const setStatic = () => {
-      if (st) { sfl = st.fl; sfr = st.fr; srl = st.rl; srr = st.rr; }
-      else if (estN > 0) { sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN; }
-    };
-    setStatic();
+    if (st) { sfl = st.fl; sfr = st.fr; srl = st.rl; srr = st.rr; }
+    else if (estN > 0) { sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN; }
     const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
     let contactF = 0, contactR = 0, waiting = 0;
+    let sgN = sign.n, sgA = sign.sa, sgAA = sign.saa, sgF = sign.sf, sgAF = sign.saf, sgR = sign.sr, sgAR = sign.sar;
+    let yawDot = this.yawSignDot, yawN = this.yawSignN, usDot = us.signDot, usNorm = us.signNorm;
     let rows = this.rows, t0 = this.t0, tLast = this.tLast, blockStart = this.blockStart, blockEnd = this.blockEnd;
     // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
     const cur = aero.cur, bs = aero.band;
@@ -209,7 +212,7 @@ export class SummaryBuilder {
         if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(ay) < 0.1 * G &&
           Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
           est[0] += xfl; est[1] += xfr; est[2] += xrl; est[3] += xrr; estN++;
-          setStatic();
+          sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN;
         }
         const staticKnown = st !== null || estN >= estMin;
         let cf = 0, cr = 0;
@@ -228,8 +231,8 @@ export class SummaryBuilder {
           }
         }
         if (v > 30 / 3.6 && Math.abs(ax) > 0.05 * G) {
-          const axG = ax / G, sf = xfl + xfr, sr = xrl + xrr;
-          sign.n++; sign.sa += axG; sign.saa += axG * axG; sign.sf += sf; sign.saf += axG * sf; sign.sr += sr; sign.sar += axG * sr;
+          const axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
+          sgN++; sgA += axG; sgAA += axG * axG; sgF += sf; sgAF += axG * sf; sgR += sr; sgAR += axG * sr;
         }
         // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
         // One branch for all gates (bitwise &): noisy data makes each separate test hard to predict.
@@ -238,7 +241,7 @@ export class SummaryBuilder {
         if (((v >= aeroMinV ? 1 : 0) & (Math.abs(ax) <= aeroMaxAx ? 1 : 0) & (vAbs <= vmax ? 1 : 0) & (spikeAbs <= spike ? 1 : 0)) === 1) {
           if (ff !== ff) waiting++;
           else {
-            const q = 0.5 * rho * v * v;
+            const q = halfRho * v * v;
             bn++; bt += tau; btt += tau * tau; bq += q; bqq += q * q; bf += ff; bqf += q * ff; bff += ff * ff; br += fr; bqr += q * fr; brr += fr * fr;
             if (band >= 0) {
               const o = band * BAND_STRIDE;
@@ -247,7 +250,7 @@ export class SummaryBuilder {
               if (rhf === rhf) { bs[o + 7] += rhf; bs[o + 8]++; }
               if (rhr === rhr) { bs[o + 9] += rhr; bs[o + 10]++; }
             }
-            if (staticKnown) aero.addRideHeight(-(xfl + xfr - sfl - sfr) / 2 / mrF, tau, q, ff, fr);
+            if (staticKnown) aero.addRideHeight((xfl + xfr - sfl - sfr) * rhPerDamp, tau, q, ff, fr);
             if (cf > 0) contactF++;
             if (cr > 0) contactR++;
           }
@@ -257,28 +260,31 @@ export class SummaryBuilder {
       // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
       if (v >= usMinV) {
         const steer = mSTEER[j], yaw = mYAW[j];
-        const kappa = yaw === yaw ? yaw / DEG_PER_RAD / v : ay / (v * v);
+        const invV = 1 / v;
+        const kappa = yaw === yaw ? yaw * RAD_PER_DEG * invV : ay * invV * invV;
         const geom = geomPerKappa * kappa;
         const steerRate = Math.abs(sSTEER[j]);
-        const ayG = ay / G;
+        const ayG = ay * INV_G;
         const absAy = Math.abs(ayG);
         if (steer === steer && geom === geom) {
-          if (absAy < straightLat && steerRate < straightRate && v >= straightMinV) {
+          if (((absAy < straightLat ? 1 : 0) & (steerRate < straightRate ? 1 : 0) & (v >= straightMinV ? 1 : 0)) === 1) {
             us.addStraight(steer - ratio * geom);
           } else if (((band >= 0 ? 1 : 0) & (absAy >= usLat ? 1 : 0) & (steerRate <= usRate ? 1 : 0) & (Math.abs(sAY[j]) <= usJerk ? 1 : 0) & (Math.abs(ax) <= usLong * G ? 1 : 0)) === 1) {
-            const road = steer / ratio;
+            const road = steer * invRatio;
             us.addCorner(band, ayG, road - geom);
-            us.signDot += road * geom;
-            us.signNorm += geom * geom;
+            usDot += road * geom;
+            usNorm += geom * geom;
           }
         }
-        if (yaw === yaw && absAy > 0.3) { this.yawSignDot += yaw * ayG > 0 ? 1 : -1; this.yawSignN++; }
+        if (yaw === yaw && absAy > 0.3) { yawDot += yaw * ayG > 0 ? 1 : -1; yawN++; }
       }
 
       ffOut[j] = ff; frOut[j] = fr;
     }
     cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
+    sign.n = sgN; sign.sa = sgA; sign.saa = sgAA; sign.sf = sgF; sign.saf = sgAF; sign.sr = sgR; sign.sar = sgAR;
+    this.yawSignDot = yawDot; this.yawSignN = yawN; us.signDot = usDot; us.signNorm = usNorm;
     this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
     this.rows = rows; this.tLast = tLast; this.blockStart = blockStart; this.blockEnd = blockEnd;
     // Chart traces column by column, in SI; converted to display units at output.

@@ -13,6 +13,7 @@ import { interval95, meanInterval } from "./stats";
 
 export const AY_BIN_G = 0.05;
 export const AY_BINS = 50;
+const INV_AY_BIN = 1 / AY_BIN_G;
 
 const S_N = 0, S_A = 1, S_AA = 2, S_AU = 3, S_U = 4, S_UU = 5;
 const STRIDE = 6;
@@ -55,7 +56,7 @@ export class UndersteerAccumulator {
 
   addCorner(band: number, ayG: number, uRawDeg: number): void {
     const abs = ayG < 0 ? -ayG : ayG;
-    let bin = (abs / AY_BIN_G) | 0;
+    let bin = (abs * INV_AY_BIN) | 0;
     if (bin >= AY_BINS) bin = AY_BINS - 1;
     const cell = band * AY_BINS + bin;
     const o = cell * STRIDE;
