@@ -38,7 +38,7 @@ export const ROLE_SUMMARIES: Record<Role, string> = {
   owner: "Everything, including members, roles and team settings.",
   engineer: "Drops logs, edits cars and setups, creates Brief links, reads all team data.",
   analyst: "Reads all team data, compares stints, annotates sessions.",
-  driver: "Sees cars and what is shared with or assigned to them.",
+  driver: "Sees the Garage (cars and setups) and what is shared with or assigned to them.",
 };
 
 const readAll = {
@@ -74,6 +74,7 @@ export const roles = {
   // Sessions reach a driver only through a Brief link or an assignment, checked where those live.
   driver: ac.newRole({
     car: ["read"],
+    setup: ["read"],
   }),
 } satisfies Record<Role, unknown>;
 

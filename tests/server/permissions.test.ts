@@ -1,7 +1,8 @@
 // The permission matrix of the four roles. Expected grants are the role definitions of Rakeline's
 // foundation issue (issue 2, item 6: owner everything; engineer uploads sessions, edits cars and
 // setups, creates Brief links, reads all; analyst reads all, compares, annotates; driver reads only
-// what is shared or assigned). The AND rule over listed actions is better-auth's access-control
+// what is shared or assigned) and of the Garage issue (issue 4, item 6: owner and engineer edit cars
+// and setups; analyst and driver read them). The AND rule over listed actions is better-auth's access-control
 // rule (better-auth docs, "Access Control": a role is authorized when it holds every requested action).
 import { describe, expect, it } from "vitest";
 import { can, ROLES, roles, statements, type Permission, type Role } from "~/lib/access";
@@ -18,7 +19,7 @@ const MATRIX: Row[] = [
   { permission: { car: ["create"] }, granted: ["owner", "engineer"] },
   { permission: { car: ["update"] }, granted: ["owner", "engineer"] },
   { permission: { car: ["delete"] }, granted: ["owner"] },
-  { permission: { setup: ["read"] }, granted: ["owner", "engineer", "analyst"] },
+  { permission: { setup: ["read"] }, granted: ["owner", "engineer", "analyst", "driver"] },
   { permission: { setup: ["create"] }, granted: ["owner", "engineer"] },
   { permission: { setup: ["update"] }, granted: ["owner", "engineer"] },
   { permission: { session: ["read"] }, granted: ["owner", "engineer", "analyst"] },

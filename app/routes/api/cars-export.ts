@@ -7,7 +7,7 @@ import type { Route } from "./+types/cars-export";
 const ID = /^[A-Za-z0-9-]{1,36}$/;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
+  const ctx = await requireMember(request, params.teamSlug, { car: ["read"], setup: ["read"] });
   if (!ID.test(params.carId) || !ID.test(params.setupId)) return Response.json({ error: "No such car or setup in this team." }, { status: 404 });
   try {
     const { car, fileName } = await exportCarInput(ctx.team.id, params.carId, params.setupId);

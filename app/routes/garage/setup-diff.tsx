@@ -12,7 +12,7 @@ import type { Route } from "./+types/setup-diff";
 const searchSchema = z.object({ against: z.string().min(1).max(36).regex(/^[A-Za-z0-9-]+$/) });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
+  const ctx = await requireMember(request, params.teamSlug, { car: ["read"], setup: ["read"] });
   const { carId, setupId } = ids(params, "carId", "setupId");
   const parsed = searchSchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!parsed.success) throw data("Choose a version to compare with (?against=<setup id>).", { status: 400 });

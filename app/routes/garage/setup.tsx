@@ -17,7 +17,7 @@ const searchSchema = z.object({
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
+  const ctx = await requireMember(request, params.teamSlug, { car: ["read"], setup: ["read"] });
   const { carId, setupId } = ids(params, "carId", "setupId");
   const car = await getCar(ctx.team.id, carId);
   const setup = await getSetup(ctx.team.id, carId, setupId);
