@@ -6,6 +6,8 @@
  *   engine parse only, engine parse + full summary, papaparse and uDSV parsing the same file into
  *   Float64Array column blocks, and the analyse CLI as a whole process on a smaller export against
  *   uDSV's parse alone. Prints MB/s, peak RSS and the ratio against uDSV.
+ * A bare newline scan over the same file calibrates the machine: the targets were set on one whose
+ * scan ran at ~1000 MB/s, so each rate is also printed scaled by 1000 / (this machine's scan rate).
  */
 import { spawnSync } from "node:child_process";
 import { closeSync, createReadStream, existsSync, mkdirSync, openSync, readFileSync, statSync, writeFileSync, writeSync } from "node:fs";
@@ -21,6 +23,8 @@ const LARGE = `${ROOT}sample-data/large/`;
 const SELF = fileURLToPath(import.meta.url);
 const BLOCK_ROWS = 16384;
 const CHANNELS = 20;
+/** Newline-scan rate (MB/s) of the machine the issue's targets were set on. */
+const REFERENCE_SCAN_MB_S = 1000;
 
 // The demo car on the demo circuit, simulated by sample-data/sim.ts (the physics side's lap model).
 const CAR: CarInput = { ...carFile(MARLIN_SR2, true), name: "Marlin SR2 (bench)" };
@@ -144,7 +148,13 @@ async function child(kind: string, path: string): Promise<void> {
   const t0 = performance.now();
   let rows = 0;
   const stream = () => createReadStream(path, { highWaterMark: 1 << 20 });
-  if (kind === "engine-parse") {
+  if (kind === "newline-scan") {
+    // Calibration: the cheapest possible pass over the bytes (read + one compare per byte).
+    for await (const chunk of stream()) {
+      const u = new Uint8Array(chunk.buffer, chunk.byteOffset, chunk.length);
+      for (let i = 0; i < u.length; i++) if (u[i] === 10) rows++;
+    }
+  } else if (kind === "engine-parse") {
     rows = (await ingestLog(stream(), MAP, { onBlock: () => {} })).rows;
   } else if (kind === "engine-summary") {
     rows = (await analyseLog!(stream(), CAR, MAP)).samples;
@@ -205,13 +215,16 @@ function runCli(path: string): Measure {
   return { label: "CLI, whole process", seconds, maxRssMb: Number(readFileSync(rssFile, "utf8")) / 1024, mb: statSync(path).size / 1e6 };
 }
 
-function table(rows: Measure[], reference: Measure): string {
+/** `scanMbS`: this machine's newline-scan rate; the "ref MB/s" column is MB/s × 1000 / scanMbS. */
+function table(rows: Measure[], reference: Measure, scanMbS: number): string {
   const line = (c: string[]) => c.map((x, i) => (i === 0 ? x.padEnd(34) : x.padStart(11))).join("");
-  const out = [line(["run", "MB", "seconds", "MB/s", "peak MB", "× uDSV"])];
+  const out = [line(["run", "MB", "seconds", "MB/s", "ref MB/s*", "peak MB", "× uDSV"])];
   for (const m of rows) {
     const rate = m.mb / m.seconds;
-    out.push(line([m.label, m.mb.toFixed(0), m.seconds.toFixed(2), rate.toFixed(0), m.maxRssMb.toFixed(0), (rate / (reference.mb / reference.seconds)).toFixed(2)]) + (m.note ? `  ${m.note}` : ""));
+    const scaled = (rate * REFERENCE_SCAN_MB_S) / scanMbS;
+    out.push(line([m.label, m.mb.toFixed(0), m.seconds.toFixed(2), rate.toFixed(0), scaled.toFixed(0), m.maxRssMb.toFixed(0), (rate / (reference.mb / reference.seconds)).toFixed(2)]) + (m.note ? `  ${m.note}` : ""));
   }
+  out.push(`* ref MB/s = MB/s scaled to the reference machine's newline scan (MB/s × ${REFERENCE_SCAN_MB_S} / ${scanMbS.toFixed(0)}); targets are compared with it`);
   return out.join("\n");
 }
 
@@ -227,19 +240,22 @@ async function main(): Promise<void> {
   const mid = ensureFile(flag("--cli-mb", 300), regenerate);
   const haveSummary = existsSync(`${ROOT}app/engine/analyse.ts`);
   console.log(`\n${CHANNELS}-channel export, ${(statSync(big).size / 1e6).toFixed(0)} MB; each run in its own process (2 shared cores: figures vary with load)\n`);
+  const scan = runChild("newline-scan", big);
+  const scanMbS = scan.mb / scan.seconds;
+  console.log(`calibration: bare newline scan of the same file ${scanMbS.toFixed(0)} MB/s here, ~${REFERENCE_SCAN_MB_S} MB/s on the reference machine (this one is ${(REFERENCE_SCAN_MB_S / scanMbS).toFixed(2)}× slower)\n`);
   const udsv = runChild("udsv", big);
   const runs: Measure[] = [{ ...runChild("engine-parse", big), label: "engine: parse only" }];
   let summaryFailure = "";
   if (haveSummary) {
     try {
-      runs.push({ ...runChild("engine-summary", big), label: "engine: parse + full summary", note: "target ≥ 350 MB/s" });
+      runs.push({ ...runChild("engine-summary", big), label: "engine: parse + full summary", note: "target ≥ 350 ref MB/s" });
     } catch (e) {
       summaryFailure = (e as Error).message;
     }
   }
   else runs.push({ ...runs[0], label: "engine: parse only (no summary yet)" });
   runs.push({ ...runChild("papaparse", big), label: "papaparse → Float64Array blocks" }, { ...udsv, label: "uDSV → Float64Array blocks" });
-  console.log(table(runs, udsv));
+  console.log(table(runs, udsv, scanMbS));
   if (summaryFailure) console.log(`(summary run failed: ${summaryFailure})`);
 
   console.log(`\nCLI on a ${(statSync(mid).size / 1e6).toFixed(0)} MB export against uDSV's parse alone (targets: ≥ 2× uDSV, peak < 400 MB)\n`);
@@ -253,7 +269,7 @@ async function main(): Promise<void> {
       why = (e as Error).message;
     }
   }
-  console.log(table(cli ? [cli, udsvMid] : [udsvMid], udsvMid));
+  console.log(table(cli ? [cli, udsvMid] : [udsvMid], udsvMid, scanMbS));
   if (!cli) console.log(`(${why})`);
 }
 
