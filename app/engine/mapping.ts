@@ -79,6 +79,8 @@ const DEFAULT_UNIT: Record<ChannelKind, string> = {
 export function normaliseName(name: string): string {
   return name
     .replace(/[[(][^\])]*[\])]\s*$/, "")
+    // camelCase and run-together words: "LatG" → "lat g", "DampFL" → "damp fl".
+    .replace(/([a-z])([A-Z])/g, "$1 $2")
     .toLowerCase()
     .replace(/[_\-./:]+/g, " ")
     .replace(/([a-z])([0-9])/g, "$1 $2")
@@ -113,7 +115,7 @@ function nameScore(channel: ChannelName, n: string): number {
     case "speed":
       if (/\b(engine|rpm|fan|wind|shaft|pump|steer|steering|yaw)\b/.test(n)) return 0;
       if (/\bwheel\b/.test(n)) return 20;
-      if (/^(speed|vehicle speed|car speed|ground speed|road speed|v car|vcar)$/.test(n)) return 100;
+      if (/^(speed|vehicle speed|car speed|ground speed|road speed|v car|vcar|v ground|v)$/.test(n)) return 100;
       if (/\bgps\b.*\bspeed\b|\bspeed\b.*\bgps\b/.test(n)) return 80;
       if (/\bspeed\b|\bvelocity\b/.test(n)) return 60;
       return 0;
@@ -131,7 +133,7 @@ function nameScore(channel: ChannelName, n: string): number {
     case "damper_fr":
     case "damper_rl":
     case "damper_rr": {
-      if (!/\b(damper|dampers|shock|susp|suspension|travel|pot|strut)\b/.test(n)) return 0;
+      if (!/\b(damper|dampers|damp|shock|susp|suspension|travel|pot|strut)\b/.test(n)) return 0;
       if (/\b(speed|velocity|vel|rate|force|temp|pressure)\b/.test(n)) return 0;
       return cornerOf(n) === channel.slice(7) ? 100 : 0;
     }

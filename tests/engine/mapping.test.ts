@@ -44,6 +44,19 @@ describe("suggestChannelMap on realistic headers", () => {
     expect(notes.join(" ")).not.toMatch(/no column found/);
   });
 
+  it("run-together camelCase names and short speed symbols", () => {
+    // Compact names as small loggers write them (invented for this test; vocabulary is common practice).
+    const h = headerOf(["TimeS", "v_ground", "LatG", "LongG", "SteerWheel", "DampFL", "DampFR", "DampRL", "DampRR"],
+      ["s", "mph", "g", "g", "deg", "mm", "mm", "mm", "mm"]);
+    const { map, notes } = suggestChannelMap(h);
+    expect(map.speed).toEqual({ column: "v_ground", unit: "mph" });
+    expect(map.lat_accel).toEqual({ column: "LatG", unit: "g" });
+    expect(map.long_accel).toEqual({ column: "LongG", unit: "g" });
+    expect(map.steer!.column).toBe("SteerWheel");
+    expect([map.damper_fl!.column, map.damper_fr!.column, map.damper_rl!.column, map.damper_rr!.column]).toEqual(["DampFL", "DampFR", "DampRL", "DampRR"]);
+    expect(notes.join(" ")).not.toMatch(/no column found/);
+  });
+
   it("snake_case names with a units row, LF/RF corner codes, mph and inches", () => {
     const h = headerOf(
       ["elapsed_time", "vehicle_speed", "accel_lateral", "accel_longitudinal", "steering_wheel_angle", "shock_pos_lf", "shock_pos_rf", "shock_pos_lr", "shock_pos_rr", "ride_height_front", "ride_height_rear", "yaw_rate"],
