@@ -18,14 +18,14 @@ import { TraceDecimator } from "./summary-traces";
 import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 import { copyBlock, estimateDt } from "./summary-blocks";
+import { ROW_VALID, timeAndBandPass, understeerPass } from "./summary-rows";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
 
 // Module-local copies: a loader may turn imported bindings into getters, too slow per row.
 const G = STANDARD_GRAVITY_M_S2;
-const DEG_PER_RAD = 180 / Math.PI;
-// Reciprocals: the row loop multiplies instead of dividing (a division costs several multiplies).
-const INV_G = 1 / G, RAD_PER_DEG = Math.PI / 180;
+// Reciprocal: the row loop multiplies instead of dividing (a division costs several multiplies).
+const INV_G = 1 / G;
 export type { SummaryOptions } from "./summary-options";
 
 /**
@@ -66,8 +66,11 @@ export class SummaryBuilder {
 
   private sm: BlockSmoother | null = null;
   private pending: ChannelBlock[] = [];
-  private blockStart = 0;
-  private blockEnd = -1;
+  blockStart = 0;
+  blockEnd = -1;
+  private tauBuf = new Float64Array(0);
+  private bandBuf = new Int32Array(0);
+  private flagBuf = new Uint8Array(0);
   private blockMin = 2;
   private blockMinUs = 2;
   private ffOut = new Float64Array(0);
@@ -151,22 +154,16 @@ export class SummaryBuilder {
     const cV = ce[V], cAY = ce[AY], cAX = ce[AX], cSTEER = ce[STEER], cFL = ce[DFL], cFR = ce[DFR], cRL = ce[DRL], cRR = ce[DRR], cRHF = ce[RHF], cRHR = ce[RHR], cYAW = ce[YAW];
     const g = this.opts.gates;
     const c = this.model;
-    const edges = this.edgesMs;
-    const lastEdge = edges.length - 1;
-    const blockS = this.opts.blockS;
     const rho = this.air.density_kg_m3;
     const aeroMinV = g.aero_min_speed_kmh / 3.6, aeroMaxAx = g.aero_max_long_g * G, vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
-    const usMinV = g.us_min_speed_kmh / 3.6, straightMinV = g.straight_min_speed_kmh / 3.6;
     const st = c.staticDamperMm;
     const ltPerMs2 = (c.massKg * c.cogHeightM) / c.wheelbaseM;
     if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
     const ffOut = this.ffOut, frOut = this.frOut;
-    const aero = this.aero, us = this.us, bandRows = this.bandRows, est = this.est, sign = this.sign;
+    const aero = this.aero, est = this.est, sign = this.sign;
     const kF = c.forcePerMmFront, kR = c.forcePerMmRear, kbF = c.bumpForcePerMmFront, kbR = c.bumpForcePerMmRear;
-    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, ratio = c.steeringRatio, invRatio = 1 / ratio, geomPerKappa = DEG_PER_RAD * c.wheelbaseM;
+    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront;
     const rhPerDamp = -0.5 / mrF, halfRho = 0.5 * rho;
-    const straightLat = g.straight_max_lat_g, straightRate = g.straight_max_steer_rate_deg_s, usLat = g.us_min_lat_g, usRate = g.us_max_steer_rate_deg_s;
-    const usJerk = g.us_max_lat_jerk_g_s * G, usLong = g.us_max_long_g;
     const needBump = this.hasBumpStops, collectEst = !this.staticGiven, estMin = this.estMin, estMax = this.estMax;
     let estN = this.estN, refF = this.refFront, refR = this.refRear;
     // Static reference per corner: the readings when given, else the running estimate (kept in
@@ -177,39 +174,31 @@ export class SummaryBuilder {
     const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
     let contactF = 0, contactR = 0, waiting = 0;
     let sgN = sign.n, sgA = sign.sa, sgAA = sign.saa, sgF = sign.sf, sgAF = sign.saf, sgR = sign.sr, sgAR = sign.sar;
-    let yawDot = this.yawSignDot, yawN = this.yawSignN, usDot = us.signDot, usNorm = us.signNorm;
-    let rows = this.rows, t0 = this.t0, tLast = this.tLast, blockStart = this.blockStart, blockEnd = this.blockEnd;
+    if (this.tauBuf.length < count) { this.tauBuf = new Float64Array(count); this.bandBuf = new Int32Array(count); this.flagBuf = new Uint8Array(count); }
+    const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
+    timeAndBandPass(count, cT, mV, this.opts.blockS, this.edgesMs, this.bandRows, this, tauBuf, bandBuf, flagBuf);
     // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
-    const cur = aero.cur, bs = aero.band;
+    const cur = aero.cur, bs = aero.band, blockMin = this.blockMin;
     let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
     for (let j = 0; j < count; j++) {
-      const t = cT[j];
+      const flag = flagBuf[j];
       ffOut[j] = NaN; frOut[j] = NaN;
-      if (t !== t) continue;
-      if (rows === 0) { this.t0 = t0 = t; }
-      rows++;
-      tLast = t;
-      const tau = t - t0;
-      if (!(tau >= blockStart && tau < blockEnd)) {
+      if (flag === 0) continue;
+      if (flag !== ROW_VALID) {
         cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
-        this.closeBlock();
+        aero.closeBlock(blockMin);
         bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = 0;
-        const blk = Math.floor(tau / blockS);
-        blockStart = blk * blockS;
-        blockEnd = blockStart + blockS;
       }
+      const tau = tauBuf[j], band = bandBuf[j];
       const v = mV[j];
-      let band = -1;
-      if (v >= edges[0]) for (let e = 1; e <= lastEdge; e++) if (v < edges[e]) { band = e - 1; break; }
-      if (band >= 0) bandRows[band]++;
-      const ax = mAX[j], ay = mAY[j];
+      const ax = mAX[j];
       const xfl = mFL[j], xfr = mFR[j], xrl = mRL[j], xrr = mRR[j];
       const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
       let ff = NaN, fr = NaN;
       if (dampersOk) {
         const vFl = sFL[j], vFr = sFR[j], vRl = sRL[j], vRr = sRR[j];
         // Static estimate from slow running with no load transfer (only when readings are not given).
-        if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(ay) < 0.1 * G &&
+        if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(mAY[j]) < 0.1 * G &&
           Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
           est[0] += xfl; est[1] += xfr; est[2] += xrl; est[3] += xrr; estN++;
           sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN;
@@ -257,36 +246,14 @@ export class SummaryBuilder {
         }
       }
 
-      // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
-      if (v >= usMinV) {
-        const steer = mSTEER[j], yaw = mYAW[j];
-        const invV = 1 / v;
-        const kappa = yaw === yaw ? yaw * RAD_PER_DEG * invV : ay * invV * invV;
-        const geom = geomPerKappa * kappa;
-        const steerRate = Math.abs(sSTEER[j]);
-        const ayG = ay * INV_G;
-        const absAy = Math.abs(ayG);
-        if (steer === steer && geom === geom) {
-          if (((absAy < straightLat ? 1 : 0) & (steerRate < straightRate ? 1 : 0) & (v >= straightMinV ? 1 : 0)) === 1) {
-            us.addStraight(steer - ratio * geom);
-          } else if (((band >= 0 ? 1 : 0) & (absAy >= usLat ? 1 : 0) & (steerRate <= usRate ? 1 : 0) & (Math.abs(sAY[j]) <= usJerk ? 1 : 0) & (Math.abs(ax) <= usLong * G ? 1 : 0)) === 1) {
-            const road = steer * invRatio;
-            us.addCorner(band, ayG, road - geom);
-            usDot += road * geom;
-            usNorm += geom * geom;
-          }
-        }
-        if (yaw === yaw && absAy > 0.3) { yawDot += yaw * ayG > 0 ? 1 : -1; yawN++; }
-      }
-
       ffOut[j] = ff; frOut[j] = fr;
     }
     cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     sign.n = sgN; sign.sa = sgA; sign.saa = sgAA; sign.sf = sgF; sign.saf = sgAF; sign.sr = sgR; sign.sar = sgAR;
-    this.yawSignDot = yawDot; this.yawSignN = yawN; us.signDot = usDot; us.signNorm = usNorm;
     this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
-    this.rows = rows; this.tLast = tLast; this.blockStart = blockStart; this.blockEnd = blockEnd;
+    // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
+    understeerPass(count, flagBuf, bandBuf, mV, mAY, mAX, mSTEER, mYAW, sSTEER, sAY, this.us, g, c.steeringRatio, c.wheelbaseM, this.blockMinUs, this);
     // Chart traces column by column, in SI; converted to display units at output.
     const tc = this.traceCols;
     const has = (name: string, col: Float64Array) => (this.mapped.has(name) ? col : null);
