@@ -225,9 +225,11 @@ export class SummaryBuilder {
         }
         // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
         // One branch for all gates (bitwise &): noisy data makes each separate test hard to predict.
-        const vAbs = Math.max(Math.abs(vFl), Math.abs(vFr), Math.abs(vRl), Math.abs(vRr));
-        const spikeAbs = Math.max(Math.abs(cFL[j] - xfl), Math.abs(cFR[j] - xfr), Math.abs(cRL[j] - xrl), Math.abs(cRR[j] - xrr));
-        if (((v >= aeroMinV ? 1 : 0) & (Math.abs(ax) <= aeroMaxAx ? 1 : 0) & (vAbs <= vmax ? 1 : 0) & (spikeAbs <= spike ? 1 : 0)) === 1) {
+        // Each corner is tested on its own (max |x| ≤ limit ⇔ every |x| ≤ limit, NaN failing both
+        // ways): no Math.max, whose NaN and −0 handling costs branches.
+        const rateOk = (Math.abs(vFl) <= vmax ? 1 : 0) & (Math.abs(vFr) <= vmax ? 1 : 0) & (Math.abs(vRl) <= vmax ? 1 : 0) & (Math.abs(vRr) <= vmax ? 1 : 0);
+        const spikeOk = (Math.abs(cFL[j] - xfl) <= spike ? 1 : 0) & (Math.abs(cFR[j] - xfr) <= spike ? 1 : 0) & (Math.abs(cRL[j] - xrl) <= spike ? 1 : 0) & (Math.abs(cRR[j] - xrr) <= spike ? 1 : 0);
+        if (((v >= aeroMinV ? 1 : 0) & (Math.abs(ax) <= aeroMaxAx ? 1 : 0) & rateOk & spikeOk) === 1) {
           if (ff !== ff) waiting++;
           else {
             const q = halfRho * v * v;
