@@ -35,6 +35,8 @@ export class BlockSmoother {
   /** Own output arrays (absent channels are written here; `centre`/`mean` may point into `ext`). */
   private ownMean: Float64Array[] = [];
   private ownCentre: Float64Array[] = [];
+  /** Per channel: leading rows of `slope` known to hold NaN already (skips refilling unused slopes). */
+  private slopeNaN: Int32Array = new Int32Array(0);
 
   /** `needSlope[k]` false skips the slope of channel k (its slope output stays NaN). */
   constructor(halfWindows: ArrayLike<number>, dtS: number, needSlope?: boolean[], capacityRows = 16_384) {
@@ -68,6 +70,7 @@ export class BlockSmoother {
     }
     this.ownMean = this.mean.slice();
     this.ownCentre = this.centre.slice();
+    this.slopeNaN = new Int32Array(this.channels);
     this.pre = new Float64Array(rows + d2 + 1);
     this.cnt = new Float64Array(rows + d2 + 1);
   }
@@ -94,6 +97,12 @@ export class BlockSmoother {
     this.carry();
     for (let k = 0; k < this.channels; k++) this.ext[k].fill(NaN, d2, d2 + d);
     return this.compute(d);
+  }
+
+  /** Slope rows 0 … out−1 of channel k set to NaN (only the rows not known to be NaN already). */
+  private nanSlope(k: number, out: number): void {
+    const done = this.slopeNaN[k];
+    if (out > done) { this.slope[k].fill(NaN, done, out); this.slopeNaN[k] = out; }
   }
 
   /** Carry the last 2D raw samples of the previous block to the front of each delay line. */
@@ -125,17 +134,18 @@ export class BlockSmoother {
         // A channel that is not logged: NaN out, no sums.
         const centre = this.ownCentre[k];
         this.centre[k] = centre;
-        mean.fill(NaN, 0, out); slope.fill(NaN, 0, out); centre.fill(NaN, 0, out);
+        mean.fill(NaN, 0, out); this.nanSlope(k, out); centre.fill(NaN, 0, out);
         continue;
       }
       this.centre[k] = e.subarray(eStart, eStart + out);
       if (h === 0) {
         this.mean[k] = this.centre[k];
-        slope.fill(NaN, 0, out);
+        this.nanSlope(k, out);
       } else {
         const scale = this.slopeScale[k];
+        if (this.needSlope[k]) this.slopeNaN[k] = 0;
         if (out > 0 && this.runningSums(e, h, eStart, eEnd, mean, this.needSlope[k] ? slope : null, scale)) {
-          if (!this.needSlope[k]) slope.fill(NaN, 0, out);
+          if (!this.needSlope[k]) this.nanSlope(k, out);
           continue;
         }
         // The block holds a dropout: prefix sums with counts.
@@ -157,13 +167,14 @@ export class BlockSmoother {
           mean[j] = nAll >= h + 1 ? (pre[c + h + 1] - pre[c - h]) / nAll : NaN;
         }
         if (this.needSlope[k]) {
+          this.slopeNaN[k] = 0;
           for (let c = eStart, j = 0; c < eEnd; c++, j++) {
             const n1 = cnt[c] - cnt[c - h], n2 = cnt[c + h + 1] - cnt[c + 1];
             slope[j] = n1 * 2 >= h && n2 * 2 >= h && n1 > 0 && n2 > 0
               ? ((pre[c + h + 1] - pre[c + 1]) / n2 - (pre[c] - pre[c - h]) / n1) * scale
               : NaN;
           }
-        } else slope.fill(NaN, 0, out);
+        } else this.nanSlope(k, out);
       }
     }
     // The last 2D raw samples move to the front at the next push/flush (the views stay valid till then).
@@ -182,14 +193,24 @@ export class BlockSmoother {
     let xc = e[c0];
     const inv = 1 / (2 * h + 1), k = scale / h;
     mean[0] = (s1 + xc + s2) * inv;
-    if (slope) slope[0] = (s2 - s1) * k;
-    for (let c = c0 + 1, j = 1; c < c1; c++, j++) {
-      // first half gains the old centre and loses c−h−1; second half gains c+h and loses the new centre
-      s1 += xc - e[c - h - 1];
-      xc = e[c];
-      s2 += e[c + h] - xc;
-      mean[j] = (s1 + xc + s2) * inv;
-      if (slope) slope[j] = (s2 - s1) * k;
+    // Two copies of the loop, with and without the slope (the compiler does not unswitch loops).
+    // First half gains the old centre and loses c−h−1; second half gains c+h and loses the new centre.
+    if (slope) {
+      slope[0] = (s2 - s1) * k;
+      for (let c = c0 + 1, j = 1; c < c1; c++, j++) {
+        s1 += xc - e[c - h - 1];
+        xc = e[c];
+        s2 += e[c + h] - xc;
+        mean[j] = (s1 + xc + s2) * inv;
+        slope[j] = (s2 - s1) * k;
+      }
+    } else {
+      for (let c = c0 + 1, j = 1; c < c1; c++, j++) {
+        s1 += xc - e[c - h - 1];
+        xc = e[c];
+        s2 += e[c + h] - xc;
+        mean[j] = (s1 + xc + s2) * inv;
+      }
     }
     return s1 === s1 && s2 === s2 && xc === xc;
   }
