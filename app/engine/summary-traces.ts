@@ -48,14 +48,23 @@ export class TraceDecimator {
       for (let k = 0; k < c; k++) {
         const col = cols[k];
         if (col === null) continue;
-        let lo = this.lo[o + k], hi = this.hi[o + k];
-        for (let i = j; i < end; i++) {
+        // Two rows per step: half the loop overhead, and two independent min/max chains.
+        let lo = this.lo[o + k], hi = this.hi[o + k], lo2 = lo, hi2 = hi;
+        let i = j;
+        for (; i + 1 < end; i += 2) {
+          const v = col[i], w = col[i + 1];
+          if (v < lo) lo = v;
+          if (v > hi) hi = v;
+          if (w < lo2) lo2 = w;
+          if (w > hi2) hi2 = w;
+        }
+        if (i < end) {
           const v = col[i];
           if (v < lo) lo = v;
           if (v > hi) hi = v;
         }
-        this.lo[o + k] = lo;
-        this.hi[o + k] = hi;
+        this.lo[o + k] = lo2 < lo ? lo2 : lo;
+        this.hi[o + k] = hi2 > hi ? hi2 : hi;
       }
       this.inBucket += take;
       j = end;
