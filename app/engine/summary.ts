@@ -182,8 +182,7 @@ export class SummaryBuilder {
     let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
     for (let j = 0; j < count; j++) {
       const flag = flagBuf[j];
-      ffOut[j] = NaN; frOut[j] = NaN;
-      if (flag === 0) continue;
+      if (flag === 0) { ffOut[j] = NaN; frOut[j] = NaN; continue; }
       if (flag !== ROW_VALID) {
         cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
         aero.closeBlock(blockMin);
