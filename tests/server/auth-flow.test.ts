@@ -155,11 +155,12 @@ describe("sign-up to team roles", () => {
     expect(settings.invitations).toEqual([]);
   });
 
-  it("a driver sees cars but no session data unless shared", async () => {
+  it("a driver sees the Garage but no session data unless shared", async () => {
     driverJar = await inviteAndAccept(ownerJar, driver, "driver");
-    const ctx = await requireMember(getRequest(`/t/${teamSlug}`, driverJar), teamSlug, { car: ["read"] });
+    // Issue 4, item 6: analyst and driver read cars and setups.
+    const ctx = await requireMember(getRequest(`/t/${teamSlug}`, driverJar), teamSlug, { car: ["read"], setup: ["read"] });
     expect(ctx.role).toBe("driver");
-    const unshared: Permission[] = [{ session: ["read"] }, { compare: ["read"] }, { setup: ["read"] }];
+    const unshared: Permission[] = [{ session: ["read"] }, { compare: ["read"] }, { setup: ["update"] }];
     for (const permission of unshared) {
       const refused = await outcome(() => requireMember(getRequest(`/t/${teamSlug}/sessions`, driverJar), teamSlug, permission));
       expect(refused.status).toBe(403);
