@@ -10,7 +10,7 @@ const map = JSON.parse(readFileSync(`${LOG}.map.json`, "utf8")) as ChannelMap;
 const truth = JSON.parse(readFileSync(`${LOG}.truth.json`, "utf8"));
 const car = JSON.parse(readFileSync(new URL(truth.car_file, new URL(`../../${LOG}.csv`, import.meta.url)), "utf8")) as CarInput;
 
-/** The page talks to the worker through comlink over a message port; the same is done here with a MessageChannel. */
+/** The page reaches the worker through comlink over a message port; the same is done here with a MessageChannel. */
 function connect(): { api: ReturnType<typeof wrap<EngineApi>>; close(): void } {
   const { port1, port2 } = new MessageChannel();
   expose(engineApi, port1 as unknown as Parameters<typeof expose>[1]);
