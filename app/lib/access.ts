@@ -49,17 +49,8 @@ const readAll = {
 } as const;
 
 export const roles = {
-  owner: ac.newRole({
-    organization: ["update", "delete"],
-    invitation: ["create", "cancel"],
-    team: ["update", "delete"],
-    member: ["invite", "update_role", "remove", "create", "update", "delete"],
-    car: ["read", "create", "update", "delete"],
-    setup: ["read", "create", "update"],
-    session: ["read", "upload", "annotate", "delete"],
-    share: ["create", "revoke"],
-    compare: ["read"],
-  }),
+  // The owner holds every statement.
+  owner: ac.newRole(statements),
   engineer: ac.newRole({
     ...readAll,
     car: ["read", "create", "update"],
