@@ -3,6 +3,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { data } from "react-router";
+import { z } from "zod";
 import { and, asc, count, desc, eq, like, or, sql } from "drizzle-orm";
 import { cars, setupSheets, setups, type Car, type NewCar } from "../db/schema/garage";
 import { user } from "../db/schema/auth";
@@ -12,6 +13,14 @@ import { db } from "./db.server";
 
 export const CAR_SORTS = ["name", "category", "mass", "wheelbase", "updated"] as const;
 export type CarSort = (typeof CAR_SORTS)[number];
+
+/** Filters and sort of a car list, from searchParams: the Garage page and GET /api/t/:teamSlug/cars share it. */
+export const carListSearchSchema = z.object({
+  q: z.string().trim().max(80).optional().catch(undefined),
+  category: z.string().trim().max(60).optional().catch(undefined),
+  sort: z.enum(CAR_SORTS).optional().catch(undefined),
+  dir: z.enum(["asc", "desc"]).optional().catch(undefined),
+});
 
 export interface CarListQuery {
   q?: string;

@@ -1,7 +1,6 @@
 import { Form, Link } from "react-router";
-import { z } from "zod";
 import { requireMember, can } from "~/server/permissions.server";
-import { CAR_SORTS, listCars, listCategories } from "~/server/garage-cars.server";
+import { carListSearchSchema, listCars, listCategories } from "~/server/garage-cars.server";
 import { displayUnits, searchParamsOf } from "~/server/garage-routes.server";
 import { cogFromFrontAxleMm } from "~/lib/garage/corner-weights";
 import { formatQuantity } from "~/lib/garage/units";
@@ -10,16 +9,9 @@ import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
 import type { Route } from "./+types/cars";
 
-const searchSchema = z.object({
-  q: z.string().trim().max(80).optional().catch(undefined),
-  category: z.string().trim().max(60).optional().catch(undefined),
-  sort: z.enum(CAR_SORTS).optional().catch(undefined),
-  dir: z.enum(["asc", "desc"]).optional().catch(undefined),
-});
-
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
-  const query = searchParamsOf(request, searchSchema);
+  const query = searchParamsOf(request, carListSearchSchema);
   const [cars, categories] = await Promise.all([listCars(ctx.team.id, query), listCategories(ctx.team.id)]);
   return { cars, categories, query, units: displayUnits(request), canEdit: can(ctx.role, { car: ["create"] }), team: ctx.team };
 }
