@@ -25,3 +25,15 @@ export class EngineError extends Error {
 export function isEngineError(e: unknown): e is EngineError {
   return e instanceof EngineError;
 }
+
+/**
+ * Not an input problem: a log part cannot be analysed on its own (a quoted cell, too short a
+ * lead-in, an input error whose line number only a whole-log run can give). The caller analyses
+ * the log whole instead, which gives the same summary or the exact error.
+ */
+export class PartUnsafe extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = "PartUnsafe";
+  }
+}

@@ -3,7 +3,7 @@
  * data rows into per-channel blocks in the engine's units. Never holds the whole file: only the
  * first chunk (for the header) and the partial last row of each chunk are kept.
  */
-import { EngineError } from "./errors";
+import { EngineError, PartUnsafe } from "./errors";
 import { scanHeader } from "./inspect";
 import { validateChannelMap } from "./mapping";
 import { RowParser } from "./parse-rows";
@@ -61,13 +61,19 @@ function plain(chunk: Uint8Array): Uint8Array {
 async function* chunksOf(source: AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>): AsyncGenerator<Uint8Array> {
   if (typeof (source as ReadableStream<Uint8Array>).getReader === "function") {
     const reader = (source as ReadableStream<Uint8Array>).getReader();
+    let finished = false;
     try {
       for (;;) {
         const { done, value } = await reader.read();
-        if (done) return;
+        if (done) {
+          finished = true;
+          return;
+        }
         if (value.length) yield plain(value);
       }
     } finally {
+      // Left early (a part that has all it needs, or an error): the rest of the stream is not wanted.
+      if (!finished) await reader.cancel().catch(() => {});
       reader.releaseLock();
     }
   } else {
@@ -83,6 +89,203 @@ function concat(a: Uint8Array, b: Uint8Array): Uint8Array {
 }
 
 const EMPTY: Uint8Array = new Uint8Array(0);
+
+type CheckedMap = ReturnType<typeof validateChannelMap>;
+
+interface Sink {
+  parser: RowParser;
+  mapped: ChannelName[];
+  /** Parses every complete row of the chunk; the partial last row is carried to the next chunk. */
+  feed(chunk: Uint8Array): void;
+  /** True when no partial row is carried (the bytes fed so far end at a row end). */
+  readonly atRowEnd: boolean;
+  /** End of stream: the carried last row (no final line break; dropped if the read was cut off) and the partial block. */
+  end(cutOff?: boolean): void;
+}
+
+/** The row parser for a mapped header, with the chunk stitching around it. */
+function createSink(header: LogHeader, checked: CheckedMap, firstLine: number, opts: { blockRows?: number; onBlock(b: ChannelBlock): void }): Sink {
+  const mapped = ALL_CHANNELS.filter((c) => checked[c] !== undefined);
+  const slotOfColumn = new Int32Array(header.columns.length).fill(-1);
+  const factor = new Float64Array(mapped.length);
+  mapped.forEach((channel, slot) => {
+    const entry = checked[channel]!;
+    slotOfColumn[header.columns.indexOf(entry.column)] = slot;
+    factor[slot] = unitFactor(CHANNEL_KIND[channel], entry.unit)! * (entry.invert ? -1 : 1);
+  });
+  const blockRows = Math.max(1, Math.floor(opts.blockRows ?? DEFAULT_BLOCK_ROWS));
+  const emit = (rows: number) => {
+    if (rows === 0) return;
+    const channels: { [K in ChannelName]?: Float64Array } = {};
+    mapped.forEach((channel, slot) => {
+      const a = parser.out[slot];
+      channels[channel] = rows === a.length ? a : a.subarray(0, rows);
+    });
+    opts.onBlock({ rows, channels });
+  };
+  const parser: RowParser = new RowParser({
+    columns: header.columns.length,
+    delimiter: header.delimiter.charCodeAt(0),
+    decimalSeparator: header.decimalComma ? 44 : 46,
+    slotOfColumn,
+    factor,
+    timeSlot: mapped.indexOf("time"),
+    blockRows,
+    firstLine,
+    timeColumn: checked.time.column,
+    timeUnit: checked.time.unit,
+    onBlockFull: () => emit(blockRows),
+  });
+
+  let carry: Uint8Array = EMPTY;
+  const feed = (chunk: Uint8Array): void => {
+    if (chunk.length === 0) return;
+    if (carry.length === 0) {
+      const lastLf = chunk.lastIndexOf(10);
+      if (lastLf < 0) {
+        carry = chunk.slice();
+        return;
+      }
+      const stopped = parser.parse(chunk, 0, lastLf + 1);
+      carry = stopped < chunk.length ? chunk.slice(stopped) : EMPTY;
+      return;
+    }
+    const firstLf = chunk.indexOf(10);
+    if (firstLf < 0) {
+      carry = concat(carry, chunk);
+      return;
+    }
+    const stitched = concat(carry, chunk.subarray(0, firstLf + 1));
+    if (parser.parse(stitched, 0, stitched.length) < stitched.length) {
+      // A quoted cell holds a line break: join the whole chunk and let the row finish where it does.
+      const joined = concat(carry, chunk);
+      carry = EMPTY;
+      feed(joined);
+      return;
+    }
+    carry = EMPTY;
+    feed(chunk.subarray(firstLf + 1));
+  };
+  return {
+    parser,
+    mapped,
+    feed,
+    get atRowEnd() {
+      return carry.length === 0;
+    },
+    end(cutOff = false) {
+      if (carry.length && !cutOff) {
+        const last = concat(carry, new Uint8Array([10]));
+        carry = EMPTY;
+        if (parser.parse(last, 0, last.length) < last.length) {
+          throw new EngineError("bad_quote", `a quoted cell opened near line ${parser.line} is never closed; the file is cut short or its quotes are broken`);
+        }
+      }
+      emit(parser.row);
+    },
+  };
+}
+
+export interface IngestPartOptions {
+  /** File offset of the source's first byte. */
+  startOffset: number;
+  /** The source starts mid-row: skip to the first line break (parts after the first). */
+  skipToLine: boolean;
+  /** File offsets [ownedFrom, ownedTo) whose rows this part counts (both at row starts). */
+  ownedFrom: number;
+  ownedTo: number;
+  onBlock(b: ChannelBlock): void;
+  /** Checked after each chunk: true ends the read (the part has all it needs). */
+  shouldStop?(): boolean;
+  blockRows?: number;
+}
+
+/** Row counts of one part's owned bytes, per mapped slot in the order of `mapped`. */
+export interface PartIngest {
+  rows: number;
+  rowsWithoutTime: number;
+  emptyCells: number[];
+  badCells: number[];
+  bytes: number;
+}
+
+interface Counts {
+  rows: number;
+  rowsWithoutTime: number;
+  empty: Float64Array;
+  bad: Float64Array;
+}
+
+/**
+ * Streams one byte range of a log whose header is known (read by the whole-log scan), for analysis
+ * in parts. Rows before `ownedFrom` and after `ownedTo` are parsed (the summary needs them as
+ * lead-in and run-out) but not counted. Throws PartUnsafe when the range cannot be read on its own.
+ */
+export async function ingestPart(
+  source: AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>,
+  map: ChannelMap,
+  header: LogHeader,
+  opts: IngestPartOptions,
+): Promise<PartIngest> {
+  const checked = validateChannelMap(map, header);
+  const sink = createSink(header, checked, 1, opts);
+  const parser = sink.parser;
+  const snap = (): Counts => ({ rows: parser.rowsKept, rowsWithoutTime: parser.rowsWithoutTime, empty: parser.emptyCells.slice(), bad: parser.badCells.slice() });
+  const boundaries = [opts.ownedFrom, opts.ownedTo];
+  const taken: Counts[] = [];
+  let pos = opts.startOffset;
+  let synced = !opts.skipToLine;
+  const take = () => {
+    if (!sink.atRowEnd) throw new PartUnsafe("a part boundary falls inside a row");
+    taken.push(snap());
+  };
+  const chunks = chunksOf(source);
+  let stopped = false;
+  try {
+    for (;;) {
+      const r = await chunks.next();
+      if (r.done) break;
+      let chunk = r.value;
+      const chunkStart = pos;
+      pos += chunk.length;
+      if (!synced) {
+        const lf = chunk.indexOf(10);
+        if (lf < 0) continue;
+        synced = true;
+        chunk = chunk.subarray(lf + 1);
+      }
+      let at = pos - chunk.length;
+      while (taken.length < 2 && boundaries[taken.length] <= pos) {
+        const b = Math.max(boundaries[taken.length], at);
+        sink.feed(chunk.subarray(0, b - at));
+        chunk = chunk.subarray(b - at);
+        at = b;
+        take();
+      }
+      sink.feed(chunk);
+      if (parser.quotedCells > 0) throw new PartUnsafe("the log has quoted cells");
+      if (chunkStart >= opts.ownedTo && opts.shouldStop?.()) {
+        stopped = true;
+        break;
+      }
+    }
+  } finally {
+    await chunks.return(undefined);
+  }
+  if (taken.length < 2) {
+    sink.end();
+    while (taken.length < 2) taken.push(snap());
+  } else sink.end(stopped);
+  if (parser.quotedCells > 0) throw new PartUnsafe("the log has quoted cells");
+  const [a, b] = taken;
+  return {
+    rows: b.rows - a.rows,
+    rowsWithoutTime: b.rowsWithoutTime - a.rowsWithoutTime,
+    emptyCells: Array.from(b.empty, (x, i) => x - a.empty[i]),
+    badCells: Array.from(b.bad, (x, i) => x - a.bad[i]),
+    bytes: Math.min(pos, opts.ownedTo) - opts.ownedFrom,
+  };
+}
 
 export async function ingestLog(
   source: AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>,
@@ -118,83 +321,19 @@ export async function ingestLog(
   opts.onHeader?.(header);
   const checked = validateChannelMap(map, header);
 
-  const mapped = ALL_CHANNELS.filter((c) => checked[c] !== undefined);
-  const slotOfColumn = new Int32Array(header.columns.length).fill(-1);
-  const factor = new Float64Array(mapped.length);
-  mapped.forEach((channel, slot) => {
-    const entry = checked[channel]!;
-    slotOfColumn[header.columns.indexOf(entry.column)] = slot;
-    factor[slot] = unitFactor(CHANNEL_KIND[channel], entry.unit)! * (entry.invert ? -1 : 1);
-  });
-  const blockRows = Math.max(1, Math.floor(opts.blockRows ?? DEFAULT_BLOCK_ROWS));
-  const emit = (rows: number) => {
-    if (rows === 0) return;
-    const channels: { [K in ChannelName]?: Float64Array } = {};
-    mapped.forEach((channel, slot) => {
-      const a = parser.out[slot];
-      channels[channel] = rows === a.length ? a : a.subarray(0, rows);
-    });
-    opts.onBlock({ rows, channels });
-  };
-  const parser: RowParser = new RowParser({
-    columns: header.columns.length,
-    delimiter: header.delimiter.charCodeAt(0),
-    decimalSeparator: header.decimalComma ? 44 : 46,
-    slotOfColumn,
-    factor,
-    timeSlot: mapped.indexOf("time"),
-    blockRows,
-    firstLine: scan.dataLine,
-    timeColumn: checked.time.column,
-    timeUnit: checked.time.unit,
-    onBlockFull: () => emit(blockRows),
-  });
-
-  let carry: Uint8Array = EMPTY;
-  const feed = (chunk: Uint8Array): void => {
-    if (carry.length === 0) {
-      const lastLf = chunk.lastIndexOf(10);
-      if (lastLf < 0) {
-        carry = chunk.slice();
-        return;
-      }
-      const stopped = parser.parse(chunk, 0, lastLf + 1);
-      carry = stopped < chunk.length ? chunk.slice(stopped) : EMPTY;
-      return;
-    }
-    const firstLf = chunk.indexOf(10);
-    if (firstLf < 0) {
-      carry = concat(carry, chunk);
-      return;
-    }
-    const stitched = concat(carry, chunk.subarray(0, firstLf + 1));
-    if (parser.parse(stitched, 0, stitched.length) < stitched.length) {
-      // A quoted cell holds a line break: join the whole chunk and let the row finish where it does.
-      const joined = concat(carry, chunk);
-      carry = EMPTY;
-      feed(joined);
-      return;
-    }
-    carry = EMPTY;
-    feed(chunk.subarray(firstLf + 1));
-  };
-
-  feed(head.subarray(scan.dataOffset));
+  const sink = createSink(header, checked, scan.dataLine, opts);
+  sink.feed(head.subarray(scan.dataOffset));
   head = EMPTY;
   for (;;) {
     const r = await chunks.next();
     if (r.done) break;
     bytes += r.value.length;
-    feed(r.value);
+    sink.feed(r.value);
     opts.onProgress?.(bytes);
   }
-  if (carry.length) {
-    const last = concat(carry, new Uint8Array([10]));
-    if (parser.parse(last, 0, last.length) < last.length) {
-      throw new EngineError("bad_quote", `a quoted cell opened near line ${parser.line} is never closed; the file is cut short or its quotes are broken`);
-    }
-  }
-  emit(parser.row);
+  sink.end();
+  const parser = sink.parser;
+  const { mapped } = sink;
 
   const rows = parser.rowsKept;
   if (rows < MIN_DATA_ROWS) {

@@ -43,6 +43,8 @@ export class RowParser {
   line: number;
   readonly emptyCells: Float64Array;
   readonly badCells: Float64Array;
+  /** Quoted data cells met (a part of a log that starts mid-file cannot tell a quoted line break from a row end). */
+  quotedCells = 0;
   private lastTime = -Infinity;
   private readonly cellBuf = new Uint8Array(256);
   private readonly cfg: RowParserConfig;
@@ -205,6 +207,7 @@ export class RowParser {
 
   /** Reads a quoted cell at `p`; returns the index of its terminator, or −1 if it runs past `end`. */
   private quotedCell(buf: Uint8Array, p: number, end: number, delim: number, dec: number): number {
+    this.quotedCells++;
     while (buf[p] !== QUOTE) p++; // leading spaces before the quote
     let n = 0;
     let q = p + 1;

@@ -20,10 +20,20 @@ export const ROW_NEW_BLOCK = 2;
 /** Time-block bookkeeping carried from one call to the next. */
 export interface TimeState {
   rows: number;
+  /** Time of the log's first row (NaN until seen; preset when the log is analysed in parts). */
   t0: number;
   tLast: number;
   blockStart: number;
   blockEnd: number;
+  /**
+   * Time blocks owned (block index ⌊τ / blockS⌋ in [ownFrom, ownTo)); −∞ … +∞ for a whole log.
+   * Rows of other blocks (a part's lead-in and run-out) get flag 0 and count nowhere.
+   */
+  ownFrom: number;
+  ownTo: number;
+  owned: boolean;
+  /** A row of a block at or after ownTo has been seen. */
+  passedEnd: boolean;
 }
 
 /**
@@ -35,23 +45,28 @@ export function timeAndBandPass(
   s: TimeState, tauOut: Float64Array, bandOut: Int32Array, flagOut: Uint8Array,
 ): void {
   const lastEdge = edges.length - 1, e0 = edges[0];
-  let rows = s.rows, t0 = s.t0, tLast = s.tLast, blockStart = s.blockStart, blockEnd = s.blockEnd;
+  let rows = s.rows, t0 = s.t0, tLast = s.tLast, blockStart = s.blockStart, blockEnd = s.blockEnd, owned = s.owned;
+  const ownFrom = s.ownFrom, ownTo = s.ownTo;
   // Speed changes slowly: try the previous row's band before searching.
   let lo = Infinity, hi = -Infinity, last = -1;
   for (let j = 0; j < count; j++) {
     const t = cT[j];
     if (t !== t) { flagOut[j] = 0; bandOut[j] = -1; continue; }
-    if (rows === 0) t0 = t;
-    rows++;
-    tLast = t;
+    if (t0 !== t0) t0 = t;
     const tau = t - t0;
-    tauOut[j] = tau;
     let flag = ROW_VALID;
     if (!(tau >= blockStart && tau < blockEnd)) {
       flag = ROW_VALID | ROW_NEW_BLOCK;
-      blockStart = Math.floor(tau / blockS) * blockS;
+      const block = Math.floor(tau / blockS);
+      blockStart = block * blockS;
       blockEnd = blockStart + blockS;
+      owned = block >= ownFrom && block < ownTo;
+      if (block >= ownTo) s.passedEnd = true;
     }
+    if (!owned) { flagOut[j] = 0; bandOut[j] = -1; continue; }
+    rows++;
+    tLast = t;
+    tauOut[j] = tau;
     flagOut[j] = flag;
     const v = mV[j];
     let band = last;
@@ -64,7 +79,7 @@ export function timeAndBandPass(
     bandOut[j] = band;
     if (band >= 0) bandRows[band]++;
   }
-  s.rows = rows; s.t0 = t0; s.tLast = tLast; s.blockStart = blockStart; s.blockEnd = blockEnd;
+  s.rows = rows; s.t0 = t0; s.tLast = tLast; s.blockStart = blockStart; s.blockEnd = blockEnd; s.owned = owned;
 }
 
 /** Yaw-rate sign check: votes of sign(yaw·ay) over clear cornering samples. */

@@ -9,6 +9,29 @@ export interface TraceOutput {
   channels: Record<string, { min: (number | null)[]; max: (number | null)[] }>;
 }
 
+/** A decimator's buckets as plain data (it crosses threads when a log is analysed in parts). */
+export interface TraceState {
+  width: number;
+  buckets: number;
+  t0: Float64Array;
+  lo: Float64Array;
+  hi: Float64Array;
+}
+
+/** Merges neighbouring buckets pairwise in place (an odd last bucket stays alone); returns the new count. */
+function pairUp(t0: Float64Array, lo: Float64Array, hi: Float64Array, n: number, c: number): number {
+  const half = Math.ceil(n / 2);
+  for (let i = 0; i < half; i++) {
+    const a = 2 * i, b = a + 1 < n ? a + 1 : a;
+    t0[i] = t0[a];
+    for (let k = 0; k < c; k++) {
+      lo[i * c + k] = Math.min(lo[a * c + k], lo[b * c + k]);
+      hi[i * c + k] = Math.max(hi[a * c + k], hi[b * c + k]);
+    }
+  }
+  return half;
+}
+
 export class TraceDecimator {
   readonly names: readonly string[];
   private readonly cap: number;
@@ -30,12 +53,12 @@ export class TraceDecimator {
   }
 
   /**
-   * Add `count` rows column by column (tight loops; no per-row calls). `cols[k]` null = channel not
-   * logged; `scale[k]` (> 0) converts to the output unit, applied at output time.
+   * Add rows `from` … `count` − 1 column by column (tight loops; no per-row calls). `cols[k]` null =
+   * channel not logged.
    */
-  pushColumns(t: Float64Array, cols: ReadonlyArray<Float64Array | null>, count: number): void {
+  pushColumns(t: Float64Array, cols: ReadonlyArray<Float64Array | null>, count: number, from = 0): void {
     const c = this.names.length;
-    let j = 0;
+    let j = from;
     while (j < count) {
       const b = this.buckets;
       const o = b * c;
@@ -76,18 +99,48 @@ export class TraceDecimator {
   }
 
   private merge(): void {
-    const c = this.names.length;
-    const half = this.cap / 2;
-    for (let i = 0; i < half; i++) {
-      this.t0[i] = this.t0[2 * i];
-      for (let k = 0; k < c; k++) {
-        const a = 2 * i * c + k, b = (2 * i + 1) * c + k;
-        this.lo[i * c + k] = Math.min(this.lo[a], this.lo[b]);
-        this.hi[i * c + k] = Math.max(this.hi[a], this.hi[b]);
-      }
-    }
-    this.buckets = half;
+    this.buckets = pairUp(this.t0, this.lo, this.hi, this.buckets, this.names.length);
     this.width *= 2;
+  }
+
+  /** The buckets so far (the partial last one included), for merging parts of one log. */
+  state(): TraceState {
+    const n = this.buckets + (this.inBucket > 0 ? 1 : 0), c = this.names.length;
+    return { width: this.width, buckets: n, t0: this.t0.slice(0, n), lo: this.lo.slice(0, n * c), hi: this.hi.slice(0, n * c) };
+  }
+
+  /** Starts from a part's buckets (the first part of a log). */
+  restore(st: TraceState): void {
+    const c = this.names.length;
+    this.width = st.width;
+    this.buckets = st.buckets;
+    this.inBucket = 0;
+    this.t0.set(st.t0.subarray(0, st.buckets));
+    this.lo.set(st.lo.subarray(0, st.buckets * c));
+    this.hi.set(st.hi.subarray(0, st.buckets * c));
+    if (this.buckets === this.cap) this.merge();
+  }
+
+  /**
+   * Appends the buckets of the log's next part (in time order). Both sides are brought to the wider
+   * bucket width first; a part's partial last bucket stays one (narrower) bucket, so `bucket_rows`
+   * is then the width of all buckets but those at part ends.
+   */
+  append(next: TraceState): void {
+    const c = this.names.length;
+    if (this.inBucket > 0) { this.buckets++; this.inBucket = 0; }
+    let { width, buckets: n } = next;
+    const t0 = next.t0.slice(), lo = next.lo.slice(), hi = next.hi.slice();
+    while (width < this.width) { n = pairUp(t0, lo, hi, n, c); width *= 2; }
+    while (this.width < width) this.merge();
+    for (let i = 0; i < n; i++) {
+      if (this.buckets === this.cap) this.merge();
+      // Bucket i of the next part lands at `this.buckets` (after any merge above).
+      const b = this.buckets++;
+      this.t0[b] = t0[i];
+      for (let k = 0; k < c; k++) { this.lo[b * c + k] = lo[i * c + k]; this.hi[b * c + k] = hi[i * c + k]; }
+    }
+    if (this.buckets === this.cap) this.merge();
   }
 
   /** Buckets so far (the partial last one included) as plain arrays, values rounded. */

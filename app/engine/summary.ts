@@ -15,6 +15,8 @@ import type { FinishContext, SessionSummary } from "./summary-types";
 import { resolveOptions } from "./summary-options";
 import type { ResolvedOptions, SummaryOptions } from "./summary-options";
 import { TraceDecimator } from "./summary-traces";
+import type { TraceState } from "./summary-traces";
+import { PartUnsafe } from "./errors";
 import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 import { copyBlock, estimateDt } from "./summary-blocks";
@@ -27,6 +29,51 @@ const G = STANDARD_GRAVITY_M_S2;
 // Reciprocal: the row loop multiplies instead of dividing (a division costs several multiplies).
 const INV_G = 1 / G;
 export type { SummaryOptions } from "./summary-options";
+
+/**
+ * The static damper reference while it is being learned from slow running (only when the car file
+ * gives no static readings): Σ readings per corner, their count, and the first axle forces (the
+ * reference the forces are taken from). Order matters here, so a part of a log takes it over from
+ * the part before.
+ */
+export interface StaticSeed {
+  est: [number, number, number, number];
+  estN: number;
+  refFront: number;
+  refRear: number;
+}
+
+/** One part of a log analysed on its own (see split.ts): which time blocks it owns, and what it inherits. */
+export interface PartSpec {
+  /** Time of the log's first row, in the engine's units (s). */
+  t0: number;
+  /** The log's sample interval as the whole-log run finds it (s). */
+  dtS: number;
+  /** Owned time blocks: index ⌊(t − t0) / blockS⌋ from `fromBlock` (inclusive) to `toBlock` (exclusive). */
+  fromBlock: number;
+  toBlock: number;
+  seed?: StaticSeed | null;
+  /** Called once the static reference can no longer change (the next part may start with it). */
+  onSeed?(seed: StaticSeed): void;
+}
+
+/** Everything a part contributes to the session summary: plain data that crosses threads. */
+export interface SummaryPart {
+  rows: number; t0: number; tLast: number; sampleRateHz: number;
+  mapped: string[];
+  aeroSamples: number[]; aeroBlocks: number[]; rhMap: Float64Array; aeroBand: Float64Array;
+  usCells: Float64Array; usBlockCells: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
+  usScalars: number[];
+  sign: number[]; yawSignDot: number; yawSignN: number;
+  contactFront: number; contactRear: number; aeroWaitingStatic: number;
+  bandRows: Float64Array;
+  seed: StaticSeed;
+  traces: TraceState;
+}
+
+const SUM_KEYS = ["n", "st", "sq", "stt", "stq", "sqq", "sf", "stf", "sqf", "sff", "sr", "str", "sqr", "srr"] as const;
+const US_SCALARS = ["offsetN", "offsetSum", "offsetSumSq", "offsetBlocks", "offsetBlockSum", "offsetBlockSumSq", "signDot", "signNorm"] as const;
+const SIGN_KEYS = ["n", "sa", "saa", "sf", "saf", "sr", "sar"] as const;
 
 /**
  * Smoother slots. Speed and long acceleration are smoothed like the dampers (so q and the
@@ -63,6 +110,13 @@ export class SummaryBuilder {
   /** Damper-sign check: sums of ax (g) and axle damper sums. */
   readonly sign = { n: 0, sa: 0, saa: 0, sf: 0, saf: 0, sr: 0, sar: 0 };
   yawSignDot = 0; yawSignN = 0;
+  /** Time-block ownership (see TimeState): the whole log unless this builder runs one part of it. */
+  ownFrom = -Infinity; ownTo = Infinity; owned = true; passedEnd = false;
+  private readonly part: PartSpec | null;
+  private seedSent = false;
+  /** Delayed rows consumed so far, and the stream index of the first owned one (−1 until seen). */
+  private consumed = 0;
+  private firstOwned = -1;
 
   private sm: BlockSmoother | null = null;
   private pending: ChannelBlock[] = [];
@@ -78,7 +132,7 @@ export class SummaryBuilder {
   private readonly traceCols: (Float64Array | null)[] = new Array(TRACE_CHANNELS.length).fill(null);
   private readonly cols: (Float64Array | null)[] = new Array(SLOT_CHANNELS.length).fill(null);
 
-  constructor(car: CarInput, options: SummaryOptions = {}) {
+  constructor(car: CarInput, options: SummaryOptions = {}, part: PartSpec | null = null) {
     this.car = validateCar(car);
     this.model = carModel(this.car);
     this.opts = resolveOptions(options);
@@ -91,6 +145,30 @@ export class SummaryBuilder {
     this.bandRows = new Float64Array(this.bandCount);
     this.staticGiven = this.model.staticDamperMm !== null;
     this.hasBumpStops = this.model.bumpForcePerMmFront > 0 || this.model.bumpForcePerMmRear > 0;
+    this.part = part;
+    if (part) {
+      this.t0 = part.t0;
+      this.ownFrom = part.fromBlock;
+      this.ownTo = part.toBlock;
+      this.owned = false;
+      const seed = part.seed;
+      if (seed) {
+        for (let i = 0; i < 4; i++) this.est[i] = seed.est[i];
+        this.estN = seed.estN; this.refFront = seed.refFront; this.refRear = seed.refRear;
+      }
+      this.start(part.dtS);
+    }
+  }
+
+  /** A part's builder has consumed every row it owns (later rows are run-out only). */
+  get partDone(): boolean {
+    return this.passedEnd;
+  }
+
+  /** The static reference as it stands (see StaticSeed). */
+  get seed(): StaticSeed {
+    const e = this.est;
+    return { est: [e[0], e[1], e[2], e[3]], estN: this.estN, refFront: this.refFront, refRear: this.refRear };
   }
 
   push(block: ChannelBlock): void {
@@ -117,6 +195,58 @@ export class SummaryBuilder {
     }
     if (this.sm) this.consume(this.sm.flush());
     this.closeBlock();
+    return buildSummary(this, ctx);
+  }
+
+  /** End of a part: its contribution as plain data (see mergeParts in split.ts). */
+  finishPart(): SummaryPart {
+    if (this.sm) this.consume(this.sm.flush());
+    this.closeBlock();
+    const a = this.aero, u = this.us;
+    return {
+      rows: this.rows, t0: this.t0, tLast: this.tLast, sampleRateHz: this.sampleRateHz,
+      mapped: [...this.mapped],
+      aeroSamples: SUM_KEYS.map((k) => a.samples[k]), aeroBlocks: SUM_KEYS.map((k) => a.blocks[k]),
+      rhMap: a.rhMap.slice(), aeroBand: a.band.slice(),
+      usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
+      usScalars: US_SCALARS.map((k) => u[k]),
+      sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
+      contactFront: this.contactFront, contactRear: this.contactRear, aeroWaitingStatic: this.aeroWaitingStatic,
+      bandRows: this.bandRows.slice(),
+      seed: this.seed,
+      traces: this.traces.state(),
+    };
+  }
+
+  /**
+   * Folds in the parts of one log, in time order, on a builder that was given no blocks; then
+   * `summarise` gives the summary. Sums add; the static reference is the last part's.
+   */
+  absorb(parts: readonly SummaryPart[]): void {
+    const add = (into: Float64Array, from: Float64Array) => { for (let i = 0; i < into.length; i++) into[i] += from[i]; };
+    const a = this.aero, u = this.us;
+    parts.forEach((p, i) => {
+      if (i === 0) { this.t0 = p.t0; this.sampleRateHz = p.sampleRateHz; }
+      if (p.rows > 0) this.tLast = p.tLast;
+      this.rows += p.rows;
+      for (const m of p.mapped) this.mapped.add(m);
+      SUM_KEYS.forEach((k, j) => { a.samples[k] += p.aeroSamples[j]; a.blocks[k] += p.aeroBlocks[j]; });
+      add(a.rhMap, p.rhMap); add(a.band, p.aeroBand);
+      add(u.cells, p.usCells); add(u.blockCells, p.usBlockCells); add(u.left, p.usLeft); add(u.right, p.usRight);
+      for (let b = 0; b < u.peakAyG.length; b++) u.peakAyG[b] = Math.max(u.peakAyG[b], p.usPeakAyG[b]);
+      US_SCALARS.forEach((k, j) => { u[k] += p.usScalars[j]; });
+      SIGN_KEYS.forEach((k, j) => { this.sign[k] += p.sign[j]; });
+      this.yawSignDot += p.yawSignDot; this.yawSignN += p.yawSignN;
+      this.contactFront += p.contactFront; this.contactRear += p.contactRear; this.aeroWaitingStatic += p.aeroWaitingStatic;
+      add(this.bandRows, p.bandRows);
+      for (let c = 0; c < 4; c++) this.est[c] = p.seed.est[c];
+      this.estN = p.seed.estN; this.refFront = p.seed.refFront; this.refRear = p.seed.refRear;
+      if (i === 0) this.traces.restore(p.traces); else this.traces.append(p.traces);
+    });
+  }
+
+  /** The summary of a builder that absorbed parts. */
+  summarise(ctx: FinishContext = {}): SessionSummary {
     return buildSummary(this, ctx);
   }
 
@@ -253,6 +383,11 @@ export class SummaryBuilder {
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     sign.n = sgN; sign.sa = sgA; sign.saa = sgAA; sign.sf = sgF; sign.saf = sgAF; sign.sr = sgR; sign.sar = sgAR;
     this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
+    const part = this.part;
+    if (part?.onSeed && !this.seedSent && (estN >= estMax || !collectEst) && (refF === refF || st !== null)) {
+      this.seedSent = true;
+      part.onSeed(this.seed);
+    }
     // Understeer: quasi-steady cornering; straight-line samples give the steering offset.
     understeerPass(count, flagBuf, bandBuf, mV, mAY, mAX, mSTEER, mYAW, sSTEER, sAY, this.us, g, c.steeringRatio, c.wheelbaseM, this.blockMinUs, this);
     // Chart traces column by column, in SI; converted to display units at output.
@@ -260,10 +395,23 @@ export class SummaryBuilder {
     const has = (name: string, col: Float64Array) => (this.mapped.has(name) ? col : null);
     tc[0] = cV; tc[1] = cAY; tc[2] = cAX; tc[3] = cSTEER; tc[4] = cFL; tc[5] = cFR; tc[6] = cRL; tc[7] = cRR;
     tc[8] = ffOut; tc[9] = frOut; tc[10] = has("ride_height_front", cRHF); tc[11] = has("ride_height_rear", cRHR); tc[12] = has("yaw_rate", cYAW);
-    this.traces.pushColumns(cT, tc, count);
+    // A part pushes only the rows it owns (one run of rows: time increases).
+    let from = 0, to = count;
+    if (part) {
+      while (from < count && flagBuf[from] === 0) from++;
+      to = from;
+      while (to < count && flagBuf[to] !== 0) to++;
+      if (from < to && this.firstOwned < 0) {
+        this.firstOwned = this.consumed + from;
+        // The lead-in must fill the smoother's window, or the first owned rows would differ from a whole-log run.
+        if (Number.isFinite(this.ownFrom) && this.firstOwned < sm.delay) throw new PartUnsafe("a part of the log starts with too short a lead-in for the smoothing window");
+      }
+    }
+    this.consumed += count;
+    if (from < to) this.traces.pushColumns(cT, tc, to, from);
   }
 }
 
-export function createSummaryBuilder(car: CarInput, options: SummaryOptions = {}): SummaryBuilder {
-  return new SummaryBuilder(car, options);
+export function createSummaryBuilder(car: CarInput, options: SummaryOptions = {}, part: PartSpec | null = null): SummaryBuilder {
+  return new SummaryBuilder(car, options, part);
 }

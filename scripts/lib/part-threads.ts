@@ -1,0 +1,165 @@
+/**
+ * Node host for analysing one log file in parts on worker threads (app/engine/split.ts).
+ * This file is both sides: imported, it gives `analyseFileInParts`; started as a worker thread, it
+ * runs one part and posts the result back.
+ */
+import { availableParallelism } from "node:os";
+import { createReadStream, openSync, readSync, closeSync, statSync } from "node:fs";
+import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
+import { analyseLogSplit, analysePart } from "../../app/engine/split";
+import type { LogFileAccess, LogPlan, PartResult, PartRunner, SplitReport } from "../../app/engine/split";
+import type { SessionSummary, StaticSeed } from "../../app/engine/summary";
+import type { SummaryOptions } from "../../app/engine/summary-options";
+import type { CarInput, ChannelMap } from "../../app/engine/types";
+
+interface PartJob {
+  path: string;
+  car: CarInput;
+  map: ChannelMap;
+  options: SummaryOptions;
+  plan: LogPlan;
+  index: number;
+  seed: StaticSeed | null;
+  /** Ties the worker's messages to this job (a worker may hold more than one). */
+  id: number;
+}
+
+type FromWorker = { id: number } & ({ type: "seed"; seed: StaticSeed } | { type: "done"; result: PartResult } | { type: "error"; message: string; name: string });
+
+/** Random access to a file on disk. */
+export function fileAccess(path: string): LogFileAccess & { close(): void } {
+  const size = statSync(path).size;
+  const fd = openSync(path, "r");
+  return {
+    size,
+    async readAt(offset, length) {
+      const buf = new Uint8Array(Math.max(0, Math.min(length, size - offset)));
+      let got = 0;
+      while (got < buf.length) {
+        const n = readSync(fd, buf, got, buf.length - got, offset + got);
+        if (n === 0) break;
+        got += n;
+      }
+      return got === buf.length ? buf : buf.subarray(0, got);
+    },
+    open(offset) {
+      return createReadStream(path, { start: offset, highWaterMark: 1 << 20 });
+    },
+    close() {
+      closeSync(fd);
+    },
+  };
+}
+
+/** Threads worth using here: one per core, at most 8. */
+export function defaultThreads(): number {
+  return Math.max(1, Math.min(8, availableParallelism()));
+}
+
+/**
+ * Worker threads started ahead of the work (module loading is paid before it), each running one
+ * part when asked.
+ */
+export class PartThreads {
+  private readonly workers: Worker[];
+  private readonly ready: Promise<void>[];
+  private nextId = 1;
+
+  constructor(count: number) {
+    const boot = new URL("./ts-worker-boot.mjs", import.meta.url);
+    this.workers = Array.from({ length: count }, () => new Worker(boot, { workerData: { partThread: true, entry: import.meta.url } }));
+    this.ready = this.workers.map((w) => new Promise<void>((resolve, reject) => {
+      w.once("message", () => resolve());
+      w.once("error", reject);
+    }));
+  }
+
+  /** Resolves when every worker has loaded the engine. */
+  async whenReady(): Promise<void> {
+    await Promise.all(this.ready);
+  }
+
+  runner(path: string, car: CarInput, map: ChannelMap, options: SummaryOptions): PartRunner {
+    return (plan, index, run) => {
+      const w = this.workers[index % this.workers.length];
+      const job: PartJob = { path, car, map, options, plan, index, seed: run.seed, id: this.nextId++ };
+      return new Promise<PartResult>((resolve, reject) => {
+        const onMessage = (m: FromWorker) => {
+          if (m.id !== job.id) return;
+          if (m.type === "seed") run.onSeed?.(m.seed);
+          else {
+            w.off("message", onMessage);
+            w.off("error", onError);
+            if (m.type === "done") resolve(m.result);
+            else reject(Object.assign(new Error(m.message), { name: m.name }));
+          }
+        };
+        const onError = (e: Error) => {
+          w.off("message", onMessage);
+          reject(e);
+        };
+        w.on("message", onMessage);
+        w.once("error", onError);
+        w.postMessage(job);
+      });
+    };
+  }
+
+  async close(): Promise<void> {
+    await Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
+
+/**
+ * analyseLog on a file, in `threads` parts on worker threads (the whole-log run when the file is
+ * small or a part cannot stand alone; see split.ts).
+ */
+export async function analyseFileInParts(
+  path: string,
+  car: CarInput,
+  map: ChannelMap,
+  options: SummaryOptions & { threads?: number; pool?: PartThreads },
+  report?: (r: SplitReport) => void,
+): Promise<SessionSummary> {
+  const { threads = defaultThreads(), pool, ...summaryOptions } = options;
+  const file = fileAccess(path);
+  const own = !pool && threads >= 2 ? new PartThreads(threads) : null;
+  const threadsUsed = pool ?? own;
+  try {
+    return await analyseLogSplit(
+      {
+        size: file.size,
+        readAt: async (o, l) => file.readAt(o, l),
+        open: (o) => file.open(o),
+      },
+      car,
+      map,
+      {
+        ...summaryOptions,
+        parts: threadsUsed ? threads : 1,
+        runner: threadsUsed?.runner(path, car, map, summaryOptions),
+      },
+      report,
+    );
+  } finally {
+    file.close();
+    await own?.close();
+  }
+}
+
+if (!isMainThread && (workerData as { partThread?: boolean } | null)?.partThread && parentPort) {
+  const port = parentPort;
+  port.on("message", (job: PartJob) => {
+    const post = (m: Omit<FromWorker, "id"> & Partial<FromWorker>) => port.postMessage({ ...m, id: job.id });
+    const file = fileAccess(job.path);
+    const t0 = performance.now();
+    analysePart(file.open(job.plan.parts[job.index].readFrom), job.car, job.map, job.options, job.plan, job.index, {
+      seed: job.seed,
+      onSeed: (seed) => post({ type: "seed", seed }),
+    }).then(
+      (result) => { if (process.env.RAKELINE_PART_TIMING) process.stderr.write(`part ${job.index} ${(performance.now() - t0).toFixed(0)} ms\n`); post({ type: "done", result }); },
+      (e: unknown) => post({ type: "error", message: e instanceof Error ? e.message : String(e), name: e instanceof Error ? e.name : "Error" }),
+    ).finally(() => file.close());
+  });
+  port.postMessage({ id: 0, type: "ready" });
+}
