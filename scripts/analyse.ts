@@ -1,21 +1,23 @@
 /**
  * analyse CLI (batch users depend on this contract):
  *   npm run --silent analyse -- FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260]
- *                                [--air-temp-c 20 --air-pressure-hpa 1013.25]
+ *                                [--air-temp-c 20 --air-pressure-hpa 1013.25] [--threads N]
+ * Large files are analysed in parts on worker threads (one per core by default; --threads 1 for
+ * one thread); the summary is the same either way (see app/engine/split.ts).
  * Prints one JSON object (the session summary without its chart traces) on stdout and exits 0.
  * Any bad input: exit 2, exactly one line `error: …` on stderr, nothing on stdout.
  */
-import { createReadStream, readFileSync, statSync } from "node:fs";
-import { analyseLog } from "../app/engine/analyse";
+import { readFileSync, statSync } from "node:fs";
 import { parseBandEdges } from "../app/engine/bands";
 import { validateCar } from "../app/engine/car";
 import { isEngineError } from "../app/engine/errors";
 import type { ChannelMap } from "../app/engine/types";
+import { analyseFileInParts, defaultThreads } from "./lib/part-threads";
 
 class UsageError extends Error {}
 
-const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25]";
-const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa"] as const;
+const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25] [--threads N]";
+const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa", "--threads"] as const;
 type Flag = (typeof VALUE_FLAGS)[number];
 
 function parseArgs(argv: string[]): { file: string; flags: Partial<Record<Flag, string>> } {
@@ -77,8 +79,9 @@ async function main(): Promise<void> {
     throw new UsageError(`cannot read the log file ${file}: ${(e as NodeJS.ErrnoException).code === "ENOENT" ? "no such file" : (e as Error).message}`);
   }
   if (!stat.isFile()) throw new UsageError(`the log file ${file} is not a regular file`);
-  const stream = createReadStream(file, { highWaterMark: 1 << 20 });
-  const summary = await analyseLog(stream, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa });
+  const threads = numberFlag(flags["--threads"], "--threads") ?? defaultThreads();
+  if (!Number.isInteger(threads) || threads < 1 || threads > 64) throw new UsageError(`--threads must be a whole number from 1 to 64, got "${flags["--threads"]}"`);
+  const summary = await analyseFileInParts(file, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa, threads });
   const { traces: _traces, ...out } = summary;
   process.stdout.write(JSON.stringify(out) + "\n");
 }

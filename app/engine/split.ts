@@ -81,7 +81,7 @@ function single(bytes: Uint8Array): AsyncIterable<Uint8Array> {
   })();
 }
 
-/** Rows of `bytes` (which start at a row) up to their last line break, as blocks; null on any problem. */
+/** Rows of `bytes` (which start at a row) up to their last line break, as blocks; null on an input problem. */
 async function probeBlocks(bytes: Uint8Array, map: ChannelMap, header: LogHeader, offset: number): Promise<ChannelBlock[] | null> {
   const lastLf = bytes.lastIndexOf(10);
   if (lastLf < 0) return null;
@@ -94,7 +94,8 @@ async function probeBlocks(bytes: Uint8Array, map: ChannelMap, header: LogHeader
       ownedTo: Infinity,
       onBlock: (b) => blocks.push({ rows: b.rows, channels: { time: b.channels.time!.slice(0, b.rows) } }),
     });
-  } catch {
+  } catch (e) {
+    if (e instanceof PartUnsafe) throw e;
     return null;
   }
   return blocks;
@@ -104,10 +105,18 @@ const firstTime = (blocks: ChannelBlock[]) => (blocks.length ? blocks[0].channel
 
 /**
  * Where to cut the log into `parts` (fewer when it is small). Null when the log should be analysed
- * whole: too small, or anything unusual near the start or a boundary (the whole-log run then
- * reports it exactly).
+ * whole: too small, or an input problem near the start or a boundary (the whole-log run then
+ * reports it exactly); throws PartUnsafe for quoted cells there.
  */
-export async function planParts(file: LogFileAccess, map: ChannelMap, options: SummaryOptions, parts: number): Promise<LogPlan | null> {
+export interface PlanLimits {
+  /** Smallest part (bytes); default MIN_PART_BYTES. */
+  minPartBytes?: number;
+  /** Lead-in read before each boundary (bytes); default 1 MB. */
+  leadInBytes?: number;
+}
+
+export async function planParts(file: LogFileAccess, map: ChannelMap, options: SummaryOptions, parts: number, limits: PlanLimits = {}): Promise<LogPlan | null> {
+  const minPart = limits.minPartBytes ?? MIN_PART_BYTES, leadIn = limits.leadInBytes ?? LEAD_IN_BYTES;
   const head = await file.readAt(0, Math.min(file.size, PROBE_BYTES));
   let scan;
   try {
@@ -117,7 +126,7 @@ export async function planParts(file: LogFileAccess, map: ChannelMap, options: S
     return null;
   }
   const { header, dataOffset } = scan;
-  const n = Math.min(Math.floor(parts), Math.floor((file.size - dataOffset) / MIN_PART_BYTES));
+  const n = Math.min(Math.floor(parts), Math.floor((file.size - dataOffset) / minPart));
   if (!(n >= 2)) return null;
   const blockS = resolveOptions(options).blockS;
   // The sample interval as the whole-log run estimates it (the median of the first 512 steps).
@@ -140,7 +149,7 @@ export async function planParts(file: LogFileAccess, map: ChannelMap, options: S
     // The boundary is the first time-block edge after the first row at `at`.
     const block = Math.floor((t - t0) / blockS) + 1;
     if (cuts.length && block <= cuts[cuts.length - 1].block) return null;
-    if (at - LEAD_IN_BYTES <= dataOffset) return null;
+    if (at - leadIn <= dataOffset) return null;
     cuts.push({ at, block });
   }
   const plans: PartPlan[] = [];
@@ -149,7 +158,7 @@ export async function planParts(file: LogFileAccess, map: ChannelMap, options: S
     const to = k === n - 1 ? null : cuts[k];
     plans.push({
       index: k,
-      readFrom: from ? from.at - LEAD_IN_BYTES : dataOffset,
+      readFrom: from ? from.at - leadIn : dataOffset,
       skipToLine: from !== null,
       ownedFrom: from ? from.at : dataOffset,
       ownedTo: to ? to.at : Infinity,
@@ -227,7 +236,7 @@ export async function runParts(car: CarInput, plan: LogPlan, runner: PartRunner)
   return all(results);
 }
 
-export interface SplitOptions extends AnalyseOptions {
+export interface SplitOptions extends AnalyseOptions, PlanLimits {
   /** Parts to cut the log into (threads to use); 1 analyses it whole. */
   parts: number;
   /** Puts a part on a worker; by default the parts run one after the other in this thread. */
@@ -246,7 +255,7 @@ export interface SplitReport {
  * on any input problem, exactly the whole-log run's error.
  */
 export async function analyseLogSplit(file: LogFileAccess, car: CarInput, map: ChannelMap, options: SplitOptions, report?: (r: SplitReport) => void): Promise<SessionSummary> {
-  const { parts, runner, onProgress, ...summaryOptions } = options;
+  const { parts, runner, onProgress, minPartBytes, leadInBytes, ...summaryOptions } = options;
   validateCar(car);
   resolveOptions(summaryOptions);
   const whole = (why: string) => {
@@ -254,7 +263,13 @@ export async function analyseLogSplit(file: LogFileAccess, car: CarInput, map: C
     return analyseLog(file.open(0), car, map, { ...summaryOptions, onProgress });
   };
   if (!(parts >= 2)) return whole("one part asked for");
-  const plan = await planParts(file, map, summaryOptions, parts);
+  let plan: LogPlan | null;
+  try {
+    plan = await planParts(file, map, summaryOptions, parts, { minPartBytes, leadInBytes });
+  } catch (e) {
+    if (e instanceof PartUnsafe) return whole(e.message);
+    throw e;
+  }
   if (!plan) return whole("the log is too small to split, or its start or a boundary needs the whole-log reader");
   const run: PartRunner = runner ?? ((pl, k, r) => analysePart(file.open(pl.parts[k].readFrom), car, map, summaryOptions, pl, k, r));
   let results: PartResult[];

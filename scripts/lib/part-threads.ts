@@ -7,7 +7,7 @@ import { availableParallelism } from "node:os";
 import { createReadStream, openSync, readSync, closeSync, statSync } from "node:fs";
 import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
 import { analyseLogSplit, analysePart } from "../../app/engine/split";
-import type { LogFileAccess, LogPlan, PartResult, PartRunner, SplitReport } from "../../app/engine/split";
+import type { LogFileAccess, LogPlan, PartResult, PartRunner, PlanLimits, SplitReport } from "../../app/engine/split";
 import type { SessionSummary, StaticSeed } from "../../app/engine/summary";
 import type { SummaryOptions } from "../../app/engine/summary-options";
 import type { CarInput, ChannelMap } from "../../app/engine/types";
@@ -118,32 +118,31 @@ export async function analyseFileInParts(
   path: string,
   car: CarInput,
   map: ChannelMap,
-  options: SummaryOptions & { threads?: number; pool?: PartThreads },
+  options: SummaryOptions & PlanLimits & { threads?: number; pool?: PartThreads },
   report?: (r: SplitReport) => void,
 ): Promise<SessionSummary> {
-  const { threads = defaultThreads(), pool, ...summaryOptions } = options;
+  const { threads = defaultThreads(), pool, minPartBytes, leadInBytes, ...summaryOptions } = options;
   const file = fileAccess(path);
-  const own = !pool && threads >= 2 ? new PartThreads(threads) : null;
-  const threadsUsed = pool ?? own;
+  // Threads start only once the plan says the file is split (a small file runs whole, here).
+  let own: PartThreads | null = null;
+  let runner: PartRunner | undefined;
+  if (threads >= 2) {
+    runner = (plan, index, run) => {
+      if (!pool && !own) own = new PartThreads(Math.min(threads, plan.parts.length));
+      return (pool ?? own)!.runner(path, car, map, summaryOptions)(plan, index, run);
+    };
+  }
   try {
     return await analyseLogSplit(
-      {
-        size: file.size,
-        readAt: async (o, l) => file.readAt(o, l),
-        open: (o) => file.open(o),
-      },
+      { size: file.size, readAt: (o, l) => file.readAt(o, l), open: (o) => file.open(o) },
       car,
       map,
-      {
-        ...summaryOptions,
-        parts: threadsUsed ? threads : 1,
-        runner: threadsUsed?.runner(path, car, map, summaryOptions),
-      },
+      { ...summaryOptions, parts: threads, runner, minPartBytes, leadInBytes },
       report,
     );
   } finally {
     file.close();
-    await own?.close();
+    await (own as PartThreads | null)?.close();
   }
 }
 
