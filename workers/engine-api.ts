@@ -7,7 +7,10 @@ import { analyseLog } from "../app/engine/analyse";
 import type { AnalyseOptions } from "../app/engine/analyse";
 import { isEngineError } from "../app/engine/errors";
 import { inspectLog, suggestChannelMap, validateChannelMap } from "../app/engine/ingest";
-import type { SessionSummary } from "../app/engine/summary";
+import { analysePart, mergeParts, planParts } from "../app/engine/split";
+import type { LogFileAccess, LogPlan, PartResult, PlanLimits } from "../app/engine/split";
+import type { SessionSummary, StaticSeed } from "../app/engine/summary";
+import type { SummaryOptions } from "../app/engine/summary-options";
 import type { CarInput, ChannelMap, LogHeader } from "../app/engine/types";
 
 /** Bytes read from the start of a file to show its header and propose a Channel map. */
@@ -24,6 +27,15 @@ async function guarded<T>(run: () => T | Promise<T>): Promise<EngineResult<T>> {
     if (isEngineError(e)) return { ok: false, code: e.code, message: e.message };
     throw e;
   }
+}
+
+/** A File (or any Blob) as random access for the split analysis. */
+function blobAccess(file: Blob): LogFileAccess {
+  return {
+    size: file.size,
+    readAt: async (offset, length) => new Uint8Array(await file.slice(offset, offset + length).arrayBuffer()),
+    open: (offset) => file.slice(offset).stream(),
+  };
 }
 
 export const engineApi = {
@@ -53,6 +65,28 @@ export const engineApi = {
       await onProgress?.(file.size, file.size);
       return summary;
     });
+  },
+
+  /**
+   * For a pool of engine workers (one per core): where to cut the file, or null when it should be
+   * analysed whole with `analyse`. Then `analysePart` on each worker and `merge` on one of them.
+   */
+  async planParts(file: Blob, map: ChannelMap, options: SummaryOptions, parts: number, limits: PlanLimits = {}): Promise<LogPlan | null> {
+    try {
+      return await planParts(blobAccess(file), map, options, parts, limits);
+    } catch {
+      return null; // quoted cells: the whole-file run handles them
+    }
+  },
+
+  /** One part of the plan; `onSeed` hands the static reference on to the next part (see split.ts). */
+  async analysePart(file: Blob, car: CarInput, map: ChannelMap, options: SummaryOptions, plan: LogPlan, index: number, seed: StaticSeed | null, onSeed?: (s: StaticSeed) => void): Promise<EngineResult<PartResult>> {
+    return guarded(() => analysePart(blobAccess(file).open(plan.parts[index].readFrom), car, map, options, plan, index, { seed, onSeed }));
+  },
+
+  /** The parts' results, in order, as the session summary. */
+  async merge(car: CarInput, map: ChannelMap, options: SummaryOptions, plan: LogPlan, results: PartResult[]): Promise<EngineResult<SessionSummary>> {
+    return guarded(() => mergeParts(car, map, options, plan, results));
   },
 };
 

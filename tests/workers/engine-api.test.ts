@@ -64,4 +64,30 @@ describe("engine worker API over comlink", () => {
       close();
     }
   });
+
+  it("splits a file over two engine workers and merges their parts into the whole-file summary", async () => {
+    const a = connect(), b = connect();
+    try {
+      const file = new Blob([bytes]);
+      const limits = { minPartBytes: 96 << 10, leadInBytes: 48 << 10 };
+      const plan = await a.api.planParts(file, map, {}, 2, limits);
+      expect(plan?.parts.length).toBe(2);
+      // This car file gives no static readings: part 1 takes over part 0's static reference.
+      const r0 = await a.api.analysePart(file, car, map, {}, plan!, 0, null);
+      if (!r0.ok) throw new Error(r0.message);
+      const r1 = await b.api.analysePart(file, car, map, {}, plan!, 1, r0.value.summary.seed);
+      if (!r1.ok) throw new Error(r1.message);
+      const merged = await a.api.merge(car, map, {}, plan!, [r0.value, r1.value]);
+      const whole = await a.api.analyse(file, car, map);
+      if (!merged.ok || !whole.ok) throw new Error("analysis failed");
+      expect(merged.value.samples).toBe(whole.value.samples);
+      // Same figures up to the last printed digit (summation order differs between the runs).
+      expect(merged.value.aero.cla_total_m2!).toBeCloseTo(whole.value.aero.cla_total_m2!, 3);
+      expect(merged.value.aero.balance_front_pct!).toBeCloseTo(whole.value.aero.balance_front_pct!, 1);
+      merged.value.bands.forEach((band, i) => expect(band.samples).toBeCloseTo(whole.value.bands[i].samples, -1));
+    } finally {
+      a.close();
+      b.close();
+    }
+  });
 });
