@@ -4,7 +4,10 @@
  * runs one part and posts the result back.
  */
 import { availableParallelism } from "node:os";
-import { createReadStream, openSync, readSync, closeSync, statSync } from "node:fs";
+import { createHash } from "node:crypto";
+import { createReadStream, existsSync, mkdirSync, openSync, readdirSync, readFileSync, readSync, closeSync, renameSync, statSync, writeFileSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { createRequire } from "node:module";
 import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
 import { analyseLogSplit, analysePart } from "../../app/engine/split";
 import type { LogFileAccess, LogPlan, PartResult, PartRunner, PlanLimits, SplitReport } from "../../app/engine/split";
@@ -51,6 +54,35 @@ export function fileAccess(path: string): LogFileAccess & { close(): void } {
   };
 }
 
+const ROOT = fileURLToPath(new URL("../../", import.meta.url));
+
+/**
+ * The worker's entry: this file and the engine bundled into one plain-JS module (a worker then
+ * starts in ~0.1 s instead of ~0.7 s through tsx's loader), cached under node_modules/.cache by a
+ * hash of the sources. Falls back to loading the TypeScript through tsx if the bundler fails.
+ */
+function workerEntry(): URL {
+  const sources = [fileURLToPath(import.meta.url), ...readdirSync(`${ROOT}app/engine`).filter((f) => f.endsWith(".ts")).map((f) => `${ROOT}app/engine/${f}`)];
+  const hash = createHash("sha256");
+  for (const f of sources.sort()) hash.update(f).update(readFileSync(f));
+  const dir = `${ROOT}node_modules/.cache/rakeline`;
+  const out = `${dir}/part-thread-${hash.digest("hex").slice(0, 16)}.mjs`;
+  if (!existsSync(out)) {
+    try {
+      // Loaded on demand: the bundler is a dev dependency, needed only here.
+      const { buildSync } = createRequire(import.meta.url)("esbuild") as typeof import("esbuild");
+      const built = buildSync({ entryPoints: [fileURLToPath(import.meta.url)], bundle: true, platform: "node", format: "esm", write: false, logLevel: "silent" });
+      mkdirSync(dir, { recursive: true });
+      const tmp = `${out}.${process.pid}.tmp`;
+      writeFileSync(tmp, built.outputFiles[0].contents);
+      renameSync(tmp, out);
+    } catch {
+      return new URL("./ts-worker-boot.mjs", import.meta.url);
+    }
+  }
+  return new URL(`file://${out}`);
+}
+
 /** Threads worth using here: one per core, at most 8. */
 export function defaultThreads(): number {
   return Math.max(1, Math.min(8, availableParallelism()));
@@ -66,8 +98,8 @@ export class PartThreads {
   private nextId = 1;
 
   constructor(count: number) {
-    const boot = new URL("./ts-worker-boot.mjs", import.meta.url);
-    this.workers = Array.from({ length: count }, () => new Worker(boot, { workerData: { partThread: true, entry: import.meta.url } }));
+    const entry = workerEntry();
+    this.workers = Array.from({ length: count }, () => new Worker(entry, { workerData: { partThread: true, entry: import.meta.url } }));
     this.ready = this.workers.map((w) => new Promise<void>((resolve, reject) => {
       w.once("message", () => resolve());
       w.once("error", reject);
