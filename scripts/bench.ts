@@ -280,7 +280,8 @@ async function main(): Promise<void> {
 
   console.log(`\nCLI on a ${(statSync(mid).size / 1e6).toFixed(0)} MB export against uDSV's parse alone (targets: ≥ 2× uDSV, peak < 400 MB)\n`);
   const udsvMid = { ...runChild("udsv", mid), label: "uDSV parse alone" };
-  const cli = repeated("CLI, whole process", "", () => runCli(mid));
+  const { defaultThreads } = await import("./lib/part-threads");
+  const cli = repeated("CLI, whole process", `${defaultThreads()} threads (its default)`, () => runCli(mid));
   console.log(table([cli, udsvMid], udsvMid, scanMbS));
 }
 
