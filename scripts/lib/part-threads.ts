@@ -90,7 +90,7 @@ export function defaultThreads(): number {
 
 /**
  * Worker threads started ahead of the work (module loading is paid before it), each running one
- * part when asked.
+ * part when asked (parts from 1 on: part 0 runs on the calling thread).
  */
 export class PartThreads {
   private readonly workers: Worker[];
@@ -113,7 +113,8 @@ export class PartThreads {
 
   runner(path: string, car: CarInput, map: ChannelMap, options: SummaryOptions): PartRunner {
     return (plan, index, run) => {
-      const w = this.workers[index % this.workers.length];
+      // Part 0 runs on the calling thread; parts 1 … n−1 take the workers in turn.
+      const w = this.workers[(index - 1 + this.workers.length) % this.workers.length];
       const job: PartJob = { path, car, map, options, plan, index, seed: run.seed, id: this.nextId++ };
       return new Promise<PartResult>((resolve, reject) => {
         const onMessage = (m: FromWorker) => {
@@ -155,12 +156,14 @@ export async function analyseFileInParts(
 ): Promise<SessionSummary> {
   const { threads = defaultThreads(), pool, minPartBytes, leadInBytes, ...summaryOptions } = options;
   const file = fileAccess(path);
-  // Threads start only once the plan says the file is split (a small file runs whole, here).
+  // The first part runs on this thread, the others on worker threads. The workers start only once
+  // the plan says the file is split (a small file runs whole, here, with none).
   let own: PartThreads | null = null;
   let runner: PartRunner | undefined;
   if (threads >= 2) {
     runner = (plan, index, run) => {
-      if (!pool && !own) own = new PartThreads(Math.min(threads, plan.parts.length));
+      if (!pool && !own) own = new PartThreads(plan.parts.length - 1);
+      if (index === 0) return analysePart(file.open(plan.parts[0].readFrom), car, map, summaryOptions, plan, 0, run);
       return (pool ?? own)!.runner(path, car, map, summaryOptions)(plan, index, run);
     };
   }
