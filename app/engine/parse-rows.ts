@@ -34,7 +34,12 @@ for (let i = 0, v = 1; i < 16; i++, v *= 10) POW10[i] = v;
 const fmt = (v: number) => String(Number(v.toPrecision(12)));
 
 export class RowParser {
+  /** Per slot, a view of one block of `flat` (rows 0 … blockRows − 1). */
   readonly out: Float64Array[];
+  /** All slots' block columns in one array (slot s at s·blockRows): one typed array for the hot loop's stores. */
+  private readonly flat: Float64Array;
+  /** Per file column: its slot's offset into `flat`, −1 for columns that are not parsed. */
+  private readonly baseOfColumn: Int32Array;
   /** Rows filled in the current block. */
   row = 0;
   /** Rows kept so far (with a time), excluding the current block. */
@@ -52,7 +57,10 @@ export class RowParser {
   constructor(cfg: RowParserConfig) {
     this.cfg = cfg;
     const slots = cfg.factor.length;
-    this.out = Array.from({ length: slots }, () => new Float64Array(cfg.blockRows));
+    const n = cfg.blockRows;
+    this.flat = new Float64Array(slots * n);
+    this.out = Array.from({ length: slots }, (_, s) => this.flat.subarray(s * n, (s + 1) * n));
+    this.baseOfColumn = Int32Array.from(cfg.slotOfColumn, (s) => (s >= 0 ? s * n : -1));
     this.emptyCells = new Float64Array(slots);
     this.badCells = new Float64Array(slots);
     this.line = cfg.firstLine;
@@ -64,32 +72,36 @@ export class RowParser {
    */
   parse(buf: Uint8Array, start: number, end: number): number {
     const { columns, delimiter: delim, decimalSeparator: dec, slotOfColumn, factor, timeSlot, blockRows } = this.cfg;
-    const out = this.out;
+    const flat = this.flat, baseOfColumn = this.baseOfColumn;
     const maxTerminator = Math.max(delim, CR);
-    const timeOut = out[timeSlot];
+    const timeBase = timeSlot * blockRows;
     let p = start;
     let row = this.row;
+    // Line number and last time live in locals in the loop (written back at every exit).
+    let line = this.line, lastTime = this.lastTime;
     while (p < end) {
       const rowStart = p;
       let c = buf[p];
       if (c === LF) {
         p++;
-        this.line++;
+        line++;
         continue;
       }
       if (c === CR && buf[p + 1] === LF) {
         p += 2;
-        this.line++;
+        line++;
         continue;
       }
       let j = 0;
       for (;;) {
-        const slot = slotOfColumn[j];
-        if (slot >= 0) {
-          // Inline fast path for the common cell: [-]digits[sep digits], at most 15 digits, then a
-          // terminator. m and 10^k are exact doubles, so m / 10^k is Number()'s correctly rounded
-          // result. Everything else (spaces, exponents, long mantissas, empty, quoted, bad) goes
-          // through scanNumber.
+        const base = baseOfColumn[j];
+        if (base >= 0) {
+          const slot = slotOfColumn[j];
+          // Inline fast path for the common cell: [-]digits[sep digits], at most 9 digits, then a
+          // terminator. The digits accumulate in 32-bit integer arithmetic (Math.imul: a short
+          // dependency chain per digit, where a double multiply-add is twice as long); m < 10^9 and
+          // 10^k are exact doubles, so m / 10^k is Number()'s correctly rounded result. Everything
+          // else (spaces, exponents, longer mantissas, empty, quoted, bad) goes through scanNumber.
           let q = p;
           c = buf[q];
           const neg = c === 45;
@@ -98,7 +110,7 @@ export class RowParser {
           const intStart = q;
           let d = (c - 48) >>> 0;
           while (d < 10) {
-            m = m * 10 + d;
+            m = (Math.imul(m, 10) + d) | 0;
             d = ((c = buf[++q]) - 48) >>> 0;
           }
           let digits = q - intStart;
@@ -107,15 +119,15 @@ export class RowParser {
             const fracStart = ++q;
             d = ((c = buf[q]) - 48) >>> 0;
             while (d < 10) {
-              m = m * 10 + d;
+              m = (Math.imul(m, 10) + d) | 0;
               d = ((c = buf[++q]) - 48) >>> 0;
             }
             k = q - fracStart;
             digits += k;
           }
-          if (digits !== 0 && digits <= 15 && (c === delim || c === LF || c === CR)) {
+          if (digits !== 0 && digits <= 9 && (c === delim || c === LF || c === CR)) {
             const v = m / POW10[k];
-            out[slot][row] = (neg ? -v : v) * factor[slot];
+            flat[base + row] = (neg ? -v : v) * factor[slot];
             p = q;
           } else {
             let v = scanNumber(buf, p, delim, dec);
@@ -123,16 +135,16 @@ export class RowParser {
             p = scanResult.end;
             if (status === CELL_QUOTED) {
               p = this.quotedCell(buf, p, end, delim, dec);
-              if (p < 0) return this.stop(rowStart, row);
+              if (p < 0) { this.line = line; this.lastTime = lastTime; return this.stop(rowStart, row); }
               v = this.quotedValue;
               status = this.quotedStatus;
             }
             if (status !== CELL_NUMBER) this.pending(slot, status);
-            out[slot][row] = v * factor[slot];
+            flat[base + row] = v * factor[slot];
           }
         } else if (buf[p] === QUOTE) {
           p = this.quotedCell(buf, p, end, delim, dec);
-          if (p < 0) return this.stop(rowStart, row);
+          if (p < 0) { this.line = line; this.lastTime = lastTime; return this.stop(rowStart, row); }
         } else {
           c = buf[p];
           for (;;) {
@@ -149,19 +161,19 @@ export class RowParser {
       for (; j < columns; j++) {
         const slot = slotOfColumn[j];
         if (slot >= 0) {
-          out[slot][row] = NaN;
+          flat[slot * blockRows + row] = NaN;
           this.pending(slot, CELL_EMPTY);
         }
       }
       while (buf[p] !== LF) p++;
       p++;
       if (this.pendingN !== 0) this.commitPending();
-      const t = timeOut[row];
+      const t = flat[timeBase + row];
       if (t !== t) {
         this.rowsWithoutTime++;
       } else {
-        if (!(t > this.lastTime)) this.timeError(t, row);
-        this.lastTime = t;
+        if (!(t > lastTime)) { this.line = line; this.lastTime = lastTime; this.timeError(t, row); }
+        lastTime = t;
         row++;
         if (row === blockRows) {
           this.row = row;
@@ -170,8 +182,10 @@ export class RowParser {
           row = 0;
         }
       }
-      this.line++;
+      line++;
     }
+    this.line = line;
+    this.lastTime = lastTime;
     this.row = row;
     return p;
   }
