@@ -104,6 +104,8 @@ export class PartThreads {
       w.once("message", () => resolve());
       w.once("error", reject);
     }));
+    // A worker that fails to start fails its part (and the log runs whole); no one need await this.
+    for (const r of this.ready) r.catch(() => {});
   }
 
   /** Resolves when every worker has loaded the engine. */
@@ -117,22 +119,31 @@ export class PartThreads {
       const w = this.workers[(index - 1 + this.workers.length) % this.workers.length];
       const job: PartJob = { path, car, map, options, plan, index, seed: run.seed, id: this.nextId++ };
       return new Promise<PartResult>((resolve, reject) => {
+        const done = () => {
+          w.off("message", onMessage);
+          w.off("error", onError);
+          w.off("exit", onExit);
+        };
         const onMessage = (m: FromWorker) => {
           if (m.id !== job.id) return;
           if (m.type === "seed") run.onSeed?.(m.seed);
           else {
-            w.off("message", onMessage);
-            w.off("error", onError);
+            done();
             if (m.type === "done") resolve(m.result);
             else reject(Object.assign(new Error(m.message), { name: m.name }));
           }
         };
         const onError = (e: Error) => {
-          w.off("message", onMessage);
+          done();
           reject(e);
         };
+        const onExit = (code: number) => {
+          done();
+          reject(new Error(`the part's worker thread stopped (exit code ${code})`));
+        };
         w.on("message", onMessage);
-        w.once("error", onError);
+        w.on("error", onError);
+        w.on("exit", onExit);
         w.postMessage(job);
       });
     };
@@ -186,12 +197,11 @@ if (!isMainThread && (workerData as { partThread?: boolean } | null)?.partThread
   port.on("message", (job: PartJob) => {
     const post = (m: Omit<FromWorker, "id"> & Partial<FromWorker>) => port.postMessage({ ...m, id: job.id });
     const file = fileAccess(job.path);
-    const t0 = performance.now();
     analysePart(file.open(job.plan.parts[job.index].readFrom), job.car, job.map, job.options, job.plan, job.index, {
       seed: job.seed,
       onSeed: (seed) => post({ type: "seed", seed }),
     }).then(
-      (result) => { if (process.env.RAKELINE_PART_TIMING) process.stderr.write(`part ${job.index} ${(performance.now() - t0).toFixed(0)} ms\n`); post({ type: "done", result }); },
+      (result) => post({ type: "done", result }),
       (e: unknown) => post({ type: "error", message: e instanceof Error ? e.message : String(e), name: e instanceof Error ? e.name : "Error" }),
     ).finally(() => file.close());
   });

@@ -157,6 +157,23 @@ describe("analysis in parts: order and fallbacks", () => {
     await expect(analyseLogSplit(bytesAccess(bytes), car, map, { parts: 3, ...SMALL_PARTS })).rejects.toThrow(expected!);
   });
 
+  it("a part that fails for any other reason (a worker lost, say) makes the log run whole, with the same figures", async () => {
+    const { path, car, map } = inputs("vesper-kestrel-tab.csv");
+    const file = bytesAccess(readFileSync(path));
+    const runner: PartRunner = async (plan, k, run) => {
+      if (k === 1) throw new Error("worker thread stopped");
+      return analysePart(file.open(plan.parts[k].readFrom), car, map, {}, plan, k, run);
+    };
+    const reports: SplitReport[] = [];
+    const b = await analyseLogSplit(file, car, map, { parts: 3, runner, ...SMALL_PARTS }, (r) => reports.push(r));
+    expect(reports).toHaveLength(1);
+    expect(reports[0].parts).toBe(1);
+    expect(reports[0].whole).toMatch(/a part stopped \(worker thread stopped\)/);
+    const a = await whole(path, car, map);
+    expect(b.aero).toEqual(a.aero);
+    expect(b.bands).toEqual(a.bands);
+  });
+
   it("a small file is analysed whole, and says why", async () => {
     const { path, car, map } = inputs("vesper-coldwater-comma.csv");
     const reports: SplitReport[] = [];
