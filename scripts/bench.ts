@@ -3,9 +3,10 @@
  *
  * Generates (once, into sample-data/large/, git-ignored) a 20-channel export of the demo car on the
  * demo circuit, then measures in separate child processes, so each peak RSS is its own:
- *   engine parse only, engine parse + full summary, papaparse and uDSV parsing the same file into
- *   Float64Array column blocks, and the analyse CLI as a whole process on a smaller export against
- *   uDSV's parse alone. Prints MB/s, peak RSS and the ratio against uDSV.
+ *   engine parse only, engine parse + full summary on one thread and in parts on one thread per core
+ *   (app/engine/split.ts), papaparse and uDSV parsing the same file into Float64Array column blocks,
+ *   and the analyse CLI as a whole process on a smaller export against uDSV's parse alone. Prints
+ *   MB/s, peak RSS and the ratio against uDSV.
  * A bare newline scan over the same file calibrates the machine: the targets were set on one whose
  * scan ran at ~1000 MB/s, so each rate is also printed scaled by 1000 / (this machine's scan rate).
  */
