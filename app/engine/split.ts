@@ -231,6 +231,7 @@ export async function runParts(car: CarInput, plan: LogPlan, runner: PartRunner)
     results.push(result);
     // The next part waits for this one's settled reference, or for its end state.
     seedFor = Promise.race([settled, result.then((r) => r.summary.seed)]);
+    seedFor.catch(() => {}); // awaited only if there is a next part; the failure itself surfaces below
     if (k < n - 1) await Promise.race([settled, result]);
   }
   return all(results);
