@@ -5,7 +5,7 @@
  */
 import { availableParallelism } from "node:os";
 import { createHash } from "node:crypto";
-import { createReadStream, existsSync, mkdirSync, openSync, readdirSync, readFileSync, readSync, closeSync, renameSync, statSync, writeFileSync } from "node:fs";
+import { createReadStream, existsSync, mkdirSync, openSync, readdirSync, readFileSync, readSync, closeSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { createRequire } from "node:module";
 import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
@@ -76,6 +76,8 @@ function workerEntry(): URL {
       const tmp = `${out}.${process.pid}.tmp`;
       writeFileSync(tmp, built.outputFiles[0].contents);
       renameSync(tmp, out);
+      // Bundles of earlier sources are not needed again.
+      for (const f of readdirSync(dir)) if (/^part-thread-[0-9a-f]{16}\.mjs$/.test(f) && `${dir}/${f}` !== out) rmSync(`${dir}/${f}`, { force: true });
     } catch {
       return new URL("./ts-worker-boot.mjs", import.meta.url);
     }
