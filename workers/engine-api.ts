@@ -80,8 +80,11 @@ export const engineApi = {
   },
 
   /** One part of the plan; `onSeed` hands the static reference on to the next part (see split.ts). */
-  async analysePart(file: Blob, car: CarInput, map: ChannelMap, options: SummaryOptions, plan: LogPlan, index: number, seed: StaticSeed | null, onSeed?: (s: StaticSeed) => void): Promise<EngineResult<PartResult>> {
-    return guarded(() => analysePart(blobAccess(file).open(plan.parts[index].readFrom), car, map, options, plan, index, { seed, onSeed }));
+  async analysePart(
+    file: Blob, car: CarInput, map: ChannelMap, options: SummaryOptions, plan: LogPlan, index: number, seed: StaticSeed | null,
+    onSeed?: (s: StaticSeed) => void, onProgress?: (ownedBytes: number) => void,
+  ): Promise<EngineResult<PartResult>> {
+    return guarded(() => analysePart(blobAccess(file).open(plan.parts[index].readFrom), car, map, options, plan, index, { seed, onSeed, onProgress }));
   },
 
   /** The parts' results, in order, as the session summary. */

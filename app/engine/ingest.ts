@@ -197,6 +197,8 @@ export interface IngestPartOptions {
   onBlock(b: ChannelBlock): void;
   /** Checked after each chunk: true ends the read (the part has all it needs). */
   shouldStop?(): boolean;
+  /** Owned bytes read so far, after each chunk. */
+  onProgress?(ownedBytes: number): void;
   blockRows?: number;
 }
 
@@ -264,6 +266,7 @@ export async function ingestPart(
       }
       sink.feed(chunk);
       if (parser.quotedCells > 0) throw new PartUnsafe("the log has quoted cells");
+      opts.onProgress?.(Math.max(0, Math.min(pos, opts.ownedTo) - opts.ownedFrom));
       if (chunkStart >= opts.ownedTo && opts.shouldStop?.()) {
         stopped = true;
         break;

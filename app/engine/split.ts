@@ -173,6 +173,8 @@ export interface PartRunOptions {
   /** The static reference taken over from the part before (only when the car file gives no static readings). */
   seed: StaticSeed | null;
   onSeed?(seed: StaticSeed): void;
+  /** The part's owned bytes read so far. */
+  onProgress?(bytes: number): void;
 }
 
 /** One part, start to end: this is what a worker runs. */
@@ -186,6 +188,7 @@ export async function analysePart(source: ByteSource, car: CarInput, map: Channe
     ownedTo: p.ownedTo,
     onBlock: (b) => builder.push(b),
     shouldStop: () => builder.partDone,
+    onProgress: run.onProgress,
   });
   return { ingest, summary: builder.finishPart() };
 }
@@ -211,22 +214,29 @@ export function mergeParts(car: CarInput, map: ChannelMap, options: SummaryOptio
  * Runs every part through `runner`: all at once when the car file gives static damper readings,
  * else each as soon as the part before has settled the static reference.
  */
-export async function runParts(car: CarInput, plan: LogPlan, runner: PartRunner): Promise<PartResult[]> {
+export async function runParts(car: CarInput, plan: LogPlan, runner: PartRunner, onProgress?: (bytes: number) => void): Promise<PartResult[]> {
   const staticGiven = validateCar(car).static_damper_mm !== undefined;
   const n = plan.parts.length;
+  // Progress over the file: the header's bytes plus every part's owned bytes read so far.
+  const done = new Float64Array(n);
+  const head = plan.parts[0].ownedFrom;
+  const progress = (k: number) => (bytes: number) => {
+    done[k] = bytes;
+    onProgress?.(head + done.reduce((a, b) => a + b, 0));
+  };
   // Every result is awaited (an early failure must not leave a later rejection unhandled).
   const all = (ps: Promise<PartResult>[]) => {
     for (const p of ps) p.catch(() => {});
     return Promise.all(ps);
   };
-  if (staticGiven) return all(plan.parts.map((_, k) => runner(plan, k, { seed: null })));
+  if (staticGiven) return all(plan.parts.map((_, k) => runner(plan, k, { seed: null, onProgress: progress(k) })));
   const results: Promise<PartResult>[] = [];
   let seedFor: Promise<StaticSeed | null> = Promise.resolve(null);
   for (let k = 0; k < n; k++) {
     const seed = await seedFor;
     let settle!: (s: StaticSeed) => void;
     const settled = new Promise<StaticSeed>((resolve) => (settle = resolve));
-    const result = runner(plan, k, { seed, onSeed: (s) => settle(s) });
+    const result = runner(plan, k, { seed, onSeed: (s) => settle(s), onProgress: progress(k) });
     result.catch(() => {});
     results.push(result);
     // The next part waits for this one's settled reference, or for its end state.
@@ -275,7 +285,7 @@ export async function analyseLogSplit(file: LogFileAccess, car: CarInput, map: C
   const run: PartRunner = runner ?? ((pl, k, r) => analysePart(file.open(pl.parts[k].readFrom), car, map, summaryOptions, pl, k, r));
   let results: PartResult[];
   try {
-    results = await runParts(car, plan, run);
+    results = await runParts(car, plan, run, onProgress);
   } catch (e) {
     return whole(e instanceof PartUnsafe ? e.message : `a part stopped (${e instanceof Error ? e.message : String(e)}); the whole-log run reports it exactly`);
   }

@@ -27,7 +27,7 @@ interface PartJob {
   id: number;
 }
 
-type FromWorker = { id: number } & ({ type: "seed"; seed: StaticSeed } | { type: "done"; result: PartResult } | { type: "error"; message: string; name: string });
+type FromWorker = { id: number } & ({ type: "seed"; seed: StaticSeed } | { type: "progress"; bytes: number } | { type: "done"; result: PartResult } | { type: "error"; message: string; name: string });
 
 /** Random access to a file on disk. */
 export function fileAccess(path: string): LogFileAccess & { close(): void } {
@@ -129,6 +129,7 @@ export class PartThreads {
         const onMessage = (m: FromWorker) => {
           if (m.id !== job.id) return;
           if (m.type === "seed") run.onSeed?.(m.seed);
+          else if (m.type === "progress") run.onProgress?.(m.bytes);
           else {
             done();
             if (m.type === "done") resolve(m.result);
@@ -199,9 +200,14 @@ if (!isMainThread && (workerData as { partThread?: boolean } | null)?.partThread
   port.on("message", (job: PartJob) => {
     const post = (m: Omit<FromWorker, "id"> & Partial<FromWorker>) => port.postMessage({ ...m, id: job.id });
     const file = fileAccess(job.path);
+    let lastPosted = 0;
     analysePart(file.open(job.plan.parts[job.index].readFrom), job.car, job.map, job.options, job.plan, job.index, {
       seed: job.seed,
       onSeed: (seed) => post({ type: "seed", seed }),
+      // Every 8 MB is plenty for a progress bar.
+      onProgress: (bytes) => {
+        if (bytes - lastPosted >= 8 << 20) post({ type: "progress", bytes: (lastPosted = bytes) });
+      },
     }).then(
       (result) => post({ type: "done", result }),
       (e: unknown) => post({ type: "error", message: e instanceof Error ? e.message : String(e), name: e instanceof Error ? e.name : "Error" }),

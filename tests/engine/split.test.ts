@@ -174,6 +174,17 @@ describe("analysis in parts: order and fallbacks", () => {
     expect(b.bands).toEqual(a.bands);
   });
 
+  it("reports progress in bytes over the whole file, never going back, ending at its size", async () => {
+    const { path, car, map } = inputs("marlin-kestrel-comma.csv");
+    const bytes = readFileSync(path);
+    const seen: number[] = [];
+    await analyseLogSplit(bytesAccess(bytes), car, map, { parts: 3, ...SMALL_PARTS, onProgress: (b) => seen.push(b) });
+    expect(seen.length).toBeGreaterThan(10);
+    for (let i = 1; i < seen.length; i++) expect(seen[i]).toBeGreaterThanOrEqual(seen[i - 1]);
+    expect(seen.at(-1)).toBe(bytes.length);
+    expect(Math.max(...seen)).toBe(bytes.length);
+  });
+
   it("a small file is analysed whole, and says why", async () => {
     const { path, car, map } = inputs("vesper-coldwater-comma.csv");
     const reports: SplitReport[] = [];
