@@ -202,13 +202,32 @@ export interface IngestPartOptions {
   blockRows?: number;
 }
 
-/** Row counts of one part's owned bytes, per mapped slot in the order of `mapped`. */
+/** Row and cell counts of one part's owned bytes (the cell counts as in IngestResult). */
 export interface PartIngest {
   rows: number;
   rowsWithoutTime: number;
-  emptyCells: number[];
-  badCells: number[];
+  droppedCells: Record<string, number>;
+  badCells: Record<string, number>;
   bytes: number;
+}
+
+/** Throws too_few_rows when `rows` data rows cannot give an estimate. */
+export function requireEnoughRows(rows: number): void {
+  if (rows < MIN_DATA_ROWS) {
+    throw new EngineError("too_few_rows", `the file has only ${rows} data rows with a time; at least ${MIN_DATA_ROWS} are needed for an estimate`);
+  }
+}
+
+/** Per mapped column: cells that became NaN (empty or not a number), and the not-a-number ones alone. */
+function cellCounts(sink: Sink, checked: CheckedMap, empty: ArrayLike<number>, bad: ArrayLike<number>): Pick<IngestResult, "droppedCells" | "badCells"> {
+  const droppedCells: Record<string, number> = {};
+  const badCells: Record<string, number> = {};
+  sink.mapped.forEach((channel, slot) => {
+    const column = checked[channel]!.column;
+    droppedCells[column] = empty[slot] + bad[slot];
+    badCells[column] = bad[slot];
+  });
+  return { droppedCells, badCells };
 }
 
 interface Counts {
@@ -284,8 +303,7 @@ export async function ingestPart(
   return {
     rows: b.rows - a.rows,
     rowsWithoutTime: b.rowsWithoutTime - a.rowsWithoutTime,
-    emptyCells: Array.from(b.empty, (x, i) => x - a.empty[i]),
-    badCells: Array.from(b.bad, (x, i) => x - a.bad[i]),
+    ...cellCounts(sink, checked, b.empty.map((x, i) => x - a.empty[i]), b.bad.map((x, i) => x - a.bad[i])),
     bytes: Math.min(pos, opts.ownedTo) - opts.ownedFrom,
   };
 }
@@ -336,18 +354,7 @@ export async function ingestLog(
   }
   sink.end();
   const parser = sink.parser;
-  const { mapped } = sink;
-
   const rows = parser.rowsKept;
-  if (rows < MIN_DATA_ROWS) {
-    throw new EngineError("too_few_rows", `the file has only ${rows} data rows with a time; at least ${MIN_DATA_ROWS} are needed for an estimate`);
-  }
-  const droppedCells: Record<string, number> = {};
-  const badCells: Record<string, number> = {};
-  mapped.forEach((channel, slot) => {
-    const column = checked[channel]!.column;
-    droppedCells[column] = parser.emptyCells[slot] + parser.badCells[slot];
-    badCells[column] = parser.badCells[slot];
-  });
-  return { header, rows, bytes, droppedCells, badCells, rowsWithoutTime: parser.rowsWithoutTime };
+  requireEnoughRows(rows);
+  return { header, rows, bytes, ...cellCounts(sink, checked, parser.emptyCells, parser.badCells), rowsWithoutTime: parser.rowsWithoutTime };
 }

@@ -17,8 +17,8 @@
 import { analyseLog } from "./analyse";
 import type { AnalyseOptions } from "./analyse";
 import { validateCar } from "./car";
-import { EngineError, PartUnsafe } from "./errors";
-import { ingestPart, MIN_DATA_ROWS } from "./ingest";
+import { PartUnsafe } from "./errors";
+import { ingestPart, requireEnoughRows } from "./ingest";
 import type { PartIngest } from "./ingest";
 import { scanHeader } from "./inspect";
 import { validateChannelMap } from "./mapping";
@@ -27,7 +27,6 @@ import type { SessionSummary, StaticSeed, SummaryPart } from "./summary";
 import { estimateDt } from "./summary-blocks";
 import { resolveOptions } from "./summary-options";
 import type { SummaryOptions } from "./summary-options";
-import { ALL_CHANNELS } from "./types";
 import type { CarInput, ChannelBlock, ChannelMap, LogHeader } from "./types";
 
 /** Parts are at least this big: below it the lead-in, run-out and thread start are not worth it. */
@@ -199,12 +198,9 @@ export type PartRunner = (plan: LogPlan, index: number, run: PartRunOptions) => 
 /** The parts' results, in order, as one session summary. */
 export function mergeParts(car: CarInput, map: ChannelMap, options: SummaryOptions, plan: LogPlan, results: readonly PartResult[]): SessionSummary {
   const rows = results.reduce((s, r) => s + r.ingest.rows, 0);
-  if (rows < MIN_DATA_ROWS) throw new EngineError("too_few_rows", `the file has only ${rows} data rows with a time; at least ${MIN_DATA_ROWS} are needed for an estimate`);
-  const checked = validateChannelMap(map, plan.header);
+  requireEnoughRows(rows);
   const droppedCells: Record<string, number> = {};
-  ALL_CHANNELS.filter((c) => checked[c] !== undefined).forEach((channel, slot) => {
-    droppedCells[checked[channel]!.column] = results.reduce((s, r) => s + r.ingest.emptyCells[slot] + r.ingest.badCells[slot], 0);
-  });
+  for (const r of results) for (const [column, n] of Object.entries(r.ingest.droppedCells)) droppedCells[column] = (droppedCells[column] ?? 0) + n;
   const builder = createSummaryBuilder(car, options);
   builder.absorb(results.map((r) => r.summary));
   return builder.summarise({ header: plan.header, map, rows, bytes: plan.size, droppedCells });
@@ -267,6 +263,7 @@ export interface SplitReport {
  */
 export async function analyseLogSplit(file: LogFileAccess, car: CarInput, map: ChannelMap, options: SplitOptions, report?: (r: SplitReport) => void): Promise<SessionSummary> {
   const { parts, runner, onProgress, minPartBytes, leadInBytes, ...summaryOptions } = options;
+  // Bad car or options are reported before any file is read or any part started.
   validateCar(car);
   resolveOptions(summaryOptions);
   const whole = (why: string) => {
