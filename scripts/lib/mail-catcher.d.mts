@@ -1,8 +1,11 @@
 // Types for scripts/lib/mail-catcher.mjs (plain ESM so it runs before node_modules exists).
 export interface CaughtMessage {
   id: string;
+  /** ISO 8601 time the catcher received it. */
   receivedAt: string;
+  /** Sender address from the From header. */
   from: string;
+  /** Recipient addresses from the SMTP envelope. */
   to: string[];
   subject: string;
   text: string;

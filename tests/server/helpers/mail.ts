@@ -1,19 +1,10 @@
 // Read the mail catcher's messages (one JSON file each, see DEVELOPERS.md) from tests.
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
+import type { CaughtMessage } from "../../../scripts/lib/mail-catcher.mjs";
 
-export interface CaughtMail {
-  id: string;
-  /** ISO 8601 time the catcher received it. */
-  receivedAt: string;
-  /** Sender address from the From header. */
-  from: string;
-  /** Recipient addresses from the SMTP envelope. */
-  to: string[];
-  subject: string;
-  text: string;
-  html: string;
-}
+/** A stored message, as the catcher writes it. */
+export type CaughtMail = CaughtMessage;
 
 /** The catcher directory of this run: MAIL_CATCHER_DIR (set by npm test), else the test default. */
 export const mailCatcherDir = path.resolve(process.env.MAIL_CATCHER_DIR ?? ".data/test-mail");
