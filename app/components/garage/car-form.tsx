@@ -4,6 +4,7 @@ import { carFormSchema } from "~/lib/garage/schemas";
 import { summariseCornerWeights } from "~/lib/garage/corner-weights";
 import { NOT_A_NUMBER, formatForInput, parseTypedNumber, toStored, type UnitSystem } from "~/lib/garage/units";
 import { Button, FormAlert } from "~/components/ui/form";
+import { FigureList } from "~/components/ui/panels";
 import { DraftNotice, NumberInput, TextInput, UnitSwitch } from "./inputs";
 import { useGarageForm } from "./use-garage-form";
 
@@ -101,13 +102,6 @@ function CornerSummary({ summary }: { summary: ReturnType<typeof summariseCorner
     ["CoG behind front axle", summary.cogFromFrontAxleMm === null ? "needs wheelbase" : `${summary.cogFromFrontAxleMm.toFixed(0)} mm`],
   ];
   return (
-    <dl aria-live="polite" className="mb-3 grid grid-cols-[1fr_auto] gap-x-4 rounded border border-rule-soft bg-paper px-3 py-2 text-sm">
-      {rows.map(([k, v]) => (
-        <div key={k} className="contents">
-          <dt className="text-ink-soft">{k}</dt>
-          <dd className="num text-right">{v}</dd>
-        </div>
-      ))}
-    </dl>
+    <FigureList live rows={rows} className="mb-3 grid grid-cols-[1fr_auto] gap-x-4 rounded border border-rule-soft bg-paper px-3 py-2 text-sm" />
   );
 }

@@ -17,6 +17,16 @@ function Message({ id, error, hint }: { id: string; error?: string; hint?: React
 }
 
 /** A number with its unit beside it; `data-quantity` lets the unit switch convert what is typed. */
+/** A field's label, marked "(optional)" when the field is not required. */
+function FieldLabel({ id, spec }: { id: string; spec: NumberFieldSpec | TextFieldSpec }) {
+  return (
+    <label htmlFor={id} className="mb-1 block text-sm font-medium">
+      {spec.label}
+      {spec.required ? "" : <span className="font-normal text-ink-faint"> (optional)</span>}
+    </label>
+  );
+}
+
 export function NumberInput({ name, spec, system, defaultValue, error, hint, className }: {
   name: string;
   spec: NumberFieldSpec;
@@ -30,10 +40,7 @@ export function NumberInput({ name, spec, system, defaultValue, error, hint, cla
   const unit = spec.displayUnit ?? unitLabel(spec.quantity, system);
   return (
     <div className={className ?? "mb-3"}>
-      <label htmlFor={id} className="mb-1 block text-sm font-medium">
-        {spec.label}
-        {spec.required ? "" : <span className="font-normal text-ink-faint"> (optional)</span>}
-      </label>
+      <FieldLabel id={id} spec={spec} />
       <div className="flex items-center gap-2">
         <input
           id={id}
@@ -73,10 +80,7 @@ export function TextInput({ name, spec, defaultValue, error, multiline, classNam
   };
   return (
     <div className={className ?? "mb-3"}>
-      <label htmlFor={id} className="mb-1 block text-sm font-medium">
-        {spec.label}
-        {spec.required ? "" : <span className="font-normal text-ink-faint"> (optional)</span>}
-      </label>
+      <FieldLabel id={id} spec={spec} />
       {multiline ? <textarea rows={3} {...common} /> : <input {...common} />}
       <Message id={`${id}-msg`} error={error} hint={spec.hint} />
     </div>

@@ -1,3 +1,4 @@
+import { Figure } from "~/components/ui/panels";
 import { SETUP_FIELDS, type FieldSpec, type SetupFieldKey } from "~/lib/garage/fields";
 import { showValue } from "~/lib/garage/diff";
 import { formatBumpStopTable, linearRateFromTable, type BumpStopPoint } from "~/lib/garage/bump-stop";
@@ -15,13 +16,10 @@ function Row({ k, setup, units }: { k: SetupFieldKey; setup: SetupShown; units: 
   const spec = SETUP_FIELDS[k] as FieldSpec;
   const value = setup[k] ?? null;
   return (
-    <div className="contents">
-      <dt className="text-ink-soft">{spec.label}</dt>
-      <dd className="num text-right">
-        {showValue(spec, value, units)}
-        {value !== null && spec.kind === "number" && unitLabel(spec.quantity, units) ? ` ${unitLabel(spec.quantity, units)}` : ""}
-      </dd>
-    </div>
+    <Figure label={spec.label}>
+      {showValue(spec, value, units)}
+      {value !== null && spec.kind === "number" && unitLabel(spec.quantity, units) ? ` ${unitLabel(spec.quantity, units)}` : ""}
+    </Figure>
   );
 }
 
@@ -38,29 +36,20 @@ export function SetupSheet({ setup, units }: { setup: SetupShown; units: UnitSys
         <dl className="grid grid-cols-[1fr_auto] gap-x-4 text-sm">
           <Row k={`${a}SpringRateNPerMm`} setup={setup} units={units} />
           <Row k={`${a}MotionRatio`} setup={setup} units={units} />
-          <div className="contents">
-            <dt className="text-ink-soft">Wheel rate (spring × MR²)</dt>
-            <dd className="num text-right">
-              {fromStored(spring * mr * mr, "springRate", units).toFixed(1)} {unitLabel("springRate", units)}
-            </dd>
-          </div>
+          <Figure label="Wheel rate (spring × MR²)">
+            {fromStored(spring * mr * mr, "springRate", units).toFixed(1)} {unitLabel("springRate", units)}
+          </Figure>
           {kind === "none" ? (
-            <div className="contents">
-              <dt className="text-ink-soft">Bump stop</dt>
-              <dd className="text-right">none</dd>
-            </div>
+            <Figure label="Bump stop" valueClass="text-right">none</Figure>
           ) : (
             <>
               <Row k={`${a}BumpStopGapMm`} setup={setup} units={units} />
               {kind === "linear" && <Row k={`${a}BumpStopRateNPerMm`} setup={setup} units={units} />}
               {kind === "table" && table && (
-                <div className="contents">
-                  <dt className="text-ink-soft">Bump-stop table ({units === "metric" ? "mm N" : "in lbf"})</dt>
-                  <dd className="num whitespace-pre text-right">
-                    {formatBumpStopTable(table, units)}
-                    {"\n"}fit: {fromStored(linearRateFromTable(table), "springRate", units).toFixed(0)} {unitLabel("springRate", units)}
-                  </dd>
-                </div>
+                <Figure label={`Bump-stop table (${units === "metric" ? "mm N" : "in lbf"})`} valueClass="num whitespace-pre text-right">
+                  {formatBumpStopTable(table, units)}
+                  {"\n"}fit: {fromStored(linearRateFromTable(table), "springRate", units).toFixed(0)} {unitLabel("springRate", units)}
+                </Figure>
               )}
             </>
           )}

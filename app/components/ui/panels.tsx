@@ -16,6 +16,27 @@ export function Panel({ title, children, actions }: { title?: ReactNode; childre
   );
 }
 
+/** One figure of a key/value list (inside a two-column grid `<dl>`): label left, value right-aligned. */
+export function Figure({ label, children, valueClass = "num text-right" }: { label: ReactNode; children: ReactNode; valueClass?: string }) {
+  return (
+    <div className="contents">
+      <dt className="text-ink-soft">{label}</dt>
+      <dd className={valueClass}>{children}</dd>
+    </div>
+  );
+}
+
+/** A key/value list of figures; `className` sets the grid's look. */
+export function FigureList({ rows, className, live }: { rows: [string, ReactNode][]; className: string; live?: boolean }) {
+  return (
+    <dl aria-live={live ? "polite" : undefined} className={className}>
+      {rows.map(([k, v]) => (
+        <Figure key={k} label={k}>{v}</Figure>
+      ))}
+    </dl>
+  );
+}
+
 /** What an empty page says: what belongs here and the next step to fill it. */
 export function EmptyState({ title, children, action }: { title: string; children: ReactNode; action?: { to: string; label: string } }) {
   return (

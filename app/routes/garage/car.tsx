@@ -6,7 +6,7 @@ import { SETUP_SORTS, duplicateSetup, listSetupSheets } from "~/server/garage-se
 import { displayUnits, ids, searchParamsOf } from "~/server/garage-routes.server";
 import { cogFromFrontAxleMm, summariseCornerWeights, withFuelChange } from "~/lib/garage/corner-weights";
 import { formatQuantity, type UnitSystem } from "~/lib/garage/units";
-import { Caution, EmptyState, Panel } from "~/components/ui/panels";
+import { Caution, EmptyState, FigureList, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
 import { CogDiagram } from "~/components/garage/cog-diagram";
@@ -90,14 +90,7 @@ function Figures({ car, units }: { car: Route.ComponentProps["loaderData"]["car"
   }
   return (
     <div className="grid gap-4 md:grid-cols-[1fr_auto]">
-      <dl className="grid grid-cols-[1fr_auto] gap-x-6 gap-y-0.5 text-sm">
-        {rows.map(([k, v]) => (
-          <div key={k} className="contents">
-            <dt className="text-ink-soft">{k}</dt>
-            <dd className="num text-right">{v}</dd>
-          </div>
-        ))}
-      </dl>
+      <FigureList rows={rows} className="grid grid-cols-[1fr_auto] gap-x-6 gap-y-0.5 text-sm" />
       <div className="space-y-3">
         <CogDiagram wheelbaseMm={car.wheelbaseMm} cogFromFrontMm={cogFromFrontAxleMm(car.wheelbaseMm, car.staticFrontWeightPct)} cogHeightMm={car.cogHeightMm} />
         {corners && (
