@@ -294,10 +294,9 @@ export async function ingestPart(
   } finally {
     await chunks.return(undefined);
   }
-  if (taken.length < 2) {
-    sink.end();
-    while (taken.length < 2) taken.push(snap());
-  } else sink.end(stopped);
+  // A read stops only past ownedTo, so a cut-off last row is never an owned one.
+  sink.end(stopped);
+  while (taken.length < 2) taken.push(snap());
   if (parser.quotedCells > 0) throw new PartUnsafe("the log has quoted cells");
   const [a, b] = taken;
   return {

@@ -151,11 +151,7 @@ export class SummaryBuilder {
       this.ownFrom = part.fromBlock;
       this.ownTo = part.toBlock;
       this.owned = false;
-      const seed = part.seed;
-      if (seed) {
-        for (let i = 0; i < 4; i++) this.est[i] = seed.est[i];
-        this.estN = seed.estN; this.refFront = seed.refFront; this.refRear = seed.refRear;
-      }
+      if (part.seed) this.takeSeed(part.seed);
       this.start(part.dtS);
     }
   }
@@ -169,6 +165,12 @@ export class SummaryBuilder {
   get seed(): StaticSeed {
     const e = this.est;
     return { est: [e[0], e[1], e[2], e[3]], estN: this.estN, refFront: this.refFront, refRear: this.refRear };
+  }
+
+  /** Takes over a static reference (the inverse of `seed`). */
+  private takeSeed(seed: StaticSeed): void {
+    for (let i = 0; i < 4; i++) this.est[i] = seed.est[i];
+    this.estN = seed.estN; this.refFront = seed.refFront; this.refRear = seed.refRear;
   }
 
   push(block: ChannelBlock): void {
@@ -239,8 +241,7 @@ export class SummaryBuilder {
       this.yawSignDot += p.yawSignDot; this.yawSignN += p.yawSignN;
       this.contactFront += p.contactFront; this.contactRear += p.contactRear; this.aeroWaitingStatic += p.aeroWaitingStatic;
       add(this.bandRows, p.bandRows);
-      for (let c = 0; c < 4; c++) this.est[c] = p.seed.est[c];
-      this.estN = p.seed.estN; this.refFront = p.seed.refFront; this.refRear = p.seed.refRear;
+      this.takeSeed(p.seed);
       if (i === 0) this.traces.restore(p.traces); else this.traces.append(p.traces);
     });
   }
