@@ -6,7 +6,7 @@
 import { availableParallelism } from "node:os";
 import { createHash } from "node:crypto";
 import { createReadStream, existsSync, mkdirSync, openSync, readdirSync, readFileSync, readSync, closeSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
-import { fileURLToPath } from "node:url";
+import { fileURLToPath, pathToFileURL } from "node:url";
 import { createRequire } from "node:module";
 import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
 import { analyseLogSplit, analysePart } from "../../app/engine/split";
@@ -59,10 +59,10 @@ const ROOT = fileURLToPath(new URL("../../", import.meta.url));
 /**
  * The worker's entry: this file and the engine bundled into one plain-JS module (a worker then
  * starts in ~0.1 s instead of ~0.7 s through tsx's loader), cached under node_modules/.cache by a
- * hash of the sources. Falls back to loading the TypeScript through tsx if the bundler fails.
+ * hash of the sources and the lockfile (the bundle holds zod too). Falls back to loading the TypeScript through tsx if the bundler fails.
  */
 function workerEntry(): URL {
-  const sources = [fileURLToPath(import.meta.url), ...readdirSync(`${ROOT}app/engine`).filter((f) => f.endsWith(".ts")).map((f) => `${ROOT}app/engine/${f}`)];
+  const sources = [fileURLToPath(import.meta.url), `${ROOT}package-lock.json`, ...readdirSync(`${ROOT}app/engine`).filter((f) => f.endsWith(".ts")).map((f) => `${ROOT}app/engine/${f}`)];
   const hash = createHash("sha256");
   for (const f of sources.sort()) hash.update(f).update(readFileSync(f));
   const dir = `${ROOT}node_modules/.cache/rakeline`;
@@ -82,7 +82,7 @@ function workerEntry(): URL {
       return new URL("./ts-worker-boot.mjs", import.meta.url);
     }
   }
-  return new URL(`file://${out}`);
+  return pathToFileURL(out);
 }
 
 /** Threads worth using here: one per core, at most 4 (each adds ~60 MB resident; the CLI stays under 400 MB). */
