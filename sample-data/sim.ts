@@ -100,7 +100,9 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
   const L = car.wheelbaseM, h = car.cogHeightM;
   const fz0f = car.massKg * G * car.frontWeightFraction, fz0r = car.massKg * G * (1 - car.frontWeightFraction);
   const kwF = car.front.springNPerMm * car.front.motionRatio ** 2;
-  let contactF = 0, contactR = 0, running = 0;
+  // Physical damper travel from static (load, road, body and kerbs; no sensor noise), and the running gate.
+  const travel = [0, 1, 2, 3].map(() => new Float64Array(n));
+  const runningRow = new Uint8Array(n);
   let kerb = 0;
   for (let i = 0; i < n; i++) {
     const t = i * dt;
@@ -126,11 +128,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     // ay > 0 (left turn) loads the right-hand wheels.
     const xfl = damperTravelMm(axleF / 2 - latF, car.front), xfr = damperTravelMm(axleF / 2 + latF, car.front);
     const xrl = damperTravelMm(axleR / 2 - latR, car.rear), xrr = damperTravelMm(axleR / 2 + latR, car.rear);
-    if (V[i] > 20 / 3.6 && Math.abs(axChassis[i]) <= 0.6 * G) {
-      running++;
-      if (xfl > car.front.bumpGapMm || xfr > car.front.bumpGapMm) contactF++;
-      if (xrl > car.rear.bumpGapMm || xrr > car.rear.bumpGapMm) contactR++;
-    }
+    if (V[i] >= 20 / 3.6 && Math.abs(axChassis[i]) <= 0.6 * G) runningRow[i] = 1;
     // Kerb strike on the inside wheels shortly after some corner exits.
     if (o.kerbs !== false && kerb <= 0 && Math.abs(K[i]) > 1 / 70 && i > 0 && Math.abs(K[i]) < Math.abs(K[i - 1]) && rng.next() < 0.02) kerb = Math.round(0.12 / dt);
     let kf = 0;
@@ -142,10 +140,14 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     cols.long_accel[i] = axChassis[i] + 0.3 * rng.gauss();
     cols.yaw_rate[i] = yawChassis[i] + 0.3 * rng.gauss();
     const st = car.staticDamperMm;
-    cols.damper_fl[i] = st.fl + xfl + road[0][i] + body[i] + (insideLeft ? kf : 0) + 0.04 * rng.gauss();
-    cols.damper_fr[i] = st.fr + xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf) + 0.04 * rng.gauss();
-    cols.damper_rl[i] = st.rl + xrl + road[2][i] + body[i] + 0.04 * rng.gauss();
-    cols.damper_rr[i] = st.rr + xrr + road[3][i] + body[i] + 0.04 * rng.gauss();
+    travel[0][i] = xfl + road[0][i] + body[i] + (insideLeft ? kf : 0);
+    travel[1][i] = xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf);
+    travel[2][i] = xrl + road[2][i] + body[i];
+    travel[3][i] = xrr + road[3][i] + body[i];
+    cols.damper_fl[i] = st.fl + travel[0][i] + 0.04 * rng.gauss();
+    cols.damper_fr[i] = st.fr + travel[1][i] + 0.04 * rng.gauss();
+    cols.damper_rl[i] = st.rl + travel[2][i] + 0.04 * rng.gauss();
+    cols.damper_rr[i] = st.rr + travel[3][i] + 0.04 * rng.gauss();
     cols.ride_height_front[i] = car.front.staticRideHeightMm - ((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
     cols.ride_height_rear[i] = car.rear.staticRideHeightMm - ((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
     // Steering: the steady-state relation at the path's demand (the chassis follows with a lag).
@@ -155,10 +157,36 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const road_deg = DEG * L * K[i] + kTrue[i] * (ayPath[i] / G);
     cols.steer[i] = car.steeringRatio * road_deg + car.steeringOffsetDeg + 0.15 * rng.gauss();
   }
-  return { columns: cols, truth: truthOf(car, track, o, V, AX, ayPath, aeroF, aeroR, kTrue, n * dt, contactF, contactR, running) };
+  const contact = {
+    front: contactSharePct(travel[0], travel[1], car.front.bumpGapMm, runningRow, o.rateHz),
+    rear: contactSharePct(travel[2], travel[3], car.rear.bumpGapMm, runningRow, o.rateHz),
+  };
+  return { columns: cols, truth: truthOf(car, track, o, V, AX, ayPath, aeroF, aeroR, kTrue, n * dt, contact) };
 }
 
-function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array, AX: Float64Array, ay: Float64Array, aeroF: Float64Array, aeroR: Float64Array, k: Float64Array, duration: number, contactF: number, contactR: number, running: number): SimTruth {
+/**
+ * Share (%) of running rows in which either wheel of an axle is past its bump-stop gap, judged on the
+ * physical travel seen through a ≈0.11 s centred moving average (the ≈4 Hz low pass that a load
+ * estimate from damper travel applies: faster wheel motion carries no axle load worth the name).
+ */
+function contactSharePct(left: Float64Array, right: Float64Array, gapMm: number, running: Uint8Array, rateHz: number): number {
+  const h = Math.max(1, Math.round((0.11 * rateHz) / 2));
+  const n = left.length;
+  const mean = (x: Float64Array, i: number) => {
+    let s = 0;
+    for (let j = i - h; j <= i + h; j++) s += x[j];
+    return s / (2 * h + 1);
+  };
+  let rows = 0, contact = 0;
+  for (let i = h; i < n - h; i++) {
+    if (!running[i]) continue;
+    rows++;
+    if (mean(left, i) > gapMm || mean(right, i) > gapMm) contact++;
+  }
+  return rows > 0 ? (100 * contact) / rows : 0;
+}
+
+function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array, AX: Float64Array, ay: Float64Array, aeroF: Float64Array, aeroR: Float64Array, k: Float64Array, duration: number, contact: { front: number; rear: number }): SimTruth {
   const rho = o.airDensityKgM3;
   // True aero load vs q, least squares with an intercept, over running samples (|ax| ≤ 0.6 g).
   let n = 0, sq = 0, sqq = 0, sf = 0, sqf = 0, sr = 0, sqr = 0;
@@ -186,7 +214,7 @@ function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array
     cla_front_m2: r4(claF), cla_rear_m2_fit: r4(claR), cla_total_m2: r4(claF + claR), balance_front_pct: r4((100 * claF) / (claF + claR)),
     steering_offset_deg: car.steeringOffsetDeg, fuel_burnt_kg: r4(fuel),
     static_load_change_front_n: r4(-fuel * G * car.fuelFrontShare), static_load_change_rear_n: r4(-fuel * G * (1 - car.fuelFrontShare)),
-    bump_stop_contact_front_pct: r4((100 * contactF) / running), bump_stop_contact_rear_pct: r4((100 * contactR) / running),
+    bump_stop_contact_front_pct: r4(contact.front), bump_stop_contact_rear_pct: r4(contact.rear),
     bands: Array.from({ length: nb }, (_, b) => ({
       min_kmh: o.bandEdgesKmh[b], max_kmh: o.bandEdgesKmh[b + 1],
       aero_load_front_n: bn[b] ? r4(bf[b] / bn[b]) : null,

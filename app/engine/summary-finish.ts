@@ -2,10 +2,11 @@
 import { bandAeroLoadN, fitAero, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
-import type { SummaryBuilder } from "./summary";
+import type { StaticReference, SummaryBuilder } from "./summary";
 import { CAUTIONS, SUMMARY_VERSION } from "./summary-types";
 import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
 import { roundOrNull as r, roundPair } from "./stats";
+import { aeroTravelAtEstimateMm, CONTACT_SLOTS, contactSharePct } from "./static-estimate";
 import { bandUndersteer, estimateSteeringOffset } from "./understeer";
 
 const MIN_AERO_BLOCKS = 10;
@@ -56,10 +57,16 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     const se = 100 * Math.sqrt(dF * dF * fit.front.cla_se_m2 ** 2 + dR * dR * fit.rear.cla_se_m2 ** 2);
     balanceCi = [balance - 1.96 * se, balance + 1.96 * se];
   }
-  const contactPct = (n: number) => (s.aero.samples.n > 0 ? (100 * n) / s.aero.samples.n : NaN);
-  for (const [axle, n, has] of [["front", s.contactFront, c.bumpForcePerMmFront > 0], ["rear", s.contactRear, c.bumpForcePerMmRear > 0]] as const) {
-    const pct = contactPct(n);
-    if (has && pct > CONTACT_WARN_PCT) warn("bump_stop_contact", `${axle} bump stops are in contact in ${pct.toFixed(1)} % of the aero samples: the result leans on the bump-stop rate and gap in the car file`);
+  // A static reference learned from slow running reads compressed by that running's aero load: taken out with the fit's ClA.
+  const aeroShift = s.staticGiven ? { front: 0, rear: 0 } : aeroTravelAtEstimateMm(s.est, s.estN, claF, claR, c.forcePerMmFront, c.forcePerMmRear);
+  const staticRef = s.staticReference(aeroShift);
+  const contactPct = {
+    front: c.bumpForcePerMmFront > 0 ? contactSharePct(s.contactHist, 0, aeroShift.front) : NaN,
+    rear: c.bumpForcePerMmRear > 0 ? contactSharePct(s.contactHist, CONTACT_SLOTS, aeroShift.rear) : NaN,
+  };
+  for (const axle of ["front", "rear"] as const) {
+    const pct = contactPct[axle];
+    if (pct > CONTACT_WARN_PCT) warn("bump_stop_contact", `${axle} bump stops are in contact in ${pct.toFixed(1)} % of the running above ${s.opts.gates.aero_min_speed_kmh} km/h: the result leans on the bump-stop rate and gap in the car file`);
   }
   if (fit && withDrift) {
     for (const side of ["front", "rear"] as const) {
@@ -122,7 +129,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     } else if (s.bandRows[b] > 0 && offset.offset_deg !== null) {
       warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
     }
-    const rh = rideHeights(s, b, loadF, loadR);
+    const rh = rideHeights(s, staticRef, b, loadF, loadR);
     bands.push({
       min_kmh: edges[b],
       max_kmh: edges[b + 1],
@@ -176,9 +183,12 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       front: { cla_m2: r(claF, 4), cla_ci95_m2: fit ? roundPair(fit.front.cla_ci95_m2, 4) : null, static_load_change_over_stint_n: driftChange(fit, "front"), residual_sd_n: fit ? r(fit.front.residual_sd_n, 1) : null },
       rear: { cla_m2: r(claR, 4), cla_ci95_m2: fit ? roundPair(fit.rear.cla_ci95_m2, 4) : null, static_load_change_over_stint_n: driftChange(fit, "rear"), residual_sd_n: fit ? r(fit.rear.residual_sd_n, 1) : null },
       alternative: alt ? { model: alt.with_intercept ? "with_intercept" : "through_origin", cla_front_m2: r(alt.front.cla_m2, 4), cla_rear_m2: r(alt.rear.cla_m2, 4) } : null,
-      bump_stop_contact_front_pct: c.bumpForcePerMmFront > 0 ? r(contactPct(s.contactFront), 2) : null,
-      bump_stop_contact_rear_pct: c.bumpForcePerMmRear > 0 ? r(contactPct(s.contactRear), 2) : null,
+      bump_stop_contact_front_pct: r(contactPct.front, 2),
+      bump_stop_contact_rear_pct: r(contactPct.rear, 2),
     },
+    static_damper_mm: staticRef
+      ? { source: staticRef.source, fl: r(staticRef.fl, 2)!, fr: r(staticRef.fr, 2)!, rl: r(staticRef.rl, 2)!, rr: r(staticRef.rr, 2)!, samples: staticRef.samples }
+      : null,
     cop: { from_front_axle_mm: r(copMm, 1), cog_from_front_axle_mm: r(cogMm, 1)!, cop_behind_cog_mm: r(copMm - cogMm, 1) },
     steering: {
       offset_deg: r(offset.offset_deg ?? NaN, 3),
@@ -206,14 +216,12 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   };
 }
 
-function rideHeights(s: SummaryBuilder, b: number, loadF: number, loadR: number) {
+function rideHeights(s: SummaryBuilder, st: StaticReference | null, b: number, loadF: number, loadR: number) {
   const a = s.aero.bands;
   const n = a.n[b];
   const c = s.model;
-  const st = c.staticDamperMm;
-  const en = s.estN >= s.estMin ? s.estN : NaN;
-  const staticF = st ? (st.fl + st.fr) / 2 : (s.est[0] + s.est[1]) / 2 / en;
-  const staticR = st ? (st.rl + st.rr) / 2 : (s.est[2] + s.est[3]) / 2 / en;
+  const staticF = st ? (st.fl + st.fr) / 2 : NaN;
+  const staticR = st ? (st.rl + st.rr) / 2 : NaN;
   const kt = s.opts.tyreRateNPerMm;
   const changeF = n > 0 ? -(a.dampFront[b] / n / 2 - staticF) / c.motionRatioFront - (Number.isFinite(loadF) ? loadF / 2 / kt : 0) : NaN;
   const changeR = n > 0 ? -(a.dampRear[b] / n / 2 - staticR) / c.motionRatioRear - (Number.isFinite(loadR) ? loadR / 2 / kt : 0) : NaN;

@@ -75,6 +75,11 @@ export interface SessionSummary {
     bump_stop_contact_front_pct: number | null;
     bump_stop_contact_rear_pct: number | null;
   };
+  /**
+   * The static damper readings (mm, as mapped) that place bump-stop contact and ride-height changes:
+   * the car file's, or estimated from slow running (`samples` of them); null when neither exists.
+   */
+  static_damper_mm: { source: "car_file" | "estimated"; fl: number; fr: number; rl: number; rr: number; samples: number } | null;
   cop: { from_front_axle_mm: number | null; cog_from_front_axle_mm: number; cop_behind_cog_mm: number | null };
   steering: {
     offset_deg: number | null;

@@ -21,6 +21,7 @@ import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { ROW_VALID, timeAndBandPass, understeerPass } from "./summary-rows";
+import { addStaticSample, CONTACT_SLOTS, contactSlot, STATIC_SUMS, staticEstimate } from "./static-estimate";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
 
@@ -32,16 +33,18 @@ export type { SummaryOptions } from "./summary-options";
 
 /**
  * The static damper reference while it is being learned from slow running (only when the car file
- * gives no static readings): Σ readings per corner, their count, and the first axle forces (the
+ * gives no static readings): the sums of static-estimate.ts, their count, and the first axle forces (the
  * reference the forces are taken from). Order matters here, so a part of a log takes it over from
  * the part before.
  */
 export interface StaticSeed {
-  est: [number, number, number, number];
+  est: number[];
   estN: number;
   refFront: number;
   refRear: number;
 }
+
+export interface StaticReference { source: "car_file" | "estimated"; fl: number; fr: number; rl: number; rr: number; samples: number }
 
 /** One part of a log analysed on its own (see split.ts): which time blocks it owns, and what it inherits. */
 export interface PartSpec {
@@ -65,7 +68,7 @@ export interface SummaryPart {
   usCells: Float64Array; usBlockCells: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
   usScalars: number[];
   sign: number[]; yawSignDot: number; yawSignN: number;
-  contactFront: number; contactRear: number; aeroWaitingStatic: number;
+  contactHist: Float64Array; aeroWaitingStatic: number;
   bandRows: Float64Array;
   seed: StaticSeed;
   traces: TraceState;
@@ -103,10 +106,13 @@ export class SummaryBuilder {
   mapped = new Set<string>();
   /** Aero samples skipped while no static estimate existed for the bump-stop model. */
   aeroWaitingStatic = 0;
-  contactFront = 0; contactRear = 0;
+  /** Bump-stop contact margins of running samples, front then rear (see static-estimate.ts). */
+  readonly contactHist = new Float64Array(2 * CONTACT_SLOTS);
   /** Static damper estimate from slow, unloaded running (used only when readings are not given). */
-  readonly est = new Float64Array(4); estN = 0; estMin = 0; estMax = 0;
+  readonly est = new Float64Array(STATIC_SUMS); estN = 0; estMin = 0; estMax = 0;
   refFront = NaN; refRear = NaN;
+  /** The static estimate per corner (scratch for staticEstimate). */
+  readonly static4 = new Float64Array(4);
   /** Damper-sign check: sums of ax (g) and axle damper sums. */
   readonly sign = { n: 0, sa: 0, saa: 0, sf: 0, saf: 0, sr: 0, sar: 0 };
   yawSignDot = 0; yawSignN = 0;
@@ -163,13 +169,26 @@ export class SummaryBuilder {
 
   /** The static reference as it stands (see StaticSeed). */
   get seed(): StaticSeed {
-    const e = this.est;
-    return { est: [e[0], e[1], e[2], e[3]], estN: this.estN, refFront: this.refFront, refRear: this.refRear };
+    return { est: Array.from(this.est), estN: this.estN, refFront: this.refFront, refRear: this.refRear };
+  }
+
+  /**
+   * The static damper readings (mm, as mapped): the car file's, else the slow-running estimate once it
+   * has enough samples, less the damper travel that running's aero load accounts for (per axle).
+   */
+  staticReference(aeroTravelMm: { front: number; rear: number } = { front: 0, rear: 0 }): StaticReference | null {
+    const st = this.model.staticDamperMm;
+    if (st) return { source: "car_file", fl: st.fl, fr: st.fr, rl: st.rl, rr: st.rr, samples: 0 };
+    if (this.estN < this.estMin) return null;
+    const s4 = new Float64Array(4);
+    staticEstimate(this.est, this.estN, s4);
+    const f = aeroTravelMm.front, r = aeroTravelMm.rear;
+    return { source: "estimated", fl: s4[0] - f, fr: s4[1] - f, rl: s4[2] - r, rr: s4[3] - r, samples: this.estN };
   }
 
   /** Takes over a static reference (the inverse of `seed`). */
   private takeSeed(seed: StaticSeed): void {
-    for (let i = 0; i < 4; i++) this.est[i] = seed.est[i];
+    this.est.set(seed.est);
     this.estN = seed.estN; this.refFront = seed.refFront; this.refRear = seed.refRear;
   }
 
@@ -213,7 +232,7 @@ export class SummaryBuilder {
       usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
       usScalars: US_SCALARS.map((k) => u[k]),
       sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
-      contactFront: this.contactFront, contactRear: this.contactRear, aeroWaitingStatic: this.aeroWaitingStatic,
+      contactHist: this.contactHist, aeroWaitingStatic: this.aeroWaitingStatic,
       bandRows: this.bandRows.slice(),
       seed: this.seed,
       traces: this.traces.state(),
@@ -239,7 +258,7 @@ export class SummaryBuilder {
       US_SCALARS.forEach((k, j) => { u[k] += p.usScalars[j]; });
       SIGN_KEYS.forEach((k, j) => { this.sign[k] += p.sign[j]; });
       this.yawSignDot += p.yawSignDot; this.yawSignN += p.yawSignN;
-      this.contactFront += p.contactFront; this.contactRear += p.contactRear; this.aeroWaitingStatic += p.aeroWaitingStatic;
+      add(this.contactHist, p.contactHist); this.aeroWaitingStatic += p.aeroWaitingStatic;
       add(this.bandRows, p.bandRows);
       this.takeSeed(p.seed);
       if (i === 0) this.traces.restore(p.traces); else this.traces.append(p.traces);
@@ -301,9 +320,10 @@ export class SummaryBuilder {
     // plain locals, no closure: captured variables would live in a heap context inside the loop).
     let sfl = 0, sfr = 0, srl = 0, srr = 0;
     if (st) { sfl = st.fl; sfr = st.fr; srl = st.rl; srr = st.rr; }
-    else if (estN > 0) { sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN; }
+    else if (estN > 0) { const s4 = this.static4; staticEstimate(est, estN, s4); sfl = s4[0]; sfr = s4[1]; srl = s4[2]; srr = s4[3]; }
     const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
-    let contactF = 0, contactR = 0, waiting = 0;
+    const hist = this.contactHist;
+    let waiting = 0;
     let sgN = sign.n, sgA = sign.sa, sgAA = sign.saa, sgF = sign.sf, sgAF = sign.saf, sgR = sign.sr, sgAR = sign.sar;
     if (this.tauBuf.length < count) { this.tauBuf = new Float64Array(count); this.bandBuf = new Int32Array(count); this.flagBuf = new Uint8Array(count); }
     const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
@@ -330,8 +350,9 @@ export class SummaryBuilder {
         // Static estimate from slow running with no load transfer (only when readings are not given).
         if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(mAY[j]) < 0.1 * G &&
           Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
-          est[0] += xfl; est[1] += xfr; est[2] += xrl; est[3] += xrr; estN++;
-          sfl = est[0] / estN; sfr = est[1] / estN; srl = est[2] / estN; srr = est[3] / estN;
+          addStaticSample(est, halfRho * v * v, xfl, xfr, xrl, xrr); estN++;
+          const s4 = this.static4;
+          staticEstimate(est, estN, s4); sfl = s4[0]; sfr = s4[1]; srl = s4[2]; srr = s4[3];
         }
         const staticKnown = st !== null || estN >= estMin;
         let cf = 0, cr = 0;
@@ -348,6 +369,12 @@ export class SummaryBuilder {
             if (refF !== refF) { refF = ff; refR = fr; }
             ff -= refF; fr -= refR;
           }
+        }
+        if (needBump && staticKnown && v >= aeroMinV && Math.abs(ax) <= aeroMaxAx) {
+          // Contact margin per axle: the more compressed wheel's travel from static, less the gap.
+          const mf = xfl - sfl > xfr - sfr ? xfl - sfl : xfr - sfr, mr = xrl - srl > xrr - srr ? xrl - srl : xrr - srr;
+          hist[contactSlot(mf - gapF)]++;
+          hist[CONTACT_SLOTS + contactSlot(mr - gapR)]++;
         }
         if (v > 30 / 3.6 && Math.abs(ax) > 0.05 * G) {
           const axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
@@ -372,8 +399,6 @@ export class SummaryBuilder {
               if (rhr === rhr) { bs[o + 9] += rhr; bs[o + 10]++; }
             }
             if (staticKnown) aero.addRideHeight((xfl + xfr - sfl - sfr) * rhPerDamp, tau, q, ff, fr);
-            if (cf > 0) contactF++;
-            if (cr > 0) contactR++;
           }
         }
       }
@@ -383,7 +408,7 @@ export class SummaryBuilder {
     cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     sign.n = sgN; sign.sa = sgA; sign.saa = sgAA; sign.sf = sgF; sign.saf = sgAF; sign.sr = sgR; sign.sar = sgAR;
-    this.contactFront += contactF; this.contactRear += contactR; this.aeroWaitingStatic += waiting;
+    this.aeroWaitingStatic += waiting;
     const part = this.part;
     if (part?.onSeed && !this.seedSent && (estN >= estMax || !collectEst) && (refF === refF || st !== null)) {
       this.seedSent = true;

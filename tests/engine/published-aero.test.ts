@@ -68,3 +68,37 @@ describe("aero load and the square of speed (common practice)", () => {
     expect(s.cop.cop_behind_cog_mm!).toBeGreaterThan(0);
   });
 });
+
+describe("static damper readings learned from slow running (common practice: aero load = ClA·½ρV²)", () => {
+  it("takes the slow running's own aero load out of the static estimate", () => {
+    // No static readings in the car file: the engine learns them from running under 60 km/h, here
+    // 10 s at 13 m/s (46.8 km/h), where q = ½·1.225·13² = 103.5 Pa already puts ClA_f·q/2 = 25.9 N
+    // on each front wheel: 25.9 / (Ks·MR = 108 N/mm) = 0.24 mm of damper travel (0.24 mm rear too).
+    const car = carFor({ static_damper_mm: undefined });
+    const tr = emptyTrace();
+    let t = 0, v = 13;
+    const row = (ax: number) => {
+      const q = dynamicPressurePa(RHO, v);
+      const lt = (car.mass_kg * ax * car.cog_height_mm) / car.wheelbase_mm;
+      tr.time.push(t); tr.speed.push(v); tr.ay.push(0); tr.ax.push(ax); tr.steer.push(0);
+      tr.loadFront.push(CLA_F * q - lt); tr.loadRear.push(CLA_R * q + lt);
+      t += 0.01;
+    };
+    for (let i = 0; i < 1000; i++) row(0);
+    for (; v < 40; v += AX / 100) row(AX);
+    for (let i = 0; i < 3000; i++) row(0);
+    const b = createSummaryBuilder(car);
+    for (const blk of toBlocks(tr, car)) b.push(blk);
+    const s = b.finish();
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
+    const ref = s.static_damper_mm!;
+    expect(ref.source).toBe("estimated");
+    // toBlocks writes the static readings 30 / 31 / 40 / 41 mm.
+    expect(ref.fl).toBeCloseTo(30, 1);
+    expect(ref.fr).toBeCloseTo(31, 1);
+    expect(ref.rl).toBeCloseTo(40, 1);
+    expect(ref.rr).toBeCloseTo(41, 1);
+    expect(Math.abs(ref.fl - 30)).toBeLessThan(0.03);
+    expect(Math.abs(ref.rl - 40)).toBeLessThan(0.03);
+  });
+});

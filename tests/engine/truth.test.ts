@@ -36,6 +36,20 @@ describe.each(LOGS.map((l) => l.file))("truth recovery: %s", (file) => {
     expect(s.cop.cop_behind_cog_mm!).toBeCloseTo(car.wheelbase_mm * (car.static_front_weight_pct - s.aero.balance_front_pct!) / 100, 0);
   });
 
+  it("static damper readings within 0.1 mm and bump-stop contact share within 0.6 points", async () => {
+    // The simulation knows each corner's static reading and the share of running (≥ 20 km/h,
+    // |ax| ≤ 0.6 g) in which either wheel of the axle is past its gap, on the physical travel seen
+    // through the ≈4 Hz low pass. Without readings in the car file the engine learns the static from
+    // slow running, which still carries aero load; the fit's ClA takes that out.
+    const { s, truth } = await analyse(file);
+    const sim = LOGS.find((l) => l.file === file)!;
+    const ref = s.static_damper_mm!;
+    expect(ref.source).toBe(sim.withStatic ? "car_file" : "estimated");
+    for (const corner of ["fl", "fr", "rl", "rr"] as const) expect(Math.abs(ref[corner] - sim.car.staticDamperMm[corner])).toBeLessThan(0.1);
+    expect(Math.abs(s.aero.bump_stop_contact_front_pct! - truth.bump_stop_contact_front_pct)).toBeLessThan(0.6);
+    expect(Math.abs(s.aero.bump_stop_contact_rear_pct! - truth.bump_stop_contact_rear_pct)).toBeLessThan(0.6);
+  });
+
   it("understeer gradient within 0.15 deg/g and band balance within 1 point where samples suffice", async () => {
     const { s, truth } = await analyse(file);
     let checked = 0;
