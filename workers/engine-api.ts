@@ -7,6 +7,8 @@ import { analyseLog } from "../app/engine/analyse";
 import type { AnalyseOptions } from "../app/engine/analyse";
 import { isEngineError } from "../app/engine/errors";
 import { inspectLog, suggestChannelMap, validateChannelMap } from "../app/engine/ingest";
+import { checkChannelSigns } from "../app/engine/sign-check";
+import type { SignCheck } from "../app/engine/sign-check";
 import { analysePart, mergeParts, planParts } from "../app/engine/split";
 import type { LogFileAccess, LogPlan, PartResult, PlanLimits } from "../app/engine/split";
 import type { SessionSummary, StaticSeed } from "../app/engine/summary";
@@ -15,6 +17,9 @@ import type { CarInput, ChannelMap, LogHeader } from "../app/engine/types";
 
 /** Bytes read from the start of a file to show its header and propose a Channel map. */
 export const HEAD_SLICE_BYTES = 1 << 18;
+
+/** Bytes read from the start of a file for the sign check (some minutes of running at 100 Hz). */
+export const SIGN_CHECK_BYTES = 4 << 20;
 
 export type EngineResult<T> = { ok: true; value: T } | { ok: false; code: string; message: string };
 
@@ -46,6 +51,12 @@ export const engineApi = {
       const header = inspectLog(head);
       return { header, suggestion: suggestChannelMap(header) };
     });
+  },
+
+  /** Proposes `invert` flips for the map as it stands, from the first minutes of the file (see sign-check.ts). */
+  async checkSigns(file: Blob, map: ChannelMap): Promise<EngineResult<SignCheck[]>> {
+    const head = new Uint8Array(await file.slice(0, SIGN_CHECK_BYTES).arrayBuffer());
+    return guarded(() => checkChannelSigns(head, validateChannelMap(map, inspectLog(head.subarray(0, HEAD_SLICE_BYTES)))));
   },
 
   /** The whole file streamed through the engine; progress in bytes read. */

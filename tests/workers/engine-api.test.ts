@@ -53,6 +53,22 @@ describe("engine worker API over comlink", () => {
     }
   });
 
+  it("checks the channels' signs on the start of the file and proposes the steering flip the map makes", async () => {
+    // The generator logs this car's steering with the opposite sign; the committed map inverts it.
+    const { api, close } = connect();
+    try {
+      const { steer, ...rest } = map;
+      const res = await api.checkSigns(new Blob([bytes]), { ...rest, steer: { column: steer.column, unit: steer.unit } });
+      expect(res.ok).toBe(true);
+      if (!res.ok) return;
+      expect(res.value.filter((c) => c.verdict === "invert").map((c) => c.channel)).toEqual(["steer"]);
+      const bad = await api.checkSigns(new Blob([bytes]), { ...map, speed: { column: "No such column", unit: "km/h" } });
+      expect(bad.ok).toBe(false);
+    } finally {
+      close();
+    }
+  });
+
   it("returns an input problem as data with its code, not as a thrown error", async () => {
     const { api, close } = connect();
     try {
