@@ -106,6 +106,8 @@ export interface SessionSummary {
   quality: { flags: string[]; aero_samples_waiting_for_static: number };
   warnings: SummaryWarning[];
   cautions: string[];
+  /** How to read the figures: what the method measures and assumes (shown beside them). */
+  notes: string[];
 }
 
 /** What `finish` learns from the ingest step (all optional for direct use on blocks). */
@@ -118,6 +120,13 @@ export interface FinishContext {
 }
 
 /** Cautions the product shows with any number that can lead to a setup change (common practice). */
+/** What the method measures and assumes (DOMAIN conventions, common practice). */
+export const METHOD_NOTES = [
+  "Aero load is what the aero puts on each axle, measured at the springs: the drag's pitching moment is included, as in maps quoted at the contact patches.",
+  "Dynamic pressure uses the logged ground speed as airspeed: wind along the straights adds error, so compare runs in both directions where you can.",
+  "Load from damper travel assumes the springs, motion ratios and bump stops in the car file: a heave spring carries load the corner springs do not, and anti-dive or anti-squat geometry takes part of the load transfer past the springs.",
+];
+
 export const CAUTIONS = [
   "These figures are estimates from logged data, not safety margins.",
   "Make aero changes one at a time, in small steps, and build speed over installation laps with agreed abort criteria.",

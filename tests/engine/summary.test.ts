@@ -52,6 +52,17 @@ describe("streaming summary", () => {
     expect(s.summary_version).toBe(1);
   });
 
+  it("carries the usual cautions and what the method assumes, for every screen that shows its figures", () => {
+    // The cautions of the trade (common practice): estimates, not margins; one change at a time;
+    // the series' regulations and qualified engineers have the last word.
+    const s = run(car, toBlocks(tr, car));
+    expect(s.cautions.join(" ")).toMatch(/not safety margins/);
+    expect(s.cautions.join(" ")).toMatch(/technical regulations/);
+    expect(s.cautions.join(" ")).toMatch(/qualified engineers/);
+    // Ground speed stands in for airspeed (no pitot channel), so wind is named as an error source.
+    expect(s.notes.join(" ")).toMatch(/ground speed.*wind/);
+  });
+
   it("does not depend on how the rows are split into blocks", () => {
     // Common practice: a streaming computation must give the same answer for any chunking.
     const a = run(car, toBlocks(tr, car, 4096));
