@@ -108,7 +108,7 @@ export class SummaryBuilder {
   aeroWaitingStatic = 0;
   /** Bump-stop contact margins of running samples, front then rear (see static-estimate.ts). */
   readonly contactHist = new Float64Array(2 * CONTACT_SLOTS);
-  /** Static damper estimate from slow, unloaded running (used only when readings are not given). */
+  /** Static damper estimate from slow running without load transfer (only when readings are not given; see static-estimate.ts). */
   readonly est = new Float64Array(STATIC_SUMS); estN = 0; estMin = 0; estMax = 0;
   refFront = NaN; refRear = NaN;
   /** The static estimate per corner (scratch for staticEstimate). */
@@ -232,7 +232,7 @@ export class SummaryBuilder {
       usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
       usScalars: US_SCALARS.map((k) => u[k]),
       sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
-      contactHist: this.contactHist, aeroWaitingStatic: this.aeroWaitingStatic,
+      contactHist: this.contactHist.slice(), aeroWaitingStatic: this.aeroWaitingStatic,
       bandRows: this.bandRows.slice(),
       seed: this.seed,
       traces: this.traces.state(),
