@@ -198,7 +198,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       curvature_source: s.mapped.has("yaw_rate") ? "yaw_rate" : "lat_accel",
     },
     bands,
-    aero_map_front_ride_height: rideHeightMap(s, fit, weightN),
+    aero_map_front_ride_height: rideHeightMap(s, fit, weightN, -aeroShift.front / c.motionRatioFront),
     traces: s.traces.output(
       { speed_kmh: 1, lat_accel_g: 3, long_accel_g: 3, steer_deg: 1, axle_load_front_n: 0, axle_load_rear_n: 0, yaw_rate_deg_s: 1 },
       (name, t, v) => {
@@ -238,8 +238,13 @@ function rideHeights(s: SummaryBuilder, st: StaticReference | null, b: number, l
   };
 }
 
-/** Bins with at least 2 s of samples; balance only where the aero load is ≥ 5 % of the weight. */
-function rideHeightMap(s: SummaryBuilder, fit: AeroFit | null, weightN: number): SessionSummary["aero_map_front_ride_height"] {
+/**
+ * Bins with at least 2 s of samples; balance only where the aero load is ≥ 5 % of the weight.
+ * `edgeShiftMm`: the samples were binned against the streaming static reference; once that is
+ * corrected (static-estimate.ts) every sample's ride-height change moves by the same amount, and so
+ * do the bin edges.
+ */
+function rideHeightMap(s: SummaryBuilder, fit: AeroFit | null, weightN: number, edgeShiftMm: number): SessionSummary["aero_map_front_ride_height"] {
   const out: SessionSummary["aero_map_front_ride_height"] = [];
   if (!fit) return out;
   const m = s.aero.rhMap;
@@ -250,8 +255,8 @@ function rideHeightMap(s: SummaryBuilder, fit: AeroFit | null, weightN: number):
     const f = bandAeroLoadN(n, m[o + 1], m[o + 3], fit.front);
     const rr = bandAeroLoadN(n, m[o + 1], m[o + 4], fit.rear);
     out.push({
-      ride_height_change_front_min_mm: RH_MAP_LO_MM + bin * RH_MAP_BIN_MM,
-      ride_height_change_front_max_mm: RH_MAP_LO_MM + (bin + 1) * RH_MAP_BIN_MM,
+      ride_height_change_front_min_mm: r(RH_MAP_LO_MM + bin * RH_MAP_BIN_MM + edgeShiftMm, 2)!,
+      ride_height_change_front_max_mm: r(RH_MAP_LO_MM + (bin + 1) * RH_MAP_BIN_MM + edgeShiftMm, 2)!,
       samples: n,
       mean_dynamic_pressure_pa: r(m[o + 2] / n, 1)!,
       aero_load_front_n: r(f, 1),

@@ -53,7 +53,7 @@ const logArb = fc.record({
   bumpStops: fc.boolean(),
 });
 
-function blocksOf(l: fc.RecordValue<{ shapes: Shape[]; seed: number; hz: number; rows: number }>): ChannelBlock[] {
+function blocksOf(l: { shapes: Shape[]; seed: number; hz: number; rows: number }): ChannelBlock[] {
   const channels: ChannelBlock["channels"] = { time: Float64Array.from({ length: l.rows }, (_, i) => i / l.hz) };
   CHANNELS.forEach(([name, scale, offset], k) => {
     const c = column(l.shapes[k], scale, offset, l.seed + k, l.rows);
