@@ -9,7 +9,8 @@ import type { ChannelMap, ChannelName } from "~/engine/types";
 // - braking pitches a car nose-down: front dampers compress, rear ones extend; downforce compresses
 //   all four (common practice);
 // - left turn positive for lateral acceleration, steering and yaw rate, as in the ISO 8855 vehicle
-//   axis system (y to the left, z up; from memory).
+//   axis system (x forward, y to the left, z up; checked against a restatement of the standard in an
+//   inertial measurement unit's manual, not against the standard itself).
 const LOGS = "sample-data/logs/";
 const load = (name: string) => ({
   head: readFileSync(`${LOGS}${name}.csv`).subarray(0, 300_000), // about a lap: a preview, cut mid-row
