@@ -16,6 +16,20 @@ export function wheelForceChangeN(deltaDamperMm: number, springRateNPerMm: numbe
   return springRateNPerMm * motionRatio * deltaDamperMm + bumpRateNPerMm * motionRatio * contact;
 }
 
+/**
+ * Bump-stop force at the damper (N) at `contactMm` past contact (≤ 0: none), read off a
+ * piecewise-linear force/deflection curve whose first row is contact (0 mm); past the last row the
+ * last segment's slope carries on. The curve holds at least two rows.
+ */
+export function bumpStopForceN(contactMm: number, deflectionMm: ArrayLike<number>, forceN: ArrayLike<number>): number {
+  if (!(contactMm > 0)) return 0;
+  const last = deflectionMm.length - 1;
+  let i = 1;
+  while (i < last && deflectionMm[i] < contactMm) i++;
+  const x0 = deflectionMm[i - 1], x1 = deflectionMm[i], f0 = forceN[i - 1];
+  return f0 + ((contactMm - x0) * (forceN[i] - f0)) / (x1 - x0);
+}
+
 /** Wheel rate Kw = Ks·MR² (N/mm at the wheel). */
 export function wheelRateNPerMm(springRateNPerMm: number, motionRatio: number): number {
   return springRateNPerMm * motionRatio * motionRatio;

@@ -17,6 +17,7 @@ import type { ResolvedOptions, SummaryOptions } from "./summary-options";
 import { TraceDecimator } from "./summary-traces";
 import type { TraceState } from "./summary-traces";
 import { PartUnsafe } from "./errors";
+import { bumpStopForceN } from "./physics";
 import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 import { copyBlock, estimateDt } from "./summary-blocks";
@@ -29,6 +30,7 @@ export type { SessionSummary, FinishContext } from "./summary-types";
 const G = STANDARD_GRAVITY_M_S2;
 // Reciprocal: the row loop multiplies instead of dividing (a division costs several multiplies).
 const INV_G = 1 / G;
+const NO_CURVE = new Float64Array(2);
 export type { SummaryOptions } from "./summary-options";
 
 /**
@@ -311,8 +313,11 @@ export class SummaryBuilder {
     if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
     const ffOut = this.ffOut, frOut = this.frOut;
     const aero = this.aero, est = this.est, sign = this.sign;
-    const kF = c.forcePerMmFront, kR = c.forcePerMmRear, kbF = c.bumpForcePerMmFront, kbR = c.bumpForcePerMmRear;
-    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront;
+    const kF = c.forcePerMmFront, kR = c.forcePerMmRear;
+    const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, mrR = c.motionRatioRear;
+    // Bump-stop curves (force at the damper against depth past contact); read only in contact.
+    const bxF = c.bumpCurveFront?.deflectionMm ?? NO_CURVE, bfF = c.bumpCurveFront?.forceN ?? NO_CURVE;
+    const bxR = c.bumpCurveRear?.deflectionMm ?? NO_CURVE, bfR = c.bumpCurveRear?.forceN ?? NO_CURVE;
     const rhPerDamp = -0.5 / mrF, halfRho = 0.5 * rho;
     const needBump = this.hasBumpStops, collectEst = !this.staticGiven, estMin = this.estMin, estMax = this.estMax;
     let estN = this.estN, refF = this.refFront, refR = this.refRear;
@@ -359,12 +364,13 @@ export class SummaryBuilder {
         if (staticKnown || !needBump) {
           if (needBump) {
             const cfl = xfl - sfl - gapF, cfr = xfr - sfr - gapF, crl = xrl - srl - gapR, crr = xrr - srr - gapR;
-            cf = (cfl > 0 ? cfl : 0) + (cfr > 0 ? cfr : 0);
-            cr = (crl > 0 ? crl : 0) + (crr > 0 ? crr : 0);
+            // Stop forces at the damper, summed per axle; the wheel sees MR times that (virtual work).
+            cf = (cfl > 0 ? bumpStopForceN(cfl, bxF, bfF) : 0) + (cfr > 0 ? bumpStopForceN(cfr, bxF, bfF) : 0);
+            cr = (crl > 0 ? bumpStopForceN(crl, bxR, bfR) : 0) + (crr > 0 ? bumpStopForceN(crr, bxR, bfR) : 0);
           }
           const lt = ltPerMs2 * ax;
-          ff = kF * (xfl + xfr - offF) + kbF * cf + lt;
-          fr = kR * (xrl + xrr - offR) + kbR * cr - lt;
+          ff = kF * (xfl + xfr - offF) + mrF * cf + lt;
+          fr = kR * (xrl + xrr - offR) + mrR * cr - lt;
           if (st === null) {
             if (refF !== refF) { refF = ff; refR = fr; }
             ff -= refF; fr -= refR;

@@ -42,7 +42,18 @@ export type ChannelMap = { [K in (typeof REQUIRED_CHANNELS)[number]]: ChannelMap
 export interface AxleSpringInput {
   spring_rate_n_per_mm: number;
   motion_ratio: number;
-  bump_stop?: { gap_mm: number; rate_n_per_mm: number };
+  bump_stop?: BumpStopInput;
+}
+
+/**
+ * A bump stop (packer): contact at `gap_mm` of damper travel from static, then a linear rate or,
+ * when `force_table` is given, that force/deflection curve measured from contact (both at the
+ * damper). With a table, `rate_n_per_mm` is its least-squares rate, kept for tools that read rates only.
+ */
+export interface BumpStopInput {
+  gap_mm: number;
+  rate_n_per_mm: number;
+  force_table?: { deflection_mm: number; force_n: number }[];
 }
 
 /** CAR.json shape: what the CLI reads and the Garage exports. */

@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { validateCar } from "~/engine/car";
+import { carModel, validateCar } from "~/engine/car";
 import { EngineError } from "~/engine/errors";
 import {
-  balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm, frontLoadTransferN, rideHeightChangeMm, wheelForceChangeN, wheelRateNPerMm,
+  balanceFrontPct, bumpStopForceN, cogFromFrontAxleMm, copFromFrontAxleMm, frontLoadTransferN, rideHeightChangeMm, wheelForceChangeN, wheelRateNPerMm,
 } from "~/engine/physics";
 import { bandIndex, bandEdgesMs, parseBandEdges } from "~/engine/bands";
 import { carFor } from "./summary-synthetic";
@@ -22,6 +22,25 @@ describe("suspension relations", () => {
     expect(wheelForceChangeN(5, 100, 0.9, 10, 400)).toBeCloseTo(100 * 0.9 * 5, 12);
     // 14 mm with a 10 mm gap and 400 N/mm stop: 90·14 + 360·4 = 1260 + 1440 N.
     expect(wheelForceChangeN(14, 100, 0.9, 10, 400)).toBeCloseTo(2700, 12);
+  });
+
+  it("a progressive stop is read off its force/deflection table, linearly between rows", () => {
+    // Piecewise-linear interpolation of a measured curve (common practice for rubber stops, which
+    // stiffen as they compress); past the last row the last segment's slope carries on.
+    const x = [0, 2, 4, 6], f = [0, 300, 900, 2000];
+    expect(bumpStopForceN(-1, x, f)).toBe(0);
+    expect(bumpStopForceN(0, x, f)).toBe(0);
+    expect(bumpStopForceN(1, x, f)).toBeCloseTo(150, 12);
+    expect(bumpStopForceN(3, x, f)).toBeCloseTo(600, 12);
+    expect(bumpStopForceN(6, x, f)).toBeCloseTo(2000, 12);
+    expect(bumpStopForceN(7, x, f)).toBeCloseTo(2000 + 1100 / 2, 12);
+    // A linear stop is the two-row curve (0, 0), (1 mm, rate): the same force as Kbs·(x − gap).
+    const linear = carModel(carFor({ front: { spring_rate_n_per_mm: 100, motion_ratio: 0.9, bump_stop: { gap_mm: 10, rate_n_per_mm: 400 } } })).bumpCurveFront!;
+    expect(bumpStopForceN(4, linear.deflectionMm, linear.forceN) * 0.9).toBeCloseTo(wheelForceChangeN(14, 100, 0.9, 10, 400) - 100 * 0.9 * 14, 9);
+    // A table that starts past contact gets contact (0 mm, 0 N) in front of it.
+    const late = carModel(carFor({ front: { spring_rate_n_per_mm: 100, motion_ratio: 0.9, bump_stop: { gap_mm: 10, rate_n_per_mm: 400, force_table: [{ deflection_mm: 1, force_n: 100 }, { deflection_mm: 3, force_n: 900 }] } } })).bumpCurveFront!;
+    expect(Array.from(late.deflectionMm)).toEqual([0, 1, 3]);
+    expect(bumpStopForceN(0.5, late.deflectionMm, late.forceN)).toBeCloseTo(50, 12);
   });
 
   it("longitudinal load transfer m·ax·h/L loads the front under braking", () => {
@@ -63,6 +82,16 @@ describe("car file validation (clear messages)", () => {
     expect(() => validateCar(noWheelbase)).toThrow(/wheelbase_mm is missing/);
     expect(() => validateCar({ ...carFor(), mass_kg: "620" })).toThrow(/mass_kg must be a number/);
     expect(() => validateCar({ ...carFor(), static_damper_mm: { fl: 1, fr: 2, rl: 3 } })).toThrow(/static_damper_mm\.rr is missing/);
+  });
+
+  it("names the row of a bump-stop table that cannot be a stop", () => {
+    const withTable = (force_table: unknown) => ({ ...carFor(), rear: { spring_rate_n_per_mm: 140, motion_ratio: 0.85, bump_stop: { gap_mm: 12, rate_n_per_mm: 300, force_table } } });
+    expect(validateCar(withTable([{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 5, force_n: 1500 }])).rear.bump_stop!.force_table).toHaveLength(2);
+    expect(() => validateCar(withTable([{ deflection_mm: 0, force_n: 0 }]))).toThrow(/rear\.bump_stop\.force_table needs at least two rows/);
+    expect(() => validateCar(withTable([{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 4, force_n: 800 }, { deflection_mm: 4, force_n: 900 }]))).toThrow(/rear\.bump_stop\.force_table\.2\.deflection_mm must be larger than the row before/);
+    expect(() => validateCar(withTable([{ deflection_mm: 0, force_n: 500 }, { deflection_mm: 4, force_n: 100 }]))).toThrow(/force_table\.1\.force_n must not fall/);
+    expect(() => validateCar(withTable([{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 4, force_n: 0 }]))).toThrow(/zero force on every row/);
+    expect(() => validateCar(withTable([{ deflection_mm: 0 }, { deflection_mm: 4, force_n: 10 }]))).toThrow(/force_table\.0\.force_n is missing/);
   });
 });
 

@@ -145,6 +145,47 @@ describe("streaming summary", () => {
     expect(s.warnings.some((w) => w.code === "bump_stop_contact")).toBe(true);
   });
 
+  it("models a progressive bump stop from its force/deflection table", () => {
+    // A rubber stop stiffening with depth (common practice), at the damper: 150 N/mm over the first
+    // 2 mm, 450 N/mm over the next 2, 900 N/mm beyond. The wheel sees MR × that force (virtual work,
+    // Barton & Fieldhouse §3.9). Dampers are written by solving Ks·MR·x + MR·F(x − gap) = F_wheel.
+    const table = [{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 2, force_n: 300 }, { deflection_mm: 4, force_n: 1200 }, { deflection_mm: 8, force_n: 4800 }];
+    const gap = 2, ks = 120, mr = 0.9;
+    const stopForce = (d: number) => {
+      if (d <= 0) return 0;
+      let i = 1;
+      while (i < table.length - 1 && table[i].deflection_mm < d) i++;
+      const a = table[i - 1], b = table[i];
+      return a.force_n + ((d - a.deflection_mm) * (b.force_n - a.force_n)) / (b.deflection_mm - a.deflection_mm);
+    };
+    const travelFor = (fWheel: number) => {
+      let lo = -50, hi = 50;
+      for (let k = 0; k < 80; k++) {
+        const x = (lo + hi) / 2;
+        if (ks * mr * x + mr * stopForce(x - gap) < fWheel) lo = x; else hi = x;
+      }
+      return (lo + hi) / 2;
+    };
+    const leastSquaresRate = table.reduce((s, r) => s + r.force_n * r.deflection_mm, 0) / table.reduce((s, r) => s + r.deflection_mm ** 2, 0);
+    const tabled = carFor({ front: { spring_rate_n_per_mm: ks, motion_ratio: mr, bump_stop: { gap_mm: gap, rate_n_per_mm: leastSquaresRate, force_table: table } } });
+    const blocks = toBlocks(tr, tabled);
+    let r0 = 0;
+    for (const b of blocks) {
+      for (const [c, st] of [["damper_fl", 30], ["damper_fr", 31]] as const) {
+        const x = b.channels[c]!;
+        for (let i = 0; i < b.rows; i++) x[i] = st + travelFor(tr.loadFront[r0 + i] / 2);
+      }
+      r0 += b.rows;
+    }
+    const s = run(tabled, blocks);
+    expect(s.aero.bump_stop_contact_front_pct!).toBeGreaterThan(10);
+    expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
+    // The same log read with only the table's least-squares rate misses the curve's shape.
+    const { force_table: _t, ...linearStop } = tabled.front.bump_stop!;
+    const linear = run({ ...tabled, front: { ...tabled.front, bump_stop: linearStop } }, blocks);
+    expect(Math.abs(linear.aero.cla_front_m2! - CLA_F)).toBeGreaterThan(10 * Math.abs(s.aero.cla_front_m2! - CLA_F));
+  });
+
   it("survives dropouts (NaN cells) without zeros leaking in", () => {
     // NaN = dropout convention (DEVELOPERS.md); a zero would read as a 30 mm extension.
     const blocks = toBlocks(tr, car);

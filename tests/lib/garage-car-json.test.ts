@@ -64,6 +64,23 @@ describe("CAR.json import → export", () => {
     expect(() => validateCar(JSON.parse(out))).not.toThrow();
   });
 
+  it("a bump-stop table travels as the table, with its least-squares rate beside it", () => {
+    // Seeded-style progressive packer (rows from contact, at the damper). Rate through zero,
+    // k = Σ(F·x) / Σx² (least squares through the origin): (5·900 + 10·2200 + 15·4000) / (25 + 100 + 225).
+    const withTable = JSON.parse(CAR_FILE);
+    const table = [{ deflection_mm: 5, force_n: 900 }, { deflection_mm: 10, force_n: 2200 }, { deflection_mm: 15, force_n: 4000 }];
+    withTable.rear.bump_stop = { gap_mm: 25, rate_n_per_mm: (5 * 900 + 10 * 2200 + 15 * 4000) / 350, force_table: table };
+    const text = carInputToText(withTable);
+    const parsed = parseCarInputText(text);
+    expect(parsed.ok).toBe(true);
+    if (!parsed.ok) return;
+    const { setup } = fromCarInput(parsed.car);
+    expect(setup.rearBumpStopKind).toBe("table");
+    expect(setup.rearBumpStopTable).toEqual([{ deflectionMm: 5, forceN: 900 }, { deflectionMm: 10, forceN: 2200 }, { deflectionMm: 15, forceN: 4000 }]);
+    expect(roundTrip(text)).toBe(text);
+    expect(validateCar(JSON.parse(text)).rear.bump_stop!.force_table).toEqual(table);
+  });
+
   it("the exported file passes the engine's own car validation (app/engine/car.ts)", () => {
     expect(validateCar(JSON.parse(roundTrip(CAR_FILE)))).toEqual(JSON.parse(CAR_FILE));
   });
@@ -95,6 +112,18 @@ describe("CAR.json import errors", () => {
     const r = parseCarInputText(JSON.stringify(bad));
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.errors[0]).toMatch(/^front\.motion_ratio: A motion ratio of 7 looks like a typing error/);
+  });
+
+  it("names what is wrong with a bump-stop table", () => {
+    const bad = JSON.parse(CAR_FILE);
+    bad.front.bump_stop.force_table = [{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 4, force_n: 800 }, { deflection_mm: 3, force_n: 900 }];
+    const r = parseCarInputText(JSON.stringify(bad));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors).toEqual(["front.bump_stop.force_table: Bump-stop table row 3: deflections must increase from row to row."]);
+    bad.front.bump_stop.force_table = [{ deflection_mm: 0, force: 0 }];
+    const r2 = parseCarInputText(JSON.stringify(bad));
+    expect(r2.ok).toBe(false);
+    if (!r2.ok) expect(r2.errors.join(" ")).toMatch(/force_table rows need a number force_n/);
   });
 
   it("says when the text is not JSON", () => {

@@ -105,6 +105,33 @@ describe("demo Garage", () => {
 });
 
 describe("the CLI reads what the Garage exports", () => {
+  it("a setup with a rig-measured bump-stop table exports the table, imports back as a table and runs through the CLI", async () => {
+    const [car] = await db.select().from(cars).where(and(eq(cars.teamId, w.team.id), eq(cars.name, "Vesper GT4-R"), isNull(cars.createdBy)));
+    const [v3] = await db.select().from(setups).where(and(eq(setups.carId, car.id), eq(setups.version, 3)));
+    expect(v3.rearBumpStopKind).toBe("table");
+    const exported = await exportText(car.id, v3.id);
+    const file = JSON.parse(exported.text);
+    expect(file.rear.bump_stop.force_table).toEqual(v3.rearBumpStopTable!.map((p) => ({ deflection_mm: p.deflectionMm, force_n: p.forceN })));
+    // Import into another team and export again: the same bytes.
+    const imported = await importFile(exported.text);
+    expect(imported.status).toBe(201);
+    const { carId, setupId } = imported.body as { carId: string; setupId: string };
+    const [stored] = await db.select().from(setups).where(eq(setups.id, setupId));
+    expect(stored.rearBumpStopKind).toBe("table");
+    expect((await exportText(carId, setupId, true)).text).toBe(exported.text);
+    const dir = mkdtempSync(path.join(os.tmpdir(), "garage-cli-"));
+    writeFileSync(path.join(dir, "CAR.json"), exported.text);
+    const cli = spawnSync(
+      "npm",
+      ["run", "--silent", "analyse", "--", "sample-data/logs/vesper-kestrel-tab.csv", "--car", path.join(dir, "CAR.json"), "--map", "sample-data/logs/vesper-kestrel-tab.map.json"],
+      { encoding: "utf8", timeout: 120_000 },
+    );
+    expect(cli.stderr).toBe("");
+    expect(cli.status).toBe(0);
+    expect(JSON.parse(cli.stdout).aero.bump_stop_contact_rear_pct).not.toBeNull();
+  });
+
+
   it("npm run analyse accepts a downloaded CAR.json with a committed demo log (exit 0, one JSON object)", async () => {
     const [car] = await db.select().from(cars).where(and(eq(cars.teamId, w.team.id), eq(cars.name, "Marlin SR2"), isNull(cars.createdBy)));
     const [v3] = await db.select().from(setups).where(and(eq(setups.carId, car.id), eq(setups.version, 3)));

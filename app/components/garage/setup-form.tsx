@@ -91,7 +91,7 @@ export function SetupForm({ draftKey, initial, initialSystem, serverErrors, form
               className={`num block w-full rounded border bg-panel px-2.5 py-1.5 ${errors[`${a}BumpStopTable`] ? "border-danger" : "border-rule"}`}
             />
             <p className={`mt-1 text-xs ${errors[`${a}BumpStopTable`] ? "text-danger" : "text-ink-faint"}`} role={errors[`${a}BumpStopTable`] ? "alert" : undefined}>
-              {errors[`${a}BumpStopTable`] ?? "One row per line: deflection then force. The car file carries its least-squares rate."}
+              {errors[`${a}BumpStopTable`] ?? "One row per line: deflection from contact, then force, both at the damper. The analysis reads the table as given."}
             </p>
           </div>
         )}

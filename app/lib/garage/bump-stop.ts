@@ -1,7 +1,8 @@
 /**
  * Bump stops / packers. A stop is a gap (damper travel from static to contact) and either a linear
  * rate at the damper or a force/deflection table measured from contact, also at the damper.
- * The engine models a linear stop, so a table is exported as its least-squares rate through zero.
+ * The car file carries a table as it is (the engine interpolates it) and, for tools that read one rate,
+ * its least-squares rate through zero.
  */
 import { NOT_A_NUMBER, fromStored, parseTypedNumber, toStored, type UnitSystem } from "./units";
 

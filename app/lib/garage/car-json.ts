@@ -6,7 +6,7 @@
 import { z } from "zod";
 import type { CarInput } from "~/engine/types";
 import { CAR_FIELDS, SETUP_FIELDS, rangeProblem, type NumberFieldSpec } from "./fields";
-import { linearRateFromTable, type BumpStopPoint } from "./bump-stop";
+import { bumpStopTableProblem, linearRateFromTable, type BumpStopPoint } from "./bump-stop";
 import type { BumpStopKind } from "./schemas";
 
 /** The stored car fields export needs. */
@@ -43,7 +43,13 @@ function axleOut(setup: SetupForExport, axle: AxlePrefix): CarInput["front"] {
   if (kind === "linear" && gap !== null && setup[`${axle}BumpStopRateNPerMm`] !== null) {
     out.bump_stop = { gap_mm: gap, rate_n_per_mm: setup[`${axle}BumpStopRateNPerMm`]! };
   } else if (kind === "table" && gap !== null && setup[`${axle}BumpStopTable`]) {
-    out.bump_stop = { gap_mm: gap, rate_n_per_mm: linearRateFromTable(setup[`${axle}BumpStopTable`]!) };
+    const table = setup[`${axle}BumpStopTable`]!;
+    // The table itself for the engine; its least-squares rate for tools that read rates only.
+    out.bump_stop = {
+      gap_mm: gap,
+      rate_n_per_mm: linearRateFromTable(table),
+      force_table: table.map((p) => ({ deflection_mm: p.deflectionMm, force_n: p.forceN })),
+    };
   }
   return out;
 }
@@ -89,8 +95,24 @@ function axleSchema(axle: AxlePrefix) {
           {
             gap_mm: num(f[`${axle}BumpStopGapMm`], `${axle}.bump_stop.gap_mm`),
             rate_n_per_mm: num(f[`${axle}BumpStopRateNPerMm`], `${axle}.bump_stop.rate_n_per_mm`),
+            force_table: z
+              .array(
+                z.strictObject(
+                  {
+                    deflection_mm: z.number({ error: `${axle}.bump_stop.force_table rows need a number deflection_mm.` }),
+                    force_n: z.number({ error: `${axle}.bump_stop.force_table rows need a number force_n.` }),
+                  },
+                  { error: `${axle}.bump_stop.force_table rows must be objects {"deflection_mm", "force_n"}.` },
+                ),
+                { error: `${axle}.bump_stop.force_table must be a list of {"deflection_mm", "force_n"} rows.` },
+              )
+              .superRefine((rows, ctx) => {
+                const problem = bumpStopTableProblem(rows.map((r) => ({ deflectionMm: r.deflection_mm, forceN: r.force_n })));
+                if (problem) ctx.addIssue({ code: "custom", message: `${axle}.bump_stop.force_table: ${problem}` });
+              })
+              .optional(),
           },
-          { error: `${axle}.bump_stop must be an object {"gap_mm", "rate_n_per_mm"}.` },
+          { error: `${axle}.bump_stop must be an object {"gap_mm", "rate_n_per_mm", "force_table"?}.` },
         )
         .optional(),
     },
@@ -146,15 +168,20 @@ export function parseCarInputText(text: string): ImportResult {
   return { ok: false, errors };
 }
 
-/** Stored car and setup values from a car file (the setup is linear bump stops only). */
+/** Stored car and setup values from a car file (a stop with a force_table becomes a table stop). */
 export function fromCarInput(input: CarInput): { car: CarForExport; setup: SetupForExport } {
-  const axle = (a: CarInput["front"]) => ({
-    spring: a.spring_rate_n_per_mm,
-    mr: a.motion_ratio,
-    kind: (a.bump_stop ? "linear" : "none") as BumpStopKind,
-    gap: a.bump_stop?.gap_mm ?? null,
-    rate: a.bump_stop?.rate_n_per_mm ?? null,
-  });
+  const axle = (a: CarInput["front"]) => {
+    const table = a.bump_stop?.force_table;
+    return {
+      spring: a.spring_rate_n_per_mm,
+      mr: a.motion_ratio,
+      kind: (!a.bump_stop ? "none" : table ? "table" : "linear") as BumpStopKind,
+      gap: a.bump_stop?.gap_mm ?? null,
+      // A table stop stores the table; its rate is derived from it again at export.
+      rate: a.bump_stop && !table ? a.bump_stop.rate_n_per_mm : null,
+      table: table ? table.map((r): BumpStopPoint => ({ deflectionMm: r.deflection_mm, forceN: r.force_n })) : null,
+    };
+  };
   const f = axle(input.front);
   const r = axle(input.rear);
   const d = input.static_damper_mm;
@@ -173,13 +200,13 @@ export function fromCarInput(input: CarInput): { car: CarForExport; setup: Setup
       frontBumpStopKind: f.kind,
       frontBumpStopGapMm: f.gap,
       frontBumpStopRateNPerMm: f.rate,
-      frontBumpStopTable: null,
+      frontBumpStopTable: f.table,
       rearSpringRateNPerMm: r.spring,
       rearMotionRatio: r.mr,
       rearBumpStopKind: r.kind,
       rearBumpStopGapMm: r.gap,
       rearBumpStopRateNPerMm: r.rate,
-      rearBumpStopTable: null,
+      rearBumpStopTable: r.table,
       staticDamperFlMm: d?.fl ?? null,
       staticDamperFrMm: d?.fr ?? null,
       staticDamperRlMm: d?.rl ?? null,

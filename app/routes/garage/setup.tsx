@@ -84,9 +84,10 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
       <Panel title="Setup">
         <SetupSheet setup={setup} units={units} />
         {(setup.frontBumpStopKind === "table" || setup.rearBumpStopKind === "table") && (
-          <p className="mt-2 text-xs text-caution">
-            The analysis models a linear bump stop: the CAR.json carries the table's least-squares rate through zero
-            (shown as "fit"), which understates a progressive stop deep in its travel.
+          <p className="mt-2 text-xs text-ink-soft">
+            The analysis reads the bump-stop table row by row, straight lines between rows and the last row's slope
+            beyond it. The CAR.json carries the table and, for tools that read a single rate, its least-squares rate
+            through zero (shown as "fit").
           </p>
         )}
       </Panel>
