@@ -15,6 +15,8 @@ const MIN_US_BLOCKS = 5;
 const FEW_US_BLOCKS = 15;
 const DRIFT_MIN_DURATION_S = 120;
 const LARGE_OFFSET_DEG = 3;
+/** Samples (speed changing by ≥ 0.05 g above 30 km/h) before the sign checks against dv/dt speak. */
+const MIN_SIGN_SAMPLES = 200;
 const CONTACT_WARN_PCT = 2;
 
 export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSummary {
@@ -28,9 +30,19 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   // Aero fit: through the origin when static readings are given, else with an intercept.
   const withIntercept = !s.staticGiven;
   const withDrift = duration >= DRIFT_MIN_DURATION_S && s.aero.blocks.n >= FEW_AERO_BLOCKS;
+  // Sign checks against the rate of change of speed d (see SummaryBuilder.sign): a long_accel logged
+  // the other way would turn the load-transfer correction round, so no aero figures are given then.
+  const sign = s.sign;
+  const cov = (sx: number, sy: number, sxy: number) => sxy / sign.n - (sx / sign.n) * (sy / sign.n);
+  const varD = cov(sign.sd, sign.sd, sign.sdd);
+  const axR = sign.n >= MIN_SIGN_SAMPLES ? cov(sign.sa, sign.sd, sign.sad) / Math.sqrt(varD * cov(sign.sa, sign.sa, sign.saa)) : NaN;
+  const axInverted = axR < -0.5;
+  if (axInverted) warn("suspected_sign_error", `long_accel reads opposite to the change of speed (correlation ${axR.toFixed(2)}): invert it in the channel map (braking negative). ClA and balance are not estimated until then: the load-transfer correction would go the wrong way`);
   let fit: AeroFit | null = null;
   let alt: AeroFit | null = null;
-  if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
+  if (axInverted) {
+    // No fit: the warning above says why.
+  } else if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
     fit = fitAero(s.aero, withIntercept, withDrift);
     alt = fitAero(s.aero, !withIntercept, withDrift);
     if (!fit) warn("aero_fit_failed", "the aero fit could not be solved: the usable samples do not span enough speeds");
@@ -77,12 +89,9 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       }
     }
   }
-  const sign = s.sign;
-  if (sign.n > 50) {
-    const cov = (sx: number, sxy: number) => sxy / sign.n - (sign.sa / sign.n) * (sx / sign.n);
-    const varA = sign.saa / sign.n - (sign.sa / sign.n) ** 2;
-    const slopeF = cov(sign.sf, sign.saf) / varA, slopeR = cov(sign.sr, sign.sar) / varA;
-    // Braking (ax < 0) compresses the front: front travel falls with ax, rear travel rises with ax.
+  if (sign.n >= MIN_SIGN_SAMPLES) {
+    const slopeF = cov(sign.sd, sign.sf, sign.sdf) / varD, slopeR = cov(sign.sd, sign.sr, sign.sdr) / varD;
+    // Braking (dv/dt < 0) compresses the front: front travel falls with dv/dt, rear travel rises with it.
     if (slopeF > 0.5) warn("suspected_sign_error", "the front dampers extend under braking and compress under acceleration: check the front damper channels' invert flag");
     if (slopeR < -0.5) warn("suspected_sign_error", "the rear dampers compress under braking: check the rear damper channels' invert flag");
   }

@@ -78,7 +78,7 @@ export interface SummaryPart {
 
 const SUM_KEYS = ["n", "st", "sq", "stt", "stq", "sqq", "sf", "stf", "sqf", "sff", "sr", "str", "sqr", "srr"] as const;
 const US_SCALARS = ["offsetN", "offsetSum", "offsetSumSq", "offsetBlocks", "offsetBlockSum", "offsetBlockSumSq", "signDot", "signNorm"] as const;
-const SIGN_KEYS = ["n", "sa", "saa", "sf", "saf", "sr", "sar"] as const;
+const SIGN_KEYS = ["n", "sd", "sdd", "sa", "saa", "sad", "sf", "sdf", "sr", "sdr"] as const;
 
 /**
  * Smoother slots. Speed and long acceleration are smoothed like the dampers (so q and the
@@ -115,8 +115,12 @@ export class SummaryBuilder {
   refFront = NaN; refRear = NaN;
   /** The static estimate per corner (scratch for staticEstimate). */
   readonly static4 = new Float64Array(4);
-  /** Damper-sign check: sums of ax (g) and axle damper sums. */
-  readonly sign = { n: 0, sa: 0, saa: 0, sf: 0, saf: 0, sr: 0, sar: 0 };
+  /**
+   * Sign checks against the rate of change of speed d = dv/dt (g), which no channel's sign can spoil:
+   * sums of d, the logged ax (g) and the axle damper sums, for long_accel against d and each axle's
+   * pitch under braking.
+   */
+  readonly sign = { n: 0, sd: 0, sdd: 0, sa: 0, saa: 0, sad: 0, sf: 0, sdf: 0, sr: 0, sdr: 0 };
   yawSignDot = 0; yawSignN = 0;
   /** Time-block ownership (see TimeState): the whole log unless this builder runs one part of it. */
   ownFrom = -Infinity; ownTo = Infinity; owned = true; passedEnd = false;
@@ -277,7 +281,7 @@ export class SummaryBuilder {
     const h1 = Math.max(1, Math.round(this.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(this.opts.gateSmoothingS / dt / 2));
     const halves = SLOT_CHANNELS.map((c, i) => (i === T ? 0 : i >= DFL && i <= RHR ? h1 : i === V || i === AX ? h1 : h2));
-    this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === AY || i === STEER || (i >= DFL && i <= DRR)));
+    this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === V || i === AY || i === STEER || (i >= DFL && i <= DRR)));
     const perBlock = this.opts.blockS / dt;
     this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
     this.blockMinUs = Math.max(2, Math.round(0.1 * perBlock));
@@ -329,7 +333,8 @@ export class SummaryBuilder {
     const offF = st ? st.fl + st.fr : 0, offR = st ? st.rl + st.rr : 0;
     const hist = this.contactHist;
     let waiting = 0;
-    let sgN = sign.n, sgA = sign.sa, sgAA = sign.saa, sgF = sign.sf, sgAF = sign.saf, sgR = sign.sr, sgAR = sign.sar;
+    let sgN = sign.n, sgD = sign.sd, sgDD = sign.sdd, sgA = sign.sa, sgAA = sign.saa, sgAD = sign.sad, sgF = sign.sf, sgDF = sign.sdf, sgR = sign.sr, sgDR = sign.sdr;
+    const sV = sl[V];
     if (this.tauBuf.length < count) { this.tauBuf = new Float64Array(count); this.bandBuf = new Int32Array(count); this.flagBuf = new Uint8Array(count); }
     const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
     timeAndBandPass(count, cT, mV, this.opts.blockS, this.edgesMs, this.bandRows, this, tauBuf, bandBuf, flagBuf);
@@ -382,9 +387,11 @@ export class SummaryBuilder {
           hist[contactSlot(mf - gapF)]++;
           hist[CONTACT_SLOTS + contactSlot(mr - gapR)]++;
         }
-        if (v > 30 / 3.6 && Math.abs(ax) > 0.05 * G) {
-          const axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
-          sgN++; sgA += axG; sgAA += axG * axG; sgF += sf; sgAF += axG * sf; sgR += sr; sgAR += axG * sr;
+        const dv = sV[j];
+        if (v > 30 / 3.6 && Math.abs(dv) > 0.05 * G && ax === ax) {
+          const d = dv * INV_G, axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
+          sgN++; sgD += d; sgDD += d * d; sgA += axG; sgAA += axG * axG; sgAD += axG * d;
+          sgF += sf; sgDF += d * sf; sgR += sr; sgDR += d * sr;
         }
         // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
         // One branch for all gates (bitwise &): noisy data makes each separate test hard to predict.
@@ -413,7 +420,8 @@ export class SummaryBuilder {
     }
     cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
-    sign.n = sgN; sign.sa = sgA; sign.saa = sgAA; sign.sf = sgF; sign.saf = sgAF; sign.sr = sgR; sign.sar = sgAR;
+    sign.n = sgN; sign.sd = sgD; sign.sdd = sgDD; sign.sa = sgA; sign.saa = sgAA; sign.sad = sgAD;
+    sign.sf = sgF; sign.sdf = sgDF; sign.sr = sgR; sign.sdr = sgDR;
     this.aeroWaitingStatic += waiting;
     const part = this.part;
     if (part?.onSeed && !this.seedSent && (estN >= estMax || !collectEst) && (refF === refF || st !== null)) {

@@ -15,11 +15,12 @@ import type { SimTruth } from "../../sample-data/sim";
 const ROOT = join(__dirname, "..", "..");
 const LOG_DIR = join(ROOT, "sample-data", "logs");
 
-async function analyse(file: string): Promise<{ s: SessionSummary; truth: SimTruth & { car_file: string } }> {
+async function analyse(file: string, editMap?: (map: Record<string, { invert?: boolean }>) => void): Promise<{ s: SessionSummary; truth: SimTruth & { car_file: string } }> {
   const base = file.replace(/\.csv$/, "");
   const truth = JSON.parse(readFileSync(join(LOG_DIR, `${base}.truth.json`), "utf8"));
   const car = JSON.parse(readFileSync(join(LOG_DIR, truth.car_file), "utf8"));
   const map = JSON.parse(readFileSync(join(LOG_DIR, `${base}.map.json`), "utf8"));
+  editMap?.(map);
   const s = await analyseLog(createReadStream(join(LOG_DIR, file), { highWaterMark: 1 << 16 }), car, map);
   return { s, truth };
 }
@@ -83,6 +84,27 @@ describe("truth recovery: warnings the scenario should raise", () => {
     const bins = s.aero_map_front_ride_height.filter((b) => b.balance_front_pct !== null);
     expect(bins.length).toBeGreaterThanOrEqual(3);
     expect(bins[0].balance_front_pct!).toBeGreaterThan(bins[bins.length - 1].balance_front_pct!);
+  });
+
+  it("a long_accel mapped with the wrong sign is named, and no aero figure is given on it", async () => {
+    // The tab export logs long_accel the other way (its map inverts it). Undone, braking reads
+    // positive: the check against dv/dt of the speed (kinematics) names long_accel, gives no ClA
+    // (the load-transfer correction would go the wrong way) and does not blame the dampers.
+    const { s } = await analyse("vesper-kestrel-tab.csv", (m) => { delete m.long_accel.invert; });
+    const signs = s.warnings.filter((w) => w.code === "suspected_sign_error").map((w) => w.message);
+    expect(signs).toHaveLength(1);
+    expect(signs[0]).toMatch(/^long_accel reads opposite to the change of speed/);
+    expect(s.aero.cla_front_m2).toBeNull();
+    expect(s.aero.balance_front_pct).toBeNull();
+    expect(s.cop.cop_behind_cog_mm).toBeNull();
+  });
+
+  it("rear dampers mapped with the wrong sign are named by axle, against the change of speed", async () => {
+    // Braking pitches the car nose-down (common practice): the rear extends as the speed falls.
+    const { s } = await analyse("vesper-kestrel-tab.csv", (m) => { delete m.damper_rl.invert; delete m.damper_rr.invert; });
+    const signs = s.warnings.filter((w) => w.code === "suspected_sign_error").map((w) => w.message);
+    expect(signs.some((m) => m.startsWith("the rear dampers compress under braking"))).toBe(true);
+    expect(signs.some((m) => m.includes("front dampers") || m.startsWith("long_accel"))).toBe(false);
   });
 
   it("the hill-climb run is short and says so", async () => {
