@@ -102,8 +102,14 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (offset.source === "corners") warn("steering_offset_from_corners", "too few straight-line samples for the steering offset; it was estimated from corners of both directions instead");
   if (offset.source === "none") warn("steering_offset_unknown", "the steering offset could not be estimated (no straights and corners of one direction only): understeer gradients are not given");
   if (offset.offset_deg !== null && Math.abs(offset.offset_deg) > LARGE_OFFSET_DEG) warn("large_steering_offset", `the steering wheel reads ${offset.offset_deg.toFixed(1)}° on the straights: check the steering sensor's zero (it is removed from the understeer figures)`);
-  if (s.us.signNorm > 0 && s.us.signDot < 0) warn("suspected_sign_error", "steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)");
-  if (s.yawSignN > 50 && s.yawSignDot < 0) warn("suspected_sign_error", "yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map");
+  // A sign mismatch between steering, lateral acceleration and yaw rate turns the understeer angle
+  // into nonsense (the path curvature comes out with the wrong sign): no gradient is given then.
+  const steerLatWrong = s.us.signNorm > 0 && s.us.signDot < 0;
+  const yawLatWrong = s.yawSignN > 50 && s.yawSignDot < 0;
+  const usUntil = "; understeer gradients are not given until then";
+  if (steerLatWrong) warn("suspected_sign_error", `steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)${usUntil}`);
+  if (yawLatWrong) warn("suspected_sign_error", `yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map${usUntil}`);
+  const lateralSignWrong = steerLatWrong || yawLatWrong;
 
   const emptyBands = s.opts.bandEdgesKmh.slice(0, -1).map((lo, b) => [lo, s.opts.bandEdgesKmh[b + 1], s.bandRows[b]] as const).filter((x) => x[2] === 0);
   if (emptyBands.length) warn("empty_band", `no samples in ${emptyBands.map(([lo, hi]) => `${lo}–${hi}`).join(", ")} km/h: those bands have no figures`);
@@ -129,13 +135,13 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);
     }
     const offRoad = offset.offset_deg === null ? NaN : offset.offset_deg / c.steeringRatio;
-    const us = offset.offset_deg === null ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
+    const us = offset.offset_deg === null || lateralSignWrong ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
     let k = NaN;
     if (us && us.blocks >= MIN_US_BLOCKS) {
       k = us.k_deg_per_g;
       if (us.blocks < FEW_US_BLOCKS) warn("few_understeer_samples", `${label}: the understeer gradient rests on ${us.blocks} s of steady cornering: treat it as rough`);
       if (Math.min(us.left_samples, us.right_samples) < 0.1 * (us.left_samples + us.right_samples)) warn("one_turn_direction", `${label}: steady corners are nearly all one direction, so a steering-offset error goes straight into the understeer gradient`);
-    } else if (s.bandRows[b] > 0 && offset.offset_deg !== null) {
+    } else if (s.bandRows[b] > 0 && offset.offset_deg !== null && !lateralSignWrong) {
       warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
     }
     const rh = rideHeights(s, staticRef, b, loadF, loadR);

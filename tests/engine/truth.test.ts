@@ -107,6 +107,16 @@ describe("truth recovery: warnings the scenario should raise", () => {
     expect(signs.some((m) => m.includes("front dampers") || m.startsWith("long_accel"))).toBe(false);
   });
 
+  it("steering mapped against lateral acceleration is named, and no understeer gradient is given on it", async () => {
+    // The semicolon export logs the steering the other way (its map inverts it). Undone, steering
+    // and lateral acceleration disagree in sign in corners (left turn positive for both, ISO 8855):
+    // the path curvature would take the wrong sign, so every band's gradient is null with the reason.
+    const { s } = await analyse("marlin-kestrel-semicolon.csv", (m) => { delete m.steer.invert; });
+    expect(s.warnings.some((w) => w.code === "suspected_sign_error" && /^steering and lateral acceleration have opposite signs.*not given until then/.test(w.message))).toBe(true);
+    expect(s.bands.every((b) => b.understeer_gradient_deg_per_g === null)).toBe(true);
+    expect(s.warnings.some((w) => w.code === "few_understeer_samples")).toBe(false);
+  });
+
   it("the hill-climb run is short and says so", async () => {
     const { s } = await analyse("vesper-coldwater-comma.csv");
     expect(s.warnings.map((w) => w.code)).toContain("few_aero_samples");
