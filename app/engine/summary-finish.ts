@@ -49,6 +49,15 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   } else {
     warn("few_aero_samples", `only ${s.aero.blocks.n} s of usable running for the aero fit (at least ${MIN_AERO_BLOCKS} s above ${s.opts.gates.aero_min_speed_kmh} km/h with |ax| ≤ ${s.opts.gates.aero_max_long_g} g are needed), so ClA and balance are not estimated`);
   }
+  // Braking (dv/dt < 0) compresses the front: front travel falls with dv/dt, rear travel rises with it.
+  const enoughSign = sign.n >= MIN_SIGN_SAMPLES;
+  const pitchF = enoughSign ? cov(sign.sd, sign.sf, sign.sdf) / varD : NaN, pitchR = enoughSign ? cov(sign.sd, sign.sr, sign.sdr) / varD : NaN;
+  // A wrong pitch with a negative ClA on the same axle is an inverted channel, not lift: no aero figures then.
+  const invertedF = pitchF > 0.5 && fit !== null && fit.front.cla_m2 < 0, invertedR = pitchR < -0.5 && fit !== null && fit.rear.cla_m2 < 0;
+  const aeroUntil = invertedF || invertedR ? "; ClA and balance are not estimated until then" : "";
+  if (pitchF > 0.5) warn("suspected_sign_error", `the front dampers extend under braking and compress under acceleration: check the front damper channels' invert flag${aeroUntil}`);
+  if (pitchR < -0.5) warn("suspected_sign_error", `the rear dampers compress under braking: check the rear damper channels' invert flag${aeroUntil}`);
+  if (invertedF || invertedR) fit = alt = null;
   if (fit && s.aero.blocks.n < FEW_AERO_BLOCKS) warn("few_aero_samples", `the aero fit rests on only ${s.aero.blocks.n} s of running: treat ClA and balance as rough`);
   if (s.aeroWaitingStatic > 0) warn("static_estimated", `${s.aeroWaitingStatic} samples waited for a static damper estimate before the bump-stop model could place contact; give static_damper_mm in the car file to use them`);
   if (!s.staticGiven) flags.push("static_from_fit_intercept");
@@ -88,12 +97,6 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
         warn("static_load_drift", `the ${side} static load changed by ${change.toFixed(0)} N over the stint (fuel burn, or damper pot drift); it is modelled as a linear trend in the fit`);
       }
     }
-  }
-  if (sign.n >= MIN_SIGN_SAMPLES) {
-    const slopeF = cov(sign.sd, sign.sf, sign.sdf) / varD, slopeR = cov(sign.sd, sign.sr, sign.sdr) / varD;
-    // Braking (dv/dt < 0) compresses the front: front travel falls with dv/dt, rear travel rises with it.
-    if (slopeF > 0.5) warn("suspected_sign_error", "the front dampers extend under braking and compress under acceleration: check the front damper channels' invert flag");
-    if (slopeR < -0.5) warn("suspected_sign_error", "the rear dampers compress under braking: check the rear damper channels' invert flag");
   }
 
   // Steering offset and understeer per band.

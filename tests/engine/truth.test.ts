@@ -99,12 +99,15 @@ describe("truth recovery: warnings the scenario should raise", () => {
     expect(s.cop.cop_behind_cog_mm).toBeNull();
   });
 
-  it("rear dampers mapped with the wrong sign are named by axle, against the change of speed", async () => {
+  it("rear dampers mapped with the wrong sign are named by axle, against the change of speed, and no ClA is given on them", async () => {
     // Braking pitches the car nose-down (common practice): the rear extends as the speed falls.
     const { s } = await analyse("vesper-kestrel-tab.csv", (m) => { delete m.damper_rl.invert; delete m.damper_rr.invert; });
     const signs = s.warnings.filter((w) => w.code === "suspected_sign_error").map((w) => w.message);
-    expect(signs.some((m) => m.startsWith("the rear dampers compress under braking"))).toBe(true);
+    expect(signs.some((m) => /^the rear dampers compress under braking.*ClA and balance are not estimated until then/.test(m))).toBe(true);
     expect(signs.some((m) => m.includes("front dampers") || m.startsWith("long_accel"))).toBe(false);
+    // The wrong pitch and a negative rear ClA together point at the channels, not at real lift.
+    expect(s.aero.cla_rear_m2).toBeNull();
+    expect(s.aero.balance_front_pct).toBeNull();
   });
 
   it("steering mapped against lateral acceleration is named, and no understeer gradient is given on it", async () => {
