@@ -4,12 +4,11 @@
  * runs one part and posts the result back.
  */
 import { availableParallelism } from "node:os";
-import { createHash } from "node:crypto";
-import { createReadStream, existsSync, mkdirSync, openSync, readdirSync, readFileSync, readSync, closeSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { createReadStream, openSync, readSync, closeSync, statSync } from "node:fs";
 import { fileURLToPath, pathToFileURL } from "node:url";
-import { createRequire } from "node:module";
 import { isMainThread, parentPort, Worker, workerData } from "node:worker_threads";
 import { analyseLogSplit, analysePart } from "../../app/engine/split";
+import { cachedBundle } from "./bundle-cache.mjs";
 import type { LogFileAccess, LogPlan, PartResult, PartRunner, PlanLimits, SplitReport } from "../../app/engine/split";
 import type { SessionSummary, StaticSeed } from "../../app/engine/summary";
 import type { SummaryOptions } from "../../app/engine/summary-options";
@@ -54,35 +53,19 @@ export function fileAccess(path: string): LogFileAccess & { close(): void } {
   };
 }
 
-const ROOT = fileURLToPath(new URL("../../", import.meta.url));
+// The checkout's root: set at build time inside a bundle (see bundle-cache.mjs), else from this file's place.
+declare const __RAKELINE_ROOT__: string | undefined;
+const ROOT = typeof __RAKELINE_ROOT__ === "string" ? __RAKELINE_ROOT__ : fileURLToPath(new URL("../../", import.meta.url));
+const SOURCE = `${ROOT}scripts/lib/part-threads.ts`;
 
 /**
  * The worker's entry: this file and the engine bundled into one plain-JS module (a worker then
- * starts in ~0.1 s instead of ~0.7 s through tsx's loader), cached under node_modules/.cache by a
- * hash of the sources and the lockfile (the bundle holds zod too). Falls back to loading the TypeScript through tsx if the bundler fails.
+ * starts in ~0.1 s instead of ~0.7 s through tsx's loader; see bundle-cache.mjs). Falls back to
+ * loading the TypeScript through tsx if the bundler fails.
  */
 function workerEntry(): URL {
-  const sources = [fileURLToPath(import.meta.url), `${ROOT}package-lock.json`, ...readdirSync(`${ROOT}app/engine`).filter((f) => f.endsWith(".ts")).map((f) => `${ROOT}app/engine/${f}`)];
-  const hash = createHash("sha256");
-  for (const f of sources.sort()) hash.update(f).update(readFileSync(f));
-  const dir = `${ROOT}node_modules/.cache/rakeline`;
-  const out = `${dir}/part-thread-${hash.digest("hex").slice(0, 16)}.mjs`;
-  if (!existsSync(out)) {
-    try {
-      // Loaded on demand: the bundler is a dev dependency, needed only here.
-      const { buildSync } = createRequire(import.meta.url)("esbuild") as typeof import("esbuild");
-      const built = buildSync({ entryPoints: [fileURLToPath(import.meta.url)], bundle: true, platform: "node", format: "esm", write: false, logLevel: "silent" });
-      mkdirSync(dir, { recursive: true });
-      const tmp = `${out}.${process.pid}.tmp`;
-      writeFileSync(tmp, built.outputFiles[0].contents);
-      renameSync(tmp, out);
-      // Bundles of earlier sources are not needed again.
-      for (const f of readdirSync(dir)) if (/^part-thread-[0-9a-f]{16}\.mjs$/.test(f) && `${dir}/${f}` !== out) rmSync(`${dir}/${f}`, { force: true });
-    } catch {
-      return new URL("./ts-worker-boot.mjs", import.meta.url);
-    }
-  }
-  return pathToFileURL(out);
+  const bundle = cachedBundle(ROOT, "part-thread", SOURCE, ["app/engine", "scripts/lib"]);
+  return bundle ? pathToFileURL(bundle) : pathToFileURL(`${ROOT}scripts/lib/ts-worker-boot.mjs`);
 }
 
 /** Threads worth using here: one per core, at most 4 (each adds ~60 MB resident; the CLI stays under 400 MB). */
@@ -101,7 +84,7 @@ export class PartThreads {
 
   constructor(count: number) {
     const entry = workerEntry();
-    this.workers = Array.from({ length: count }, () => new Worker(entry, { workerData: { partThread: true, entry: import.meta.url } }));
+    this.workers = Array.from({ length: count }, () => new Worker(entry, { workerData: { partThread: true, entry: pathToFileURL(SOURCE).href } }));
     this.ready = this.workers.map((w) => new Promise<void>((resolve, reject) => {
       w.once("message", () => resolve());
       w.once("error", reject);

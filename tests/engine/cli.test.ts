@@ -41,6 +41,18 @@ describe("analyse CLI: good input", () => {
     expect(r.stdout.trim().split("\n")).toHaveLength(1);
     expect(/NaN|Infinity/.test(r.stdout)).toBe(false);
   });
+
+  it("answers the same through its cached bundle and straight from the TypeScript", () => {
+    // `npm run analyse` starts a cached plain-JS bundle (scripts/analyse.mjs); without a bundler it
+    // loads scripts/analyse.ts through tsx. Both must print the same bytes and exit codes.
+    const direct = (args: string[]) => spawnSync(process.execPath, ["--import", "tsx", "scripts/analyse.ts", ...args], { cwd: ROOT, encoding: "utf8" });
+    for (const args of [[LOG, "--car", CAR, "--map", MAP], [LOG, "--car", CAR, "--map", "no-such-map.json"]]) {
+      const viaBundle = cli(args), viaTs = direct(args);
+      expect(viaBundle.status).toBe(viaTs.status);
+      expect(viaBundle.stdout).toBe(viaTs.stdout);
+      expect(viaBundle.stderr).toBe(viaTs.stderr);
+    }
+  });
 });
 
 describe("analyse CLI: bad input exits 2 with one error line", () => {
