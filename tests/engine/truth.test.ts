@@ -68,6 +68,32 @@ describe.each(LOGS.map((l) => l.file))("truth recovery: %s", (file) => {
   });
 });
 
+describe("truth recovery at other logging rates", () => {
+  // Loggers write anything from 10 Hz (a club data box) to 200 Hz and more: the smoothing windows
+  // and block lengths are set in seconds, so the same tolerances hold (engine issue: ClA within 5 %,
+  // balance within 1 point, understeer gradient within 0.15 deg/g). Written in memory, not committed.
+  it.each([10, 200])("%i Hz", async (rateHz) => {
+    const spec = { ...LOGS[0], rateHz, dropouts: undefined };
+    const { columns, truth } = simulate(spec);
+    const bytes = new TextEncoder().encode([...writeExport(exportColumns(spec, columns), spec.metadata, spec.dialect)].join(""));
+    const car = JSON.parse(readFileSync(join(ROOT, "sample-data", "cars", spec.carFile), "utf8"));
+    const s = await analyseLog((async function* () { yield bytes; })(), car, mapFor(spec));
+    expect(s.sample_rate_hz).toBeCloseTo(rateHz, 6);
+    expect(Math.abs(s.aero.cla_front_m2! / truth.cla_front_m2 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.cla_rear_m2! / truth.cla_rear_m2_fit - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.balance_front_pct! - truth.balance_front_pct)).toBeLessThan(1);
+    let checked = 0;
+    s.bands.forEach((band, i) => {
+      const t = truth.bands[i].understeer_gradient_deg_per_g;
+      if (band.understeer_gradient_deg_per_g !== null && band.understeer_blocks >= 15 && t !== null) {
+        expect(Math.abs(band.understeer_gradient_deg_per_g - t)).toBeLessThan(0.15);
+        checked++;
+      }
+    });
+    expect(checked).toBeGreaterThanOrEqual(3);
+  });
+});
+
 describe("truth recovery: warnings the scenario should raise", () => {
   it("the Vesper's −4.2° steering offset is flagged as large, its fuel burn as drift", async () => {
     // Scenario facts: offset −4.2° at the wheel, ≈ 0.028 kg/s of fuel over 337 s (≈ 93 N).
