@@ -3,7 +3,7 @@ import { bandAeroLoadN, fitAero, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from
 import type { AeroFit } from "./aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { StaticReference, SummaryBuilder } from "./summary";
-import { CAUTIONS, METHOD_NOTES, SUMMARY_VERSION } from "./summary-types";
+import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./summary-types";
 import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
 import { roundOrNull as r, roundPair } from "./stats";
 import { aeroTravelAtEstimateMm, CONTACT_SLOTS, contactSharePct } from "./static-estimate";
@@ -231,7 +231,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     quality: { flags, aero_samples_waiting_for_static: s.aeroWaitingStatic },
     warnings,
     cautions: [...CAUTIONS],
-    notes: [...METHOD_NOTES],
+    notes: [...METHOD_NOTES, ...(s.mapped.has("ride_height_front") || s.mapped.has("ride_height_rear") ? [RIDE_HEIGHT_NOTE] : [])],
   };
 }
 

@@ -127,6 +127,10 @@ export const METHOD_NOTES = [
   "Load from damper travel assumes the springs, motion ratios and bump stops in the car file: a heave spring carries load the corner springs do not, and anti-dive or anti-squat geometry takes part of the load transfer past the springs.",
 ];
 
+/** Shown when ride-height channels are logged (DOMAIN pitfalls, common practice). */
+export const RIDE_HEIGHT_NOTE =
+  "Ride-height sensors read to the road, so tyre growth at speed raises them; the ride-height change worked out from the dampers leaves the tyre out, and the two part company at high speed.";
+
 export const CAUTIONS = [
   "These figures are estimates from logged data, not safety margins.",
   "Make aero changes one at a time, in small steps, and build speed over installation laps with agreed abort criteria.",

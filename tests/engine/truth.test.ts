@@ -146,6 +146,14 @@ describe("truth recovery: warnings the scenario should raise", () => {
     expect(s.warnings.some((w) => w.code === "few_understeer_samples")).toBe(false);
   });
 
+  it("says that laser ride heights include tyre growth when ride-height channels are logged", async () => {
+    // Tyre growth at speed lifts a ride-height sensor but not the damper-based estimate (common practice).
+    const withLasers = (await analyse("marlin-kestrel-semicolon.csv")).s.notes.join(" ");
+    const without = (await analyse("vesper-kestrel-tab.csv")).s.notes.join(" ");
+    expect(withLasers).toMatch(/tyre growth/);
+    expect(without).not.toMatch(/tyre growth/);
+  });
+
   it("the hill-climb run is short and says so", async () => {
     const { s } = await analyse("vesper-coldwater-comma.csv");
     expect(s.warnings.map((w) => w.code)).toContain("few_aero_samples");
