@@ -44,6 +44,14 @@ export const RH_MAP_BIN_MM = 2;
 export const RH_MAP_BINS = 25;
 
 export const BAND_STRIDE = 11;
+/** Per band, the current block's aero samples: n, Στ, ΣF_front, ΣF_rear (the row loop writes them). */
+export const BAND_CUR_STRIDE = 4;
+/**
+ * Per band, sums over the time blocks that held enough of its samples, of the block means m_f,
+ * m_r and the block's mean time τ: B, Σm_f, Σm_f², Σm_r, Σm_r², Σm_f·m_r, Στ, Στ², Στ·m_f, Στ·m_r.
+ * They give the band loads' sampling spread from block means (autocorrelated samples).
+ */
+export const BAND_BLOCK_STRIDE = 10;
 const BS = BAND_STRIDE; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r
 
 /**
@@ -60,16 +68,23 @@ export class AeroAccumulator {
   private readonly bandCount: number;
   /** Current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr² (the row loop keeps these in locals). */
   readonly cur = new Float64Array(11);
+  /** Current block per band (BAND_CUR_STRIDE) and the block-mean sums per band (BAND_BLOCK_STRIDE). */
+  readonly bandCur: Float64Array;
+  readonly bandBlocks: Float64Array;
 
   constructor(bandCount: number) {
     this.bandCount = bandCount;
     this.band = new Float64Array(bandCount * BS);
+    this.bandCur = new Float64Array(bandCount * BAND_CUR_STRIDE);
+    this.bandBlocks = new Float64Array(bandCount * BAND_BLOCK_STRIDE);
   }
 
   add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
     const c = this.cur;
     c[0]++; c[1] += t; c[2] += t * t; c[3] += q; c[4] += q * q; c[5] += f; c[6] += q * f; c[7] += f * f; c[8] += r; c[9] += q * r; c[10] += r * r;
     if (band < 0) return;
+    const bc = this.bandCur, oc = band * BAND_CUR_STRIDE;
+    bc[oc]++; bc[oc + 1] += t; bc[oc + 2] += f; bc[oc + 3] += r;
     const b = this.band, o = band * BS;
     b[o]++; b[o + 1] += t; b[o + 2] += q; b[o + 3] += f; b[o + 4] += r; b[o + 5] += dampFront; b[o + 6] += dampRear;
     if (rhFront === rhFront) { b[o + 7] += rhFront; b[o + 8]++; }
@@ -95,6 +110,33 @@ export class AeroAccumulator {
       if (n >= minSamples) this.blocks.add(tb, c[3] / n, c[5] / n, c[8] / n);
     }
     c.fill(0);
+    const bc = this.bandCur, bb = this.bandBlocks;
+    for (let b = 0; b < this.bandCount; b++) {
+      const oc = b * BAND_CUR_STRIDE, nb = bc[oc];
+      if (nb >= minSamples) {
+        const t = bc[oc + 1] / nb, mf = bc[oc + 2] / nb, mr = bc[oc + 3] / nb, o = b * BAND_BLOCK_STRIDE;
+        bb[o]++; bb[o + 1] += mf; bb[o + 2] += mf * mf; bb[o + 3] += mr; bb[o + 4] += mr * mr; bb[o + 5] += mf * mr;
+        bb[o + 6] += t; bb[o + 7] += t * t; bb[o + 8] += t * mf; bb[o + 9] += t * mr;
+      }
+    }
+    bc.fill(0);
+  }
+
+  /**
+   * Sampling spread of one band's mean axle loads from its block means, the fitted drift taken out
+   * of each (u = m − drift·τ): the number of blocks and the variances and covariance of u_f, u_r.
+   * The fit's intercept is common to every sample of the band and is not part of this spread.
+   */
+  bandBlockSpread(band: number, driftFront: number, driftRear: number): { blocks: number; varF: number; varR: number; cov: number } {
+    const bb = this.bandBlocks, o = band * BAND_BLOCK_STRIDE, B = bb[o];
+    if (B < 2) return { blocks: B, varF: NaN, varR: NaN, cov: NaN };
+    const [sf, sff, sr, srr, sfr, st, stt, stf, str] = [bb[o + 1], bb[o + 2], bb[o + 3], bb[o + 4], bb[o + 5], bb[o + 6], bb[o + 7], bb[o + 8], bb[o + 9]];
+    const df = driftFront, dr = driftRear;
+    const uf = (sf - df * st) / B, ur = (sr - dr * st) / B;
+    const varF = (sff - 2 * df * stf + df * df * stt - B * uf * uf) / (B - 1);
+    const varR = (srr - 2 * dr * str + dr * dr * stt - B * ur * ur) / (B - 1);
+    const cov = (sfr - dr * stf - df * str + df * dr * stt - B * uf * ur) / (B - 1);
+    return { blocks: B, varF: Math.max(0, varF), varR: Math.max(0, varR), cov };
   }
 
   /** Band sums as named arrays (for the end of the session). */

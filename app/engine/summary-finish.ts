@@ -5,7 +5,7 @@ import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physi
 import type { StaticReference, SummaryBuilder } from "./summary";
 import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./summary-types";
 import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
-import { roundOrNull as r, roundPair } from "./stats";
+import { interval95, roundOrNull as r, roundPair } from "./stats";
 import { aeroTravelAtEstimateMm, CONTACT_SLOTS, contactSharePct } from "./static-estimate";
 import { bandUndersteer, estimateSteeringOffset } from "./understeer";
 
@@ -15,6 +15,8 @@ const MIN_US_BLOCKS = 5;
 const FEW_US_BLOCKS = 15;
 const DRIFT_MIN_DURATION_S = 120;
 const LARGE_OFFSET_DEG = 3;
+/** Blocks (time blocks holding enough of a band's aero samples) before a band's balance gets an interval. */
+const MIN_BAND_BLOCKS = 5;
 /** Samples (speed changing by ≥ 0.05 g above 30 km/h) before the sign checks against dv/dt speak. */
 const MIN_SIGN_SAMPLES = 200;
 const CONTACT_WARN_PCT = 2;
@@ -148,6 +150,15 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
     }
     const rh = rideHeights(s, staticRef, b, loadF, loadR);
+    // Balance interval from the band's block means (delta method on F/(F + R)).
+    const spread = fit ? s.aero.bandBlockSpread(b, fit.front.drift_n_per_s, fit.rear.drift_n_per_s) : null;
+    let balCi: [number, number] | null = null;
+    if (spread && Number.isFinite(bal) && spread.blocks >= MIN_BAND_BLOCKS) {
+      const total = loadF + loadR;
+      const gF = (100 * loadR) / (total * total), gR = (-100 * loadF) / (total * total);
+      const v = (gF * gF * spread.varF + gR * gR * spread.varR + 2 * gF * gR * spread.cov) / spread.blocks;
+      balCi = interval95(bal, Math.sqrt(Math.max(0, v)), spread.blocks - 1);
+    }
     bands.push({
       min_kmh: edges[b],
       max_kmh: edges[b + 1],
@@ -157,6 +168,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       aero_load_front_n: r(loadF, 1),
       aero_load_rear_n: r(loadR, 1),
       balance_front_pct: r(bal, 2),
+      balance_front_ci95_pct: roundPair(balCi, 2),
+      aero_blocks: spread ? spread.blocks : 0,
       cla_front_m2: r(loadF / qMean, 4),
       cla_rear_m2: r(loadR / qMean, 4),
       understeer_gradient_deg_per_g: r(k, 3),

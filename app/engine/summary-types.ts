@@ -23,6 +23,14 @@ export interface BandSummary {
   aero_load_front_n: number | null;
   aero_load_rear_n: number | null;
   balance_front_pct: number | null;
+  /**
+   * 95 % interval of the band's balance from its block means (1 s blocks with enough samples; the
+   * fit's intercept uncertainty, common to all bands, is not in it), so two sessions' bands can be
+   * compared; null below 5 blocks.
+   */
+  balance_front_ci95_pct: [number, number] | null;
+  /** Time blocks that held enough of the band's aero samples. */
+  aero_blocks: number;
   cla_front_m2: number | null;
   cla_rear_m2: number | null;
   understeer_gradient_deg_per_g: number | null;

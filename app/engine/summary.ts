@@ -4,7 +4,7 @@
  * delay line for the centred filters, sufficient statistics for the fits, decimated traces.
  * The per-row path allocates nothing.
  */
-import { AeroAccumulator, BAND_STRIDE } from "./aero";
+import { AeroAccumulator, BAND_CUR_STRIDE, BAND_STRIDE } from "./aero";
 import { bandEdgesMs } from "./bands";
 import { carModel, validateCar } from "./car";
 import type { CarModel } from "./car";
@@ -66,7 +66,7 @@ export interface PartSpec {
 export interface SummaryPart {
   rows: number; t0: number; tLast: number; sampleRateHz: number;
   mapped: string[];
-  aeroSamples: number[]; aeroBlocks: number[]; rhMap: Float64Array; aeroBand: Float64Array;
+  aeroSamples: number[]; aeroBlocks: number[]; rhMap: Float64Array; aeroBand: Float64Array; aeroBandBlocks: Float64Array;
   usCells: Float64Array; usBlockCells: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
   usScalars: number[];
   sign: number[]; yawSignDot: number; yawSignN: number;
@@ -234,7 +234,7 @@ export class SummaryBuilder {
       rows: this.rows, t0: this.t0, tLast: this.tLast, sampleRateHz: this.sampleRateHz,
       mapped: [...this.mapped],
       aeroSamples: SUM_KEYS.map((k) => a.samples[k]), aeroBlocks: SUM_KEYS.map((k) => a.blocks[k]),
-      rhMap: a.rhMap.slice(), aeroBand: a.band.slice(),
+      rhMap: a.rhMap.slice(), aeroBand: a.band.slice(), aeroBandBlocks: a.bandBlocks.slice(),
       usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
       usScalars: US_SCALARS.map((k) => u[k]),
       sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
@@ -258,7 +258,7 @@ export class SummaryBuilder {
       this.rows += p.rows;
       for (const m of p.mapped) this.mapped.add(m);
       SUM_KEYS.forEach((k, j) => { a.samples[k] += p.aeroSamples[j]; a.blocks[k] += p.aeroBlocks[j]; });
-      add(a.rhMap, p.rhMap); add(a.band, p.aeroBand);
+      add(a.rhMap, p.rhMap); add(a.band, p.aeroBand); add(a.bandBlocks, p.aeroBandBlocks);
       add(u.cells, p.usCells); add(u.blockCells, p.usBlockCells); add(u.left, p.usLeft); add(u.right, p.usRight);
       for (let b = 0; b < u.peakAyG.length; b++) u.peakAyG[b] = Math.max(u.peakAyG[b], p.usPeakAyG[b]);
       US_SCALARS.forEach((k, j) => { u[k] += p.usScalars[j]; });
@@ -339,7 +339,7 @@ export class SummaryBuilder {
     const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
     timeAndBandPass(count, cT, mV, this.opts.blockS, this.edgesMs, this.bandRows, this, tauBuf, bandBuf, flagBuf);
     // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
-    const cur = aero.cur, bs = aero.band, blockMin = this.blockMin;
+    const cur = aero.cur, bs = aero.band, bc = aero.bandCur, blockMin = this.blockMin;
     let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
     for (let j = 0; j < count; j++) {
       const flag = flagBuf[j];
@@ -406,6 +406,8 @@ export class SummaryBuilder {
             bn++; bt += tau; btt += tau * tau; bq += q; bqq += q * q; bf += ff; bqf += q * ff; bff += ff * ff; br += fr; bqr += q * fr; brr += fr * fr;
             if (band >= 0) {
               const o = band * BAND_STRIDE;
+              const oc = band * BAND_CUR_STRIDE;
+              bc[oc]++; bc[oc + 1] += tau; bc[oc + 2] += ff; bc[oc + 3] += fr;
               bs[o]++; bs[o + 1] += tau; bs[o + 2] += q; bs[o + 3] += ff; bs[o + 4] += fr; bs[o + 5] += xfl + xfr; bs[o + 6] += xrl + xrr;
               const rhf = mRHF[j], rhr = mRHR[j];
               if (rhf === rhf) { bs[o + 7] += rhf; bs[o + 8]++; }

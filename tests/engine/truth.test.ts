@@ -94,6 +94,37 @@ describe("truth recovery at other logging rates", () => {
   });
 });
 
+describe("band balance intervals against repeated stints", () => {
+  // A standard error is, by definition, the spread of the estimate over independent repetitions.
+  // Eight stints of the same car and setup, differing only in the simulation's noise (seed): the
+  // spread of each band's balance across them must match the standard error its interval implies
+  // (half-width / 1.96) to within the uncertainty of an SD from eight values (generous: × 0.4–2.5).
+  it("matches the seed-to-seed spread of each band's balance", async () => {
+    const seeds = [101, 102, 103, 104, 105, 106, 107, 108];
+    const runs: SessionSummary[] = [];
+    for (const seed of seeds) {
+      const spec = { ...LOGS[0], seed };
+      const { columns } = simulate(spec);
+      const bytes = new TextEncoder().encode([...writeExport(exportColumns(spec, columns), spec.metadata, spec.dialect)].join(""));
+      const car = JSON.parse(readFileSync(join(ROOT, "sample-data", "cars", spec.carFile), "utf8"));
+      runs.push(await analyseLog((async function* () { yield bytes; })(), car, mapFor(spec)));
+    }
+    let checked = 0;
+    for (let b = 0; b < runs[0].bands.length; b++) {
+      const withCi = runs.map((r) => r.bands[b]).filter((x) => x.balance_front_ci95_pct !== null);
+      if (withCi.length < seeds.length) continue;
+      const values = withCi.map((x) => x.balance_front_pct!);
+      const mean = values.reduce((x, y) => x + y, 0) / values.length;
+      const sd = Math.sqrt(values.reduce((x, y) => x + (y - mean) ** 2, 0) / (values.length - 1));
+      const se = withCi.reduce((x, y) => x + (y.balance_front_ci95_pct![1] - y.balance_front_ci95_pct![0]) / 2 / 1.96, 0) / withCi.length;
+      expect(sd / se).toBeGreaterThan(0.4);
+      expect(sd / se).toBeLessThan(2.5);
+      checked++;
+    }
+    expect(checked).toBeGreaterThanOrEqual(3);
+  }, 60_000);
+});
+
 describe("truth recovery: warnings the scenario should raise", () => {
   it("the Vesper's −4.2° steering offset is flagged as large, its fuel burn as drift", async () => {
     // Scenario facts: offset −4.2° at the wheel, ≈ 0.028 kg/s of fuel over 337 s (≈ 93 N).
