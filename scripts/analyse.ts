@@ -1,7 +1,7 @@
 /**
  * analyse CLI (batch users depend on this contract):
  *   npm run --silent analyse -- FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260]
- *                                [--air-temp-c 20 --air-pressure-hpa 1013.25] [--threads N]
+ *                                [--air-temp-c 20 --air-pressure-hpa 1013.25 [--humidity-pct 50]] [--threads N]
  * Large files are analysed in parts on worker threads (one per core by default; --threads 1 for
  * one thread); the summary is the same either way (see app/engine/split.ts).
  * Prints one JSON object (the session summary without its chart traces) on stdout and exits 0.
@@ -16,8 +16,8 @@ import { analyseFileInParts, defaultThreads } from "./lib/part-threads";
 
 class UsageError extends Error {}
 
-const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25] [--threads N]";
-const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa", "--threads"] as const;
+const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25] [--humidity-pct 50] [--threads N]";
+const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa", "--humidity-pct", "--threads"] as const;
 type Flag = (typeof VALUE_FLAGS)[number];
 
 function parseArgs(argv: string[]): { file: string; flags: Partial<Record<Flag, string>> } {
@@ -72,6 +72,7 @@ async function main(): Promise<void> {
   const bandEdgesKmh = flags["--bands"] !== undefined ? parseBandEdges(flags["--bands"]) : undefined;
   const airTempC = numberFlag(flags["--air-temp-c"], "--air-temp-c");
   const airPressureHpa = numberFlag(flags["--air-pressure-hpa"], "--air-pressure-hpa");
+  const airHumidityPct = numberFlag(flags["--humidity-pct"], "--humidity-pct");
   let stat;
   try {
     stat = statSync(file);
@@ -81,7 +82,7 @@ async function main(): Promise<void> {
   if (!stat.isFile()) throw new UsageError(`the log file ${file} is not a regular file`);
   const threads = numberFlag(flags["--threads"], "--threads") ?? defaultThreads();
   if (!Number.isInteger(threads) || threads < 1 || threads > 64) throw new UsageError(`--threads must be a whole number from 1 to 64, got "${flags["--threads"]}"`);
-  const summary = await analyseFileInParts(file, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa, threads });
+  const summary = await analyseFileInParts(file, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa, airHumidityPct, threads });
   const { traces: _traces, ...out } = summary;
   process.stdout.write(JSON.stringify(out) + "\n");
 }

@@ -198,7 +198,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     duration_s: r(duration, 3) ?? 0,
     sample_rate_hz: r(s.sampleRateHz, 2),
     air_density_kg_m3: r(s.air.density_kg_m3, 5)!,
-    air: { temp_c: r(s.air.temp_c, 2)!, pressure_hpa: r(s.air.pressure_hpa, 2)!, source: s.air.source },
+    air: { temp_c: r(s.air.temp_c, 2)!, pressure_hpa: r(s.air.pressure_hpa, 2)!, humidity_pct: s.air.humidity_pct, source: s.air.source },
     aero: {
       cla_front_m2: r(claF, 4),
       cla_rear_m2: r(claR, 4),

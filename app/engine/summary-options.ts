@@ -42,6 +42,8 @@ export interface SummaryOptions {
   bandEdgesKmh?: number[];
   airTempC?: number;
   airPressureHpa?: number;
+  /** Relative humidity (%): moist-air density (CIPM-2007) when given, dry air otherwise. */
+  airHumidityPct?: number;
   gates?: Partial<SummaryGates>;
   /** Length of the blocks used for intervals (s), default 1. */
   blockS?: number;
@@ -58,6 +60,7 @@ export interface ResolvedOptions {
   bandEdgesKmh: number[];
   airTempC?: number;
   airPressureHpa?: number;
+  airHumidityPct?: number;
   gates: SummaryGates;
   blockS: number;
   damperSmoothingS: number;
@@ -82,6 +85,7 @@ export function resolveOptions(o: SummaryOptions = {}): ResolvedOptions {
     bandEdgesKmh: validateBandEdges(o.bandEdgesKmh ?? [...DEFAULT_BAND_EDGES_KMH]),
     airTempC: o.airTempC === undefined ? undefined : positive("air temperature (°C)", o.airTempC, 15, -40, 60),
     airPressureHpa: o.airPressureHpa === undefined ? undefined : positive("air pressure (hPa)", o.airPressureHpa, 1013.25, 500, 1100),
+    airHumidityPct: o.airHumidityPct === undefined ? undefined : positive("relative humidity (%)", o.airHumidityPct, 0, 0, 100),
     gates,
     blockS: positive("block length (s)", o.blockS, 1, 0.1, 60),
     damperSmoothingS: positive("damper smoothing (s)", o.damperSmoothingS, 0.11, 0, 2),

@@ -63,7 +63,8 @@ export interface SessionSummary {
   duration_s: number;
   sample_rate_hz: number | null;
   air_density_kg_m3: number;
-  air: { temp_c: number; pressure_hpa: number; source: "isa_sea_level" | "given" | "partly_given" };
+  /** The weather the density rests on; humidity_pct null = dry air assumed. */
+  air: { temp_c: number; pressure_hpa: number; humidity_pct: number | null; source: "isa_sea_level" | "given" | "partly_given" };
   aero: {
     cla_front_m2: number | null;
     cla_rear_m2: number | null;

@@ -148,7 +148,7 @@ export class SummaryBuilder {
     this.car = validateCar(car);
     this.model = carModel(this.car);
     this.opts = resolveOptions(options);
-    this.air = sessionAirDensity(this.opts.airTempC, this.opts.airPressureHpa);
+    this.air = sessionAirDensity(this.opts.airTempC, this.opts.airPressureHpa, this.opts.airHumidityPct);
     this.edgesMs = bandEdgesMs(this.opts.bandEdgesKmh);
     this.bandCount = this.opts.bandEdgesKmh.length - 1;
     this.aero = new AeroAccumulator(this.bandCount);

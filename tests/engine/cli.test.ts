@@ -42,6 +42,18 @@ describe("analyse CLI: good input", () => {
     expect(/NaN|Infinity/.test(r.stdout)).toBe(false);
   });
 
+  it("takes the humidity into the density when given (moist air, CIPM-2007)", () => {
+    // 20 °C, 1013.25 hPa, 50 %: water vapour (M 18.0 g/mol) displaces air (29.0 g/mol), so the air is
+    // lighter than the dry 1.2041 kg/m³; the ideal-gas mixture (p − e)/(R_d·T) + e/(R_v·T) with
+    // e = 0.5 × 2339 Pa (steam tables) gives 1.1988, and CIPM's compressibility adds 0.04 %.
+    const r = cli([LOG, "--car", CAR, "--map", MAP, "--air-temp-c", "20", "--air-pressure-hpa", "1013.25", "--humidity-pct", "50"]);
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.air.humidity_pct).toBe(50);
+    expect(out.air_density_kg_m3).toBeCloseTo(1.1993, 3);
+    expect(out.warnings.some((w: { code: string }) => w.code === "air_density_assumed")).toBe(false);
+  });
+
   it("answers the same through its cached bundle and straight from the TypeScript", () => {
     // `npm run analyse` starts a cached plain-JS bundle (scripts/analyse.mjs); without a bundler it
     // loads scripts/analyse.ts through tsx. Both must print the same bytes and exit codes.
@@ -70,6 +82,7 @@ describe("analyse CLI: bad input exits 2 with one error line", () => {
     ["unknown flag", () => [LOG, "--car", CAR, "--map", MAP, "--verbose"], /unknown option --verbose/],
     ["missing --map", () => [LOG, "--car", CAR], /--map/],
     ["non-numeric temperature", () => [LOG, "--car", CAR, "--map", MAP, "--air-temp-c", "warm"], /--air-temp-c/],
+    ["humidity over 100 %", () => [LOG, "--car", CAR, "--map", MAP, "--humidity-pct", "120"], /relative humidity \(%\) must be a number from 0 to 100, got 120/],
   ];
   it.each(cases)("%s", (_name, args, message) => {
     const r = cli(args());

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { airDensityKgM3, isaAtGeopotentialM, sessionAirDensity } from "~/engine/density";
+import { airDensityKgM3, humidAirDensityKgM3, isaAtGeopotentialM, saturationVapourPressurePa, sessionAirDensity } from "~/engine/density";
 
 describe("air density against the standard atmosphere", () => {
   it("sea level: 288.15 K, 101 325 Pa, 1.225 kg/m³", () => {
@@ -40,5 +40,31 @@ describe("air density against the standard atmosphere", () => {
     expect(d.density_kg_m3).toBeCloseTo(1.225, 4);
     // 20 °C and 1013.25 hPa: 101 325 / (287.05287 × 293.15) = 1.2041 kg/m³ (ideal gas, dry air).
     expect(sessionAirDensity(20, 1013.25).density_kg_m3).toBeCloseTo(1.2041, 4);
+  });
+});
+
+describe("moist air (CIPM-2007, Picard et al., Metrologia 45 (2008); constants from memory)", () => {
+  it("saturation vapour pressure matches the steam tables", () => {
+    // Saturation pressure of water, IAPWS steam tables: 2.3393 kPa at 20 °C, 3.1699 kPa at 25 °C.
+    expect(saturationVapourPressurePa(293.15) / 2339.3 - 1).toBeCloseTo(0, 3);
+    expect(saturationVapourPressurePa(298.15) / 3169.9 - 1).toBeCloseTo(0, 3);
+  });
+
+  it("agrees with the ideal-gas mixture of dry air and water vapour to within CIPM's small corrections", () => {
+    // Dalton's law with ideal gases (textbook): ρ = (p − e)/(R_d·T) + e/(R_v·T), R_d 287.058 and
+    // R_v 461.495 J/(kg·K); CIPM adds the compressibility Z ≈ 0.9996 and the enhancement factor
+    // f ≈ 1.004, together under 0.1 %.
+    for (const [tC, h] of [[10, 0.3], [20, 0], [20, 0.5], [25, 0.6], [35, 0.9]]) {
+      const T = tC + 273.15, p = 101_325, e = h * saturationVapourPressurePa(T);
+      const ideal = (p - e) / (287.058 * T) + e / (461.495 * T);
+      expect(Math.abs(humidAirDensityKgM3(T, p, h) / ideal - 1)).toBeLessThan(0.001);
+    }
+  });
+
+  it("humid air is lighter than dry air, by about 0.7 % at 25 °C and 60 %", () => {
+    const dry = airDensityKgM3(298.15, 101_325), humid = humidAirDensityKgM3(298.15, 101_325, 0.6);
+    expect(humid / dry - 1).toBeCloseTo(-0.0067, 3);
+    expect(sessionAirDensity(25, 1013.25, 60)).toMatchObject({ humidity_pct: 60, source: "given" });
+    expect(sessionAirDensity(25, 1013.25).humidity_pct).toBeNull();
   });
 });
