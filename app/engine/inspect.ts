@@ -209,10 +209,15 @@ export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan 
   });
   const numericColumns: string[] = [];
   const skippedColumns: string[] = [];
+  const textSamples: Record<string, string> = {};
   columns.forEach((name, i) => {
     const filled = dataRows.map((r) => r[i]).filter((c) => !isBlank(c));
     const numeric = filled.filter((c) => isNum(c, decimalComma)).length;
-    (filled.length === 0 || numeric >= 0.9 * filled.length ? numericColumns : skippedColumns).push(name);
+    if (filled.length === 0 || numeric >= 0.9 * filled.length) numericColumns.push(name);
+    else {
+      skippedColumns.push(name);
+      textSamples[name] = unquote(filled.find((c) => !isNum(c, decimalComma)) ?? filled[0]).trim().slice(0, 40);
+    }
   });
   if (skippedColumns.length) notes.push(`text columns skipped: ${skippedColumns.join(", ")}`);
   if (dataRows.length === 0) throw noHeader("the header has no data rows under it");
@@ -225,6 +230,7 @@ export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan 
     decimalComma,
     numericColumns,
     skippedColumns,
+    textSamples,
     unitsRow,
     bom,
     lineEnding: crlf ? "crlf" : "lf",

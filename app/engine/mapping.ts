@@ -20,6 +20,9 @@ const entrySchema = z
 const listColumns = (header: LogHeader) => header.columns.map((c) => `"${c}"`).join(", ");
 
 /** Checks a map (parsed MAP.json or the mapping form) against the file's header. */
+/** A clock time of day or lap clock: 1:23.4, 00:01:23.450, 12:05:09 (a point or comma before the fraction). */
+const CLOCK_TIME = /^\d{1,2}:\d{2}(:\d{2})?([.,]\d+)?$/;
+
 export function validateChannelMap(map: unknown, header: LogHeader): ChannelMap {
   if (typeof map !== "object" || map === null || Array.isArray(map)) {
     throw new EngineError("bad_map", "the channel map must be an object with one entry per channel, e.g. {\"time\": {\"column\": \"Time\", \"unit\": \"s\"}, …}");
@@ -53,7 +56,11 @@ export function validateChannelMap(map: unknown, header: LogHeader): ChannelMap 
       throw new EngineError("column_missing", `column "${entry.column}" mapped to ${channel} is not in the file; its columns are ${listColumns(header)}`);
     }
     if (header.skippedColumns.includes(entry.column)) {
-      throw new EngineError("column_not_numeric", `column "${entry.column}" mapped to ${channel} holds text, not numbers; numeric columns are ${header.numericColumns.map((c) => `"${c}"`).join(", ")}`);
+      const sample = header.textSamples?.[entry.column];
+      const clock = channel === "time" && sample !== undefined && CLOCK_TIME.test(sample);
+      const what = sample === undefined ? "" : ` (it reads "${sample}")`;
+      const hint = clock ? "; clock times are not read: export the time as elapsed seconds or milliseconds" : "";
+      throw new EngineError("column_not_numeric", `column "${entry.column}" mapped to ${channel} holds text, not numbers${what}${hint}; numeric columns are ${header.numericColumns.map((c) => `"${c}"`).join(", ")}`);
     }
     const other = usedBy.get(entry.column);
     if (other) {

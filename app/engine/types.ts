@@ -86,6 +86,8 @@ export interface LogHeader {
   numericColumns: string[];
   /** Columns with text cells; listed and never parsed. */
   skippedColumns: string[];
+  /** The first text cell of each text column (at most 40 characters), to show what it holds. */
+  textSamples: Record<string, string>;
   /** True when a units row sits under the header. */
   unitsRow: boolean;
   /** True when the file starts with a UTF-8 byte-order mark. */

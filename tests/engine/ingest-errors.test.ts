@@ -67,6 +67,16 @@ describe("ingestLog error paths", () => {
     expect(e.message).toMatch(/^time is not increasing at data row 121 \(line 122\): column "Time" goes from 1190 to 1180 ms/);
   });
 
+  it("a time column written as clock time says what it reads and what to export instead", async () => {
+    // Some loggers export a time of day (hh:mm:ss.sss); the engine reads elapsed s or ms only.
+    const rows = ["Time,Speed,Lat,Long,Steer,FL,FR,RL,RR"];
+    for (let i = 0; i < 300; i++) rows.push(`12:00:${String(Math.floor(i / 100)).padStart(2, "0")}.${String(i % 100).padStart(2, "0")}0,100,0,0,0,30,30,40,40`);
+    const map = { time: { column: "Time", unit: "s" }, speed: { column: "Speed", unit: "km/h" }, lat_accel: { column: "Lat", unit: "g" }, long_accel: { column: "Long", unit: "g" }, steer: { column: "Steer", unit: "deg" }, damper_fl: { column: "FL", unit: "mm" }, damper_fr: { column: "FR", unit: "mm" }, damper_rl: { column: "RL", unit: "mm" }, damper_rr: { column: "RR", unit: "mm" } };
+    const e = await failure(new TextEncoder().encode(rows.join("\n")), map);
+    expect(e.code).toBe("column_not_numeric");
+    expect(e.message).toMatch(/^column "Time" mapped to time holds text, not numbers \(it reads "12:00:00\.000"\); clock times are not read: export the time as elapsed seconds or milliseconds; numeric columns are "Speed"/);
+  });
+
   it("a mapped column that is not in the file lists the columns that exist", async () => {
     const map = { ...STINT_MAP, damper_rr: { column: "Shock RR", unit: "mm" } };
     const e = await failure(bytesOf([stint(300)]), map);
