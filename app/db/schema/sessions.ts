@@ -49,10 +49,16 @@ export const sessionBands = mysqlTable(
     minKmh: double("min_kmh").notNull(),
     maxKmh: double("max_kmh").notNull(),
     samples: int("samples").notNull(),
+    aeroSamples: int("aero_samples").notNull().default(0),
     aeroLoadFrontN: double("aero_load_front_n"),
     aeroLoadRearN: double("aero_load_rear_n"),
     balanceFrontPct: double("balance_front_pct"),
+    // 95 % intervals from block means (summary bands), so Compare can tell a change from noise.
+    balanceFrontCi95LoPct: double("balance_front_ci95_lo_pct"),
+    balanceFrontCi95HiPct: double("balance_front_ci95_hi_pct"),
     understeerGradientDegPerG: double("understeer_gradient_deg_per_g"),
+    understeerCi95LoDegPerG: double("understeer_ci95_lo_deg_per_g"),
+    understeerCi95HiDegPerG: double("understeer_ci95_hi_deg_per_g"),
     understeerSamples: int("understeer_samples").notNull().default(0),
   },
   (t) => [primaryKey({ columns: [t.sessionId, t.minKmh] })],
@@ -61,3 +67,4 @@ export const sessionBands = mysqlTable(
 export type AnalysisSession = typeof analysisSessions.$inferSelect;
 export type NewAnalysisSession = typeof analysisSessions.$inferInsert;
 export type SessionBand = typeof sessionBands.$inferSelect;
+export type NewSessionBand = typeof sessionBands.$inferInsert;
