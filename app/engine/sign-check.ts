@@ -13,6 +13,9 @@
  *   With all three logged, the one that disagrees with the other two is the one to invert; with
  *   two, a disagreement is reported without naming a culprit.
  *
+ * The same test of long_accel against dv/dt also weighs their sizes (unit-check.ts): a ratio near
+ * 9.8, 3.6 or 1.6 is a unit mapped wrongly, reported as "check_unit" on long_accel or speed.
+ *
  * Verdicts are relative to the map given: "invert" means flip that channel's `invert` flag.
  * A verdict is a proposal for the user to confirm, never applied silently.
  */
@@ -20,12 +23,14 @@ import { EngineError } from "./errors";
 import { BlockSmoother } from "./filters";
 import { ingestLog } from "./ingest";
 import { solveNormalEquations } from "./regression";
+import { longAccelScaleProblem } from "./unit-check";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import type { ChannelBlock, ChannelMap, ChannelName } from "./types";
 
 export interface SignCheck {
   channel: ChannelName;
-  verdict: "consistent" | "invert" | "unclear";
+  /** "check_unit": the sign is right but the size says the mapped unit is not the logged one. */
+  verdict: "consistent" | "invert" | "unclear" | "check_unit";
   detail: string;
 }
 
@@ -61,6 +66,12 @@ class Correlation {
   n = 0; sx = 0; sy = 0; sxx = 0; syy = 0; sxy = 0;
   add(x: number, y: number): void {
     this.n++; this.sx += x; this.sy += y; this.sxx += x * x; this.syy += y * y; this.sxy += x * y;
+  }
+  /** σ(y)/σ(x): the size of y against x (both noisy, so not the regression slope). */
+  get scale(): number {
+    const n = this.n;
+    const vx = this.sxx - (this.sx * this.sx) / n, vy = this.syy - (this.sy * this.sy) / n;
+    return n > 2 && vx > 0 ? Math.sqrt(vy / vx) : NaN;
   }
   get r(): number {
     const n = this.n;
@@ -137,7 +148,7 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   consume(sm.flush());
 
   const out: SignCheck[] = [];
-  if (present[AX]) out.push(longAccelCheck(accel.r, accelEvents));
+  if (present[AX]) out.push(...longAccelChecks(accel.r, accel.scale, accelEvents));
   DAMPERS.forEach((ch, c) => {
     if (present[D0 + c]) out.push(damperCheck(ch, c < 2, dampers[c]));
   });
@@ -145,12 +156,15 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   return out;
 }
 
-function longAccelCheck(r: number, events: number): SignCheck {
+/** long_accel's sign against dv/dt, then its size (unit-check.ts): a unit slip names long_accel or speed. */
+function longAccelChecks(r: number, scale: number, events: number): SignCheck[] {
   const channel = "long_accel";
-  if (events < MIN_EVENT_SAMPLES || !Number.isFinite(r)) return { channel, verdict: "unclear", detail: "too little braking or accelerating above 36 km/h at the start of the log to check the sign" };
-  if (r <= -AGREE_R) return { channel, verdict: "invert", detail: `reads opposite to the change of speed (correlation ${r.toFixed(2)}): braking must read negative` };
-  if (r >= AGREE_R) return { channel, verdict: "consistent", detail: `follows the change of speed (correlation ${r.toFixed(2)})` };
-  return { channel, verdict: "unclear", detail: `barely follows the change of speed (correlation ${r.toFixed(2)}): check the column and its unit` };
+  if (events < MIN_EVENT_SAMPLES || !Number.isFinite(r)) return [{ channel, verdict: "unclear", detail: "too little braking or accelerating above 36 km/h at the start of the log to check the sign" }];
+  if (r <= -AGREE_R) return [{ channel, verdict: "invert", detail: `reads opposite to the change of speed (correlation ${r.toFixed(2)}): braking must read negative` }];
+  if (r < AGREE_R) return [{ channel, verdict: "unclear", detail: `barely follows the change of speed (correlation ${r.toFixed(2)}): check the column and its unit` }];
+  const slip = longAccelScaleProblem(scale);
+  if (!slip) return [{ channel, verdict: "consistent", detail: `follows the change of speed (correlation ${r.toFixed(2)}, size ratio ${scale.toFixed(2)})` }];
+  return [{ channel: slip.speed ? "speed" : "long_accel", verdict: "check_unit", detail: slip.problem }];
 }
 
 function damperCheck(channel: (typeof DAMPERS)[number], front: boolean, f: DamperFit): SignCheck {

@@ -7,6 +7,8 @@ import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./sum
 import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
 import { interval95, roundOrNull as r, roundPair } from "./stats";
 import { aeroTravelAtEstimateMm, CONTACT_SLOTS, contactSharePct } from "./static-estimate";
+import { cornerPeaks, latAccelScaleProblem, longAccelScaleProblem } from "./unit-check";
+import { TRACE_CHANNELS } from "./summary-traces";
 import { bandUndersteer, estimateSteeringOffset } from "./understeer";
 
 const MIN_AERO_BLOCKS = 10;
@@ -40,9 +42,12 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const axR = sign.n >= MIN_SIGN_SAMPLES ? cov(sign.sa, sign.sd, sign.sad) / Math.sqrt(varD * cov(sign.sa, sign.sa, sign.saa)) : NaN;
   const axInverted = axR < -0.5;
   if (axInverted) warn("suspected_sign_error", `long_accel reads opposite to the change of speed (correlation ${axR.toFixed(2)}): invert it in the channel map (braking negative). ClA and balance are not estimated until then: the load-transfer correction would go the wrong way`);
+  // Units by the same kinematics: σ(long_accel) / σ(dv/dt) is ≈ 1 with the right units (unit-check.ts).
+  const unitSlip = axInverted || !(axR > 0.5) ? null : longAccelScaleProblem(Math.sqrt(cov(sign.sa, sign.sa, sign.saa) / varD));
+  if (unitSlip) warn("suspected_unit_error", `${unitSlip.problem}. ${unitSlip.speed ? "ClA, balance and understeer gradients are" : "ClA and balance are"} not estimated until then`);
   let fit: AeroFit | null = null;
   let alt: AeroFit | null = null;
-  if (axInverted) {
+  if (axInverted || unitSlip) {
     // No fit: the warning above says why.
   } else if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
     fit = fitAero(s.aero, withIntercept, withDrift);
@@ -114,7 +119,12 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const usUntil = "; understeer gradients are not given until then";
   if (steerLatWrong) warn("suspected_sign_error", `steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)${usUntil}`);
   if (yawLatWrong) warn("suspected_sign_error", `yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map${usUntil}`);
-  const lateralSignWrong = steerLatWrong || yawLatWrong;
+  // A wrong speed unit scales every curvature (ay/V² or r/V) and so the understeer angle; a wrong
+  // lat_accel unit scales the ay the gradient is taken against.
+  const tr = s.traces.state();
+  const latSlip = latAccelScaleProblem(cornerPeaks(tr.buckets, TRACE_CHANNELS.length, tr.lo, tr.hi, { speed: TRACE_CHANNELS.indexOf("speed_kmh"), lat: TRACE_CHANNELS.indexOf("lat_accel_g"), steer: TRACE_CHANNELS.indexOf("steer_deg") }));
+  if (latSlip) warn("suspected_unit_error", `${latSlip}. Understeer gradients are not estimated until then`);
+  const understeerUnsound = steerLatWrong || yawLatWrong || unitSlip?.speed === true || latSlip !== null;
 
   const emptyBands = s.opts.bandEdgesKmh.slice(0, -1).map((lo, b) => [lo, s.opts.bandEdgesKmh[b + 1], s.bandRows[b]] as const).filter((x) => x[2] === 0);
   if (emptyBands.length) warn("empty_band", `no samples in ${emptyBands.map(([lo, hi]) => `${lo}–${hi}`).join(", ")} km/h: those bands have no figures`);
@@ -140,13 +150,13 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);
     }
     const offRoad = offset.offset_deg === null ? NaN : offset.offset_deg / c.steeringRatio;
-    const us = offset.offset_deg === null || lateralSignWrong ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
+    const us = offset.offset_deg === null || understeerUnsound ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
     let k = NaN;
     if (us && us.blocks >= MIN_US_BLOCKS) {
       k = us.k_deg_per_g;
       if (us.blocks < FEW_US_BLOCKS) warn("few_understeer_samples", `${label}: the understeer gradient rests on ${us.blocks} s of steady cornering: treat it as rough`);
       if (Math.min(us.left_samples, us.right_samples) < 0.1 * (us.left_samples + us.right_samples)) warn("one_turn_direction", `${label}: steady corners are nearly all one direction, so a steering-offset error goes straight into the understeer gradient`);
-    } else if (s.bandRows[b] > 0 && offset.offset_deg !== null && !lateralSignWrong) {
+    } else if (s.bandRows[b] > 0 && offset.offset_deg !== null && !understeerUnsound) {
       warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
     }
     const rh = rideHeights(s, staticRef, b, loadF, loadR);

@@ -3,6 +3,9 @@
  * one row wide; when all buckets are full, neighbours merge pairwise and the width doubles.
  * Every bucket keeps the min and max of each channel (spikes survive decimation) and its first time.
  */
+/** The chart channels, in SI inside the decimator (converted to display units at output). */
+export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
+
 export interface TraceOutput {
   bucket_rows: number;
   t_s: number[];

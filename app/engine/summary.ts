@@ -14,7 +14,7 @@ import { buildSummary } from "./summary-finish";
 import type { FinishContext, SessionSummary } from "./summary-types";
 import { resolveOptions } from "./summary-options";
 import type { ResolvedOptions, SummaryOptions } from "./summary-options";
-import { TraceDecimator } from "./summary-traces";
+import { TRACE_CHANNELS, TraceDecimator } from "./summary-traces";
 import type { TraceState } from "./summary-traces";
 import { PartUnsafe } from "./errors";
 import { bumpStopForceN } from "./physics";
@@ -25,6 +25,7 @@ import { ROW_VALID, timeAndBandPass, understeerPass } from "./summary-rows";
 import { addStaticSample, CONTACT_SLOTS, contactSlot, STATIC_SUMS, staticEstimate } from "./static-estimate";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
+export { TRACE_CHANNELS } from "./summary-traces";
 
 // Module-local copies: a loader may turn imported bindings into getters, too slow per row.
 const G = STANDARD_GRAVITY_M_S2;
@@ -87,7 +88,6 @@ const SIGN_KEYS = ["n", "sd", "sdd", "sa", "saa", "sad", "sf", "sdf", "sr", "sdr
  */
 const T = 0, V = 1, AY = 2, AX = 3, STEER = 4, DFL = 5, DFR = 6, DRL = 7, DRR = 8, RHF = 9, RHR = 10, YAW = 11;
 const SLOT_CHANNELS = ["time", "speed", "lat_accel", "long_accel", "steer", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "ride_height_front", "ride_height_rear", "yaw_rate"] as const;
-export const TRACE_CHANNELS = ["speed_kmh", "lat_accel_g", "long_accel_g", "steer_deg", "damper_fl_mm", "damper_fr_mm", "damper_rl_mm", "damper_rr_mm", "axle_load_front_n", "axle_load_rear_n", "ride_height_front_mm", "ride_height_rear_mm", "yaw_rate_deg_s"] as const;
 
 export class SummaryBuilder {
   readonly car: CarInput;

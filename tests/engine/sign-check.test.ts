@@ -52,6 +52,15 @@ describe("channel sign check on the start of a log", () => {
     expect(await inverts(semi.head, flip(semi.map, "yaw_rate"))).toEqual(["yaw_rate"]);
   });
 
+  it("names a unit slip on speed or long_accel by the size of dv/dt (kinematics; NIST SP 811 factors)", async () => {
+    const comma = load("marlin-kestrel-comma");
+    const unitOf = async (map: ChannelMap) => (await checkChannelSigns(comma.head, map)).filter((c) => c.verdict === "check_unit").map((c) => [c.channel, c.detail]);
+    const withUnit = (channel: "speed" | "long_accel", unit: string) => ({ ...comma.map, [channel]: { ...comma.map[channel], unit } }) as ChannelMap;
+    expect(await unitOf(comma.map)).toEqual([]);
+    expect(await unitOf(withUnit("speed", "m/s"))).toEqual([["speed", expect.stringMatching(/logged in km\/h but mapped as m\/s/)]]);
+    expect(await unitOf(withUnit("long_accel", "m/s2"))).toEqual([["long_accel", expect.stringMatching(/logged in g but mapped as m\/s²/)]]);
+  });
+
   it("does not guess which of two disagreeing channels is wrong", async () => {
     // Without yaw rate, steering against lateral acceleration cannot tell which one is flipped.
     const comma = load("marlin-kestrel-comma");

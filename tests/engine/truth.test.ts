@@ -185,6 +185,23 @@ describe("truth recovery: warnings the scenario should raise", () => {
     expect(without).not.toMatch(/tyre growth/);
   });
 
+  it.each([
+    // [log, channel, unit mapped instead of the logged one, message, aero kept, understeer kept]
+    ["marlin-kestrel-comma.csv", "speed", "m/s", /speed is probably logged in km\/h but mapped as m\/s/, false, false],
+    ["marlin-kestrel-comma.csv", "long_accel", "m/s2", /long_accel .* logged in g but mapped as m\/s²/, false, true],
+    ["marlin-kestrel-semicolon.csv", "speed", "km/h", /speed is probably logged in mph but mapped as km\/h/, false, false],
+    ["marlin-kestrel-semicolon.csv", "lat_accel", "g", /lat_accel .* logged in m\/s² but mapped as g/, true, false],
+    ["vesper-kestrel-tab.csv", "lat_accel", "m/s2", /lat_accel .* logged in g but mapped as m\/s²/, true, false],
+  ] as const)("%s with %s mapped as %s: the unit slip is named and the figures resting on it are null", async (file, channel, unit, message, aeroKept, usKept) => {
+    // Kinematics (a = dv/dt) and the size of cornering give the slips away (see unit-check.ts).
+    const { s } = await analyse(file, (m) => { (m[channel] as { unit: string }).unit = unit; });
+    const units = s.warnings.filter((w) => w.code === "suspected_unit_error");
+    expect(units).toHaveLength(1);
+    expect(units[0].message).toMatch(message);
+    expect(s.aero.cla_front_m2 !== null).toBe(aeroKept);
+    expect(s.bands.some((b) => b.understeer_gradient_deg_per_g !== null)).toBe(usKept);
+  });
+
   it("the hill-climb run is short and says so", async () => {
     const { s } = await analyse("vesper-coldwater-comma.csv");
     expect(s.warnings.map((w) => w.code)).toContain("few_aero_samples");
