@@ -7,7 +7,7 @@ import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./sum
 import type { BandSummary, FinishContext, SessionSummary, SummaryWarning } from "./summary-types";
 import { interval95, roundOrNull as r, roundPair } from "./stats";
 import { aeroTravelAtEstimateMm, CONTACT_SLOTS, contactSharePct } from "./static-estimate";
-import { cornerPeaks, latAccelScaleProblem, longAccelScaleProblem } from "./unit-check";
+import { damperRangeProblem, latAccelScaleProblem, longAccelScaleProblem, sampleRateProblem, steerScaleProblem, traceSizes } from "./unit-check";
 import { TRACE_CHANNELS } from "./summary-traces";
 import { bandUndersteer, estimateSteeringOffset } from "./understeer";
 
@@ -43,11 +43,26 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const axInverted = axR < -0.5;
   if (axInverted) warn("suspected_sign_error", `long_accel reads opposite to the change of speed (correlation ${axR.toFixed(2)}): invert it in the channel map (braking negative). ClA and balance are not estimated until then: the load-transfer correction would go the wrong way`);
   // Units by the same kinematics: σ(long_accel) / σ(dv/dt) is ≈ 1 with the right units (unit-check.ts).
-  const unitSlip = axInverted || !(axR > 0.5) ? null : longAccelScaleProblem(Math.sqrt(cov(sign.sa, sign.sa, sign.saa) / varD));
+  // A time unit slip (the log's rate) explains any disagreement of sizes with dv/dt: it is named alone.
+  const rateSlip = sampleRateProblem(s.sampleRateHz, s.rows);
+  if (rateSlip) warn("suspected_unit_error", `${rateSlip}. ClA, balance and understeer gradients are not estimated until then`);
+  const unitSlip = axInverted || rateSlip || !(axR > 0.5) ? null : longAccelScaleProblem(Math.sqrt(cov(sign.sa, sign.sa, sign.saa) / varD));
   if (unitSlip) warn("suspected_unit_error", `${unitSlip.problem}. ${unitSlip.speed ? "ClA, balance and understeer gradients are" : "ClA and balance are"} not estimated until then`);
+  // Sizes of the other channels, read off the decimated traces (unit-check.ts).
+  const tr = s.traces.state();
+  const at = (name: (typeof TRACE_CHANNELS)[number]) => TRACE_CHANNELS.indexOf(name);
+  const sizes = traceSizes(tr.buckets, TRACE_CHANNELS.length, tr.lo, tr.hi, {
+    speed: at("speed_kmh"), lat: at("lat_accel_g"), steer: at("steer_deg"), dampers: [at("damper_fl_mm"), at("damper_fr_mm"), at("damper_rl_mm"), at("damper_rr_mm")],
+  }, c.steeringRatio, c.wheelbaseM);
+  const damperSlips = sizes.speedSpanKmh < 60 || duration < 60 ? [] : (["damper_fl", "damper_fr", "damper_rl", "damper_rr"] as const).map((ch, i) => damperRangeProblem(ch, sizes.damperRangeMm[i])).filter((p): p is string => p !== null);
+  for (const p of damperSlips) warn("suspected_unit_error", `${p}. ClA and balance are not estimated until then`);
+  const latSlip = latAccelScaleProblem(sizes);
+  if (latSlip) warn("suspected_unit_error", `${latSlip}. Understeer gradients are not estimated until then`);
+  const steerSlip = latSlip || unitSlip?.speed ? null : steerScaleProblem(sizes.steerRatio);
+  if (steerSlip) warn("suspected_unit_error", `${steerSlip}. Understeer gradients are not estimated until then`);
   let fit: AeroFit | null = null;
   let alt: AeroFit | null = null;
-  if (axInverted || unitSlip) {
+  if (axInverted || unitSlip || rateSlip || damperSlips.length > 0) {
     // No fit: the warning above says why.
   } else if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
     fit = fitAero(s.aero, withIntercept, withDrift);
@@ -58,7 +73,14 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   }
   // Braking (dv/dt < 0) compresses the front: front travel falls with dv/dt, rear travel rises with it.
   const enoughSign = sign.n >= MIN_SIGN_SAMPLES;
-  const pitchF = enoughSign ? cov(sign.sd, sign.sf, sign.sdf) / varD : NaN, pitchR = enoughSign ? cov(sign.sd, sign.sr, sign.sdr) / varD : NaN;
+  // Travel = a + b·d + c·v² per axle: b is the pitch with the aero held apart (braking happens at
+  // speed, where the aero also compresses the car); plain slope on d when v² does not vary apart from d.
+  const varW = cov(sign.sq, sign.sq, sign.sqq), covDW = cov(sign.sd, sign.sq, sign.sdq), det = varD * varW - covDW * covDW;
+  const pitch = (sx: number, sdx: number, sqx: number) => {
+    const cdx = cov(sign.sd, sx, sdx), cwx = cov(sign.sq, sx, sqx);
+    return det > 1e-6 * varD * varW ? (varW * cdx - covDW * cwx) / det : cdx / varD;
+  };
+  const pitchF = enoughSign ? pitch(sign.sf, sign.sdf, sign.sqf) : NaN, pitchR = enoughSign ? pitch(sign.sr, sign.sdr, sign.sqr) : NaN;
   // A wrong pitch with a negative ClA on the same axle is an inverted channel, not lift: no aero figures then.
   const invertedF = pitchF > 0.5 && fit !== null && fit.front.cla_m2 < 0, invertedR = pitchR < -0.5 && fit !== null && fit.rear.cla_m2 < 0;
   const aeroUntil = invertedF || invertedR ? "; ClA and balance are not estimated until then" : "";
@@ -120,11 +142,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (steerLatWrong) warn("suspected_sign_error", `steering and lateral acceleration have opposite signs in corners: invert one of them in the channel map (left turn positive for both)${usUntil}`);
   if (yawLatWrong) warn("suspected_sign_error", `yaw rate and lateral acceleration have opposite signs: invert one of them in the channel map${usUntil}`);
   // A wrong speed unit scales every curvature (ay/V² or r/V) and so the understeer angle; a wrong
-  // lat_accel unit scales the ay the gradient is taken against.
-  const tr = s.traces.state();
-  const latSlip = latAccelScaleProblem(cornerPeaks(tr.buckets, TRACE_CHANNELS.length, tr.lo, tr.hi, { speed: TRACE_CHANNELS.indexOf("speed_kmh"), lat: TRACE_CHANNELS.indexOf("lat_accel_g"), steer: TRACE_CHANNELS.indexOf("steer_deg") }));
-  if (latSlip) warn("suspected_unit_error", `${latSlip}. Understeer gradients are not estimated until then`);
-  const understeerUnsound = steerLatWrong || yawLatWrong || unitSlip?.speed === true || latSlip !== null;
+  // lat_accel or steer unit scales the terms of the steering relation itself.
+  const understeerUnsound = steerLatWrong || yawLatWrong || unitSlip?.speed === true || latSlip !== null || steerSlip !== null || rateSlip !== null;
 
   const emptyBands = s.opts.bandEdgesKmh.slice(0, -1).map((lo, b) => [lo, s.opts.bandEdgesKmh[b + 1], s.bandRows[b]] as const).filter((x) => x[2] === 0);
   if (emptyBands.length) warn("empty_band", `no samples in ${emptyBands.map(([lo, hi]) => `${lo}–${hi}`).join(", ")} km/h: those bands have no figures`);

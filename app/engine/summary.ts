@@ -79,7 +79,7 @@ export interface SummaryPart {
 
 const SUM_KEYS = ["n", "st", "sq", "stt", "stq", "sqq", "sf", "stf", "sqf", "sff", "sr", "str", "sqr", "srr"] as const;
 const US_SCALARS = ["offsetN", "offsetSum", "offsetSumSq", "offsetBlocks", "offsetBlockSum", "offsetBlockSumSq", "signDot", "signNorm"] as const;
-const SIGN_KEYS = ["n", "sd", "sdd", "sa", "saa", "sad", "sf", "sdf", "sr", "sdr"] as const;
+const SIGN_KEYS = ["n", "sd", "sdd", "sa", "saa", "sad", "sf", "sdf", "sr", "sdr", "sq", "sqq", "sdq", "sqf", "sqr"] as const;
 
 /**
  * Smoother slots. Speed and long acceleration are smoothed like the dampers (so q and the
@@ -117,10 +117,10 @@ export class SummaryBuilder {
   readonly static4 = new Float64Array(4);
   /**
    * Sign checks against the rate of change of speed d = dv/dt (g), which no channel's sign can spoil:
-   * sums of d, the logged ax (g) and the axle damper sums, for long_accel against d and each axle's
-   * pitch under braking.
+   * sums of d, the logged ax (g), the axle damper sums and w = v²/1000 (aero load grows with it), for
+   * long_accel against d and each axle's pitch under braking with the aero held apart.
    */
-  readonly sign = { n: 0, sd: 0, sdd: 0, sa: 0, saa: 0, sad: 0, sf: 0, sdf: 0, sr: 0, sdr: 0 };
+  readonly sign = { n: 0, sd: 0, sdd: 0, sa: 0, saa: 0, sad: 0, sf: 0, sdf: 0, sr: 0, sdr: 0, sq: 0, sqq: 0, sdq: 0, sqf: 0, sqr: 0 };
   yawSignDot = 0; yawSignN = 0;
   /** Time-block ownership (see TimeState): the whole log unless this builder runs one part of it. */
   ownFrom = -Infinity; ownTo = Infinity; owned = true; passedEnd = false;
@@ -334,6 +334,7 @@ export class SummaryBuilder {
     const hist = this.contactHist;
     let waiting = 0;
     let sgN = sign.n, sgD = sign.sd, sgDD = sign.sdd, sgA = sign.sa, sgAA = sign.saa, sgAD = sign.sad, sgF = sign.sf, sgDF = sign.sdf, sgR = sign.sr, sgDR = sign.sdr;
+    let sgQ = sign.sq, sgQQ = sign.sqq, sgDQ = sign.sdq, sgQF = sign.sqf, sgQR = sign.sqr;
     const sV = sl[V];
     if (this.tauBuf.length < count) { this.tauBuf = new Float64Array(count); this.bandBuf = new Int32Array(count); this.flagBuf = new Uint8Array(count); }
     const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
@@ -390,8 +391,10 @@ export class SummaryBuilder {
         const dv = sV[j];
         if (v > 30 / 3.6 && Math.abs(dv) > 0.05 * G && ax === ax) {
           const d = dv * INV_G, axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
+          const w = v * v * 1e-3;
           sgN++; sgD += d; sgDD += d * d; sgA += axG; sgAA += axG * axG; sgAD += axG * d;
           sgF += sf; sgDF += d * sf; sgR += sr; sgDR += d * sr;
+          sgQ += w; sgQQ += w * w; sgDQ += d * w; sgQF += w * sf; sgQR += w * sr;
         }
         // Aero: gated, load-transfer-corrected samples (corners and moderate acceleration included).
         // One branch for all gates (bitwise &): noisy data makes each separate test hard to predict.
@@ -424,6 +427,7 @@ export class SummaryBuilder {
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     sign.n = sgN; sign.sd = sgD; sign.sdd = sgDD; sign.sa = sgA; sign.saa = sgAA; sign.sad = sgAD;
     sign.sf = sgF; sign.sdf = sgDF; sign.sr = sgR; sign.sdr = sgDR;
+    sign.sq = sgQ; sign.sqq = sgQQ; sign.sdq = sgDQ; sign.sqf = sgQF; sign.sqr = sgQR;
     this.aeroWaitingStatic += waiting;
     const part = this.part;
     if (part?.onSeed && !this.seedSent && (estN >= estMax || !collectEst) && (refF === refF || st !== null)) {

@@ -27,7 +27,7 @@ const SLIPS: { factor: number; problem: string; speed: boolean }[] = [
 export function longAccelScaleProblem(scale: number): { problem: string; speed: boolean } | null {
   if (!Number.isFinite(scale) || scale <= 0 || (scale >= SCALE_OK[0] && scale <= SCALE_OK[1])) return null;
   for (const s of SLIPS) if (Math.abs(Math.log(scale / s.factor)) < Math.log(1.15)) return { problem: s.problem, speed: s.speed };
-  return { problem: `long_accel and the change of speed disagree by a factor of ${scale.toFixed(2)}: check the units of speed and long_accel in the channel map`, speed: true };
+  return { problem: `long_accel and the change of speed disagree by a factor of ${scale.toPrecision(3)}: check the units of speed and long_accel in the channel map`, speed: true };
 }
 
 /**
@@ -46,17 +46,77 @@ export function latAccelScaleProblem(peaks: { latG: number; steerDeg: number }):
   return null;
 }
 
-/** The 90th percentiles of per-bucket peak |ay| (g) and |steer| (deg) over running buckets (speed ≥ 80 km/h), from trace buckets in SI; NaN under 50 buckets. */
-export function cornerPeaks(buckets: number, channels: number, lo: Float64Array, hi: Float64Array, idx: { speed: number; lat: number; steer: number }): { latG: number; steerDeg: number } {
-  const lat: number[] = [], steer: number[] = [];
+/**
+ * Time by the log's own rate: loggers write from 1 Hz to a few kHz (common practice). A rate under
+ * 1 Hz over a log of many rows is milliseconds mapped as seconds; over 5 kHz the other way round.
+ */
+export function sampleRateProblem(rateHz: number, rows: number): string | null {
+  if (!Number.isFinite(rateHz) || rows < 200) return null;
+  if (rateHz < 1) return `the log's rate comes out at ${rateHz.toPrecision(2)} Hz: time is probably logged in ms but mapped as s`;
+  if (rateHz > 5000) return `the log's rate comes out at ${rateHz.toPrecision(2)} Hz: time is probably logged in s but mapped as ms`;
+  return null;
+}
+
+/**
+ * Damper travel by its range over running (the 5th to the 95th percentile of the trace buckets'
+ * lows and highs): over a minute or more of a stint that spans 60 km/h of speed, with its braking, cornering and
+ * downforce, a racing damper works over 10–80 mm (common practice). Under 2 mm is inches or metres
+ * mapped as mm; over 200 mm is mm mapped as inches (or as metres). Call it only for such a stint.
+ */
+export function damperRangeProblem(channel: string, rangeMm: number): string | null {
+  if (!Number.isFinite(rangeMm)) return null;
+  if (rangeMm < 2) return `${channel} moves only ${rangeMm.toFixed(2)} mm over the stint: it is probably logged in inches or metres but mapped as mm`;
+  if (rangeMm > 200) return `${channel} moves ${rangeMm.toFixed(0)} mm over the stint: it is probably logged in mm but mapped as inches or metres`;
+  return null;
+}
+
+/**
+ * Steering by the path it drives: in corners the steering-wheel angle is about N·57.3·L/R plus the
+ * understeer angle (the steady-state relation, Gillespie ch. 6, from memory), so it runs at one to
+ * a few times the kinematic angle. `ratio` = the 90th percentiles' quotient, logged / kinematic.
+ */
+export function steerScaleProblem(ratio: number): string | null {
+  if (!Number.isFinite(ratio) || (ratio >= 0.3 && ratio <= 15)) return null;
+  const times = ratio < 1 ? `about 1/${(1 / ratio).toFixed(0)} of` : `about ${ratio.toFixed(0)} times`;
+  const unit = ratio < 1 / 20 ? "; it is probably logged in rad but mapped as deg" : ratio > 20 ? "; it is probably logged in deg but mapped as rad" : "";
+  return `steer reads ${times} the steering the corners need (steering ratio × 57.3·L/R)${unit || ": check steer's unit (deg or rad) and the car's steering_ratio"}`;
+}
+
+/** Percentile p (0–1) of a list (sorted in place); NaN under 50 values. */
+function percentile(a: number[], p: number): number {
+  return a.length < 50 ? NaN : a.sort((x, y) => x - y)[Math.floor(p * (a.length - 1))];
+}
+
+/** Sizes of the mapped channels over running buckets (speed ≥ 80 km/h; damper range over all moving buckets), from the traces in SI. */
+export function traceSizes(
+  buckets: number, channels: number, lo: Float64Array, hi: Float64Array,
+  idx: { speed: number; lat: number; steer: number; dampers: number[] }, steeringRatio: number, wheelbaseM: number,
+): { latG: number; steerDeg: number; steerRatio: number; damperRangeMm: number[]; speedSpanKmh: number } {
+  const lat: number[] = [], steer: number[] = [], kin: number[] = [], vLo: number[] = [], vHi: number[] = [];
+  const dLo: number[][] = idx.dampers.map(() => []), dHi: number[][] = idx.dampers.map(() => []);
   for (let b = 0; b < buckets; b++) {
-    const o = b * channels;
-    if (!(hi[o + idx.speed] >= 80 / 3.6)) continue;
-    const p = Math.max(Math.abs(lo[o + idx.lat]), Math.abs(hi[o + idx.lat]));
-    if (Number.isFinite(p)) lat.push(p / G);
-    const q = Math.max(Math.abs(lo[o + idx.steer]), Math.abs(hi[o + idx.steer]));
-    if (Number.isFinite(q)) steer.push(q);
+    const o = b * channels, v = hi[o + idx.speed];
+    if (!(v >= 20 / 3.6)) continue;
+    vHi.push(v);
+    if (Number.isFinite(lo[o + idx.speed])) vLo.push(lo[o + idx.speed]);
+    idx.dampers.forEach((k, i) => {
+      if (Number.isFinite(lo[o + k]) && Number.isFinite(hi[o + k])) { dLo[i].push(lo[o + k]); dHi[i].push(hi[o + k]); }
+    });
+    if (!(v >= 80 / 3.6)) continue;
+    const ay = Math.max(Math.abs(lo[o + idx.lat]), Math.abs(hi[o + idx.lat]));
+    const sw = Math.max(Math.abs(lo[o + idx.steer]), Math.abs(hi[o + idx.steer]));
+    if (Number.isFinite(ay)) {
+      lat.push(ay / G);
+      kin.push((steeringRatio * (180 / Math.PI) * wheelbaseM * ay) / (v * v));
+    }
+    if (Number.isFinite(sw)) steer.push(sw);
   }
-  const p90 = (a: number[]) => (a.length < 50 ? NaN : a.sort((x, y) => x - y)[Math.floor(0.9 * (a.length - 1))]);
-  return { latG: p90(lat), steerDeg: p90(steer) };
+  const steerP90 = percentile(steer, 0.9);
+  return {
+    latG: percentile(lat, 0.9),
+    steerDeg: steerP90,
+    steerRatio: steerP90 / percentile(kin, 0.9),
+    damperRangeMm: dLo.map((l, i) => percentile(dHi[i], 0.95) - percentile(l, 0.05)),
+    speedSpanKmh: (percentile(vHi, 0.95) - percentile(vLo, 0.05)) * 3.6,
+  };
 }

@@ -192,6 +192,10 @@ describe("truth recovery: warnings the scenario should raise", () => {
     ["marlin-kestrel-semicolon.csv", "speed", "km/h", /speed is probably logged in mph but mapped as km\/h/, false, false],
     ["marlin-kestrel-semicolon.csv", "lat_accel", "g", /lat_accel .* logged in m\/s² but mapped as g/, true, false],
     ["vesper-kestrel-tab.csv", "lat_accel", "m/s2", /lat_accel .* logged in g but mapped as m\/s²/, true, false],
+    ["marlin-kestrel-comma.csv", "steer", "rad", /steer reads about \d+ times .* logged in deg but mapped as rad/, true, false],
+    ["marlin-kestrel-comma.csv", "damper_fl", "in", /damper_fl moves \d+ mm .* logged in mm but mapped as inches/, false, true],
+    ["marlin-kestrel-semicolon.csv", "damper_rr", "mm", /damper_rr moves only 0\.\d+ mm .* logged in inches or metres but mapped as mm/, false, true],
+    ["marlin-kestrel-comma.csv", "time", "ms", /time is probably logged in s but mapped as ms/, false, false],
   ] as const)("%s with %s mapped as %s: the unit slip is named and the figures resting on it are null", async (file, channel, unit, message, aeroKept, usKept) => {
     // Kinematics (a = dv/dt) and the size of cornering give the slips away (see unit-check.ts).
     const { s } = await analyse(file, (m) => { (m[channel] as { unit: string }).unit = unit; });
