@@ -22,7 +22,7 @@ import type { CarInput, ChannelBlock } from "./types";
 import { UndersteerAccumulator } from "./understeer";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { ROW_VALID, timeAndBandPass, understeerPass } from "./summary-rows";
-import { addStaticSample, CONTACT_SLOTS, contactSlot, STATIC_SUMS, staticEstimate } from "./static-estimate";
+import { addStaticSample, CONTACT_BIN_MM, CONTACT_BINS, CONTACT_LO_MM, CONTACT_SLOTS, STATIC_SUMS, staticEstimate } from "./static-estimate";
 
 export type { SessionSummary, FinishContext } from "./summary-types";
 export { TRACE_CHANNELS } from "./summary-traces";
@@ -32,6 +32,8 @@ const G = STANDARD_GRAVITY_M_S2;
 // Reciprocal: the row loop multiplies instead of dividing (a division costs several multiplies).
 const INV_G = 1 / G;
 const NO_CURVE = new Float64Array(2);
+// The contact histogram's layout (static-estimate.ts contactSlot, inlined in the row loop).
+const C_LO = CONTACT_LO_MM, C_PER_MM = 1 / CONTACT_BIN_MM, C_BINS = CONTACT_BINS, C_SLOTS = CONTACT_SLOTS;
 export type { SummaryOptions } from "./summary-options";
 
 /**
@@ -385,8 +387,10 @@ export class SummaryBuilder {
         if (needBump && staticKnown && v >= aeroMinV && Math.abs(ax) <= aeroMaxAx) {
           // Contact margin per axle: the more compressed wheel's travel from static, less the gap.
           const mf = xfl - sfl > xfr - sfr ? xfl - sfl : xfr - sfr, mr = xrl - srl > xrr - srr ? xrl - srl : xrr - srr;
-          hist[contactSlot(mf - gapF)]++;
-          hist[CONTACT_SLOTS + contactSlot(mr - gapR)]++;
+          // Slot 0 below the histogram, C_BINS + 1 above it (NaN and −∞ margins land in slot 0).
+          const bf = Math.floor((mf - gapF - C_LO) * C_PER_MM), br = Math.floor((mr - gapR - C_LO) * C_PER_MM);
+          hist[bf >= 0 ? (bf < C_BINS ? bf + 1 : C_BINS + 1) : 0]++;
+          hist[C_SLOTS + (br >= 0 ? (br < C_BINS ? br + 1 : C_BINS + 1) : 0)]++;
         }
         const dv = sV[j];
         if (v > 30 / 3.6 && Math.abs(dv) > 0.05 * G && ax === ax) {
