@@ -11,6 +11,7 @@
  * per-block means (samples are autocorrelated, raw counts make intervals far too narrow).
  */
 import { solveNormalEquations } from "./regression";
+import type { MultiFit } from "./regression";
 import { interval95 } from "./stats";
 
 /** Sums for regressors [1, τ, q] and responses front, rear. */
@@ -156,6 +157,11 @@ export interface AxleFit {
   intercept_n: number;
   drift_n_per_s: number;
   drift_se_n_per_s: number;
+  /**
+   * Block-fit (co)variances of the intercept and drift (0 for terms not fitted): the fitted static
+   * load at τ, intercept + drift·τ, is common to every sample at that time (see offsetVariance).
+   */
+  offset_cov: { aa: number; bb: number; ab: number };
   residual_sd_n: number;
 }
 
@@ -177,7 +183,7 @@ function columns(withIntercept: boolean, withDrift: boolean): number[] {
   return cols;
 }
 
-function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): { beta: Float64Array; se: Float64Array; rss: number; df: number } | null {
+function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): MultiFit | null {
   const xx = [
     [s.n, s.st, s.sq],
     [s.st, s.stt, s.stq],
@@ -192,6 +198,18 @@ function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): { beta: 
     cols.forEach((cj, j) => (xtx[i * k + j] = xx[ci][cj]));
   });
   return solveNormalEquations(xtx, xty, rear ? s.srr : s.sff, s.n, k);
+}
+
+function offsetCov(cov: Float64Array | null, k: number, ai: number, ti: number): AxleFit["offset_cov"] {
+  if (!cov) return { aa: 0, bb: 0, ab: 0 };
+  return { aa: ai >= 0 ? cov[ai * k + ai] : 0, bb: ti >= 0 ? cov[ti * k + ti] : 0, ab: ai >= 0 && ti >= 0 ? cov[ai * k + ti] : 0 };
+}
+
+/** Variance (N²) of an axle's fitted static load at τ (s): Var(a + b·τ) = σ²_a + τ²σ²_b + 2τ·σ_ab. */
+export function offsetVariance(fit: AxleFit, tauS: number): number {
+  const c = fit.offset_cov;
+  const v = c.aa + tauS * tauS * c.bb + 2 * tauS * c.ab;
+  return Number.isFinite(v) ? Math.max(0, v) : 0;
 }
 
 /** Fit both axles; null when the samples cannot support the model. */
@@ -213,6 +231,7 @@ export function fitAero(acc: AeroAccumulator, withIntercept: boolean, withDrift:
       intercept_n: withIntercept ? fit.beta[0] : 0,
       drift_n_per_s: ti >= 0 ? fit.beta[ti] : 0,
       drift_se_n_per_s: ti >= 0 && blockFit ? blockFit.se[ti] : NaN,
+      offset_cov: offsetCov(blockFit?.cov ?? null, k, withIntercept ? 0 : -1, ti),
       residual_sd_n: Math.sqrt(fit.rss / Math.max(1, fit.df)),
     };
   }

@@ -119,6 +119,8 @@ export interface MultiFit {
   beta: Float64Array;
   /** Standard errors of beta from the residual variance. */
   se: Float64Array;
+  /** Covariance matrix of beta (k×k, row-major): s²·(XᵀX)⁻¹. */
+  cov: Float64Array;
   rss: number;
   df: number;
 }
@@ -147,11 +149,13 @@ export function solveNormalEquations(xtx: ArrayLike<number>, xty: ArrayLike<numb
   const df = n - k;
   const s2 = rss / df;
   const se = new Float64Array(k);
+  const cov = new Float64Array(k * k).fill(NaN);
   for (let i = 0; i < k; i++) {
     const e = new Float64Array(k);
     e[i] = 1;
     const col = solveLinearSystem(a, e, k);
     se[i] = col ? Math.sqrt(Math.max(0, s2 * col[i]) ) * d[i] : NaN;
+    if (col) for (let j = 0; j < k; j++) cov[j * k + i] = s2 * col[j] * d[i] * d[j];
   }
-  return { beta, se, rss, df };
+  return { beta, se, cov, rss, df };
 }

@@ -1,5 +1,5 @@
 /** Turns the streaming statistics into the SessionSummary (fits, bands, warnings). */
-import { bandAeroLoadN, fitAero, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
+import { bandAeroLoadN, fitAero, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { StaticReference, SummaryBuilder } from "./summary";
@@ -185,7 +185,10 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     if (spread && Number.isFinite(bal) && spread.blocks >= MIN_BAND_BLOCKS) {
       const total = loadF + loadR;
       const gF = (100 * loadR) / (total * total), gR = (-100 * loadF) / (total * total);
-      const v = (gF * gF * spread.varF + gR * gR * spread.varR + 2 * gF * gR * spread.cov) / spread.blocks;
+      // Sampling spread of the band means, plus the fitted static load's uncertainty at the band's mean time.
+      const tau = a.st[b] / n;
+      const vF = spread.varF / spread.blocks + offsetVariance(fit!.front, tau), vR = spread.varR / spread.blocks + offsetVariance(fit!.rear, tau);
+      const v = gF * gF * vF + gR * gR * vR + (2 * gF * gR * spread.cov) / spread.blocks;
       balCi = interval95(bal, Math.sqrt(Math.max(0, v)), spread.blocks - 1);
     }
     bands.push({

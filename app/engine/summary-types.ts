@@ -24,9 +24,9 @@ export interface BandSummary {
   aero_load_rear_n: number | null;
   balance_front_pct: number | null;
   /**
-   * 95 % interval of the band's balance from its block means (1 s blocks with enough samples; the
-   * fit's intercept uncertainty, common to all bands, is not in it), so two sessions' bands can be
-   * compared; null below 5 blocks.
+   * 95 % interval of the band's balance: the spread of its block means (1 s blocks with enough
+   * samples) plus the fitted static load's uncertainty at the band's time, front and rear taken as
+   * independent (conservative); null below 5 blocks. compare.ts sets two sessions side by side.
    */
   balance_front_ci95_pct: [number, number] | null;
   /** Time blocks that held enough of the band's aero samples. */

@@ -97,8 +97,11 @@ describe("truth recovery at other logging rates", () => {
 describe("band balance intervals against repeated stints", () => {
   // A standard error is, by definition, the spread of the estimate over independent repetitions.
   // Eight stints of the same car and setup, differing only in the simulation's noise (seed): the
-  // spread of each band's balance across them must match the standard error its interval implies
-  // (half-width / 1.96) to within the uncertainty of an SD from eight values (generous: × 0.4–2.5).
+  // spread of each band's balance across them, against the standard error its interval implies
+  // (half-width / 1.96). An SD from eight values lies within × 0.58–1.42 of the true one 95 % of the
+  // time (χ² with 7 degrees of freedom), so the interval must not be narrower than that allows
+  // (sd/se < 1.6) and may be up to about twice too wide (sd/se > 0.3): the fit's static-load
+  // uncertainty is added to each axle as if front and rear were independent, which is conservative.
   it("matches the seed-to-seed spread of each band's balance", async () => {
     const seeds = [101, 102, 103, 104, 105, 106, 107, 108];
     const runs: SessionSummary[] = [];
@@ -117,8 +120,8 @@ describe("band balance intervals against repeated stints", () => {
       const mean = values.reduce((x, y) => x + y, 0) / values.length;
       const sd = Math.sqrt(values.reduce((x, y) => x + (y - mean) ** 2, 0) / (values.length - 1));
       const se = withCi.reduce((x, y) => x + (y.balance_front_ci95_pct![1] - y.balance_front_ci95_pct![0]) / 2 / 1.96, 0) / withCi.length;
-      expect(sd / se).toBeGreaterThan(0.4);
-      expect(sd / se).toBeLessThan(2.5);
+      expect(sd / se).toBeGreaterThan(0.3);
+      expect(sd / se).toBeLessThan(1.6);
       checked++;
     }
     expect(checked).toBeGreaterThanOrEqual(3);
