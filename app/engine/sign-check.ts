@@ -22,7 +22,7 @@
 import { EngineError } from "./errors";
 import { BlockSmoother } from "./filters";
 import { ingestLog } from "./ingest";
-import { solveNormalEquations } from "./regression";
+import { LineAccumulator, solveNormalEquations } from "./regression";
 import { longAccelScaleProblem } from "./unit-check";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import type { ChannelBlock, ChannelMap, ChannelName } from "./types";
@@ -62,22 +62,14 @@ function wholeRows(head: Uint8Array): Uint8Array {
   return head.subarray(0, end);
 }
 
-class Correlation {
-  n = 0; sx = 0; sy = 0; sxx = 0; syy = 0; sxy = 0;
-  add(x: number, y: number): void {
-    this.n++; this.sx += x; this.sy += y; this.sxx += x * x; this.syy += y * y; this.sxy += x * y;
-  }
-  /** σ(y)/σ(x): the size of y against x (both noisy, so not the regression slope). */
-  get scale(): number {
-    const n = this.n;
-    const vx = this.sxx - (this.sx * this.sx) / n, vy = this.syy - (this.sy * this.sy) / n;
-    return n > 2 && vx > 0 ? Math.sqrt(vy / vx) : NaN;
-  }
-  get r(): number {
-    const n = this.n;
-    const vx = this.sxx - (this.sx * this.sx) / n, vy = this.syy - (this.sy * this.sy) / n;
-    return n > 2 && vx > 0 && vy > 0 ? (this.sxy - (this.sx * this.sy) / n) / Math.sqrt(vx * vy) : NaN;
-  }
+/** Pearson correlation of a line accumulator's x and y; NaN without spread. */
+function correlation(a: LineAccumulator): number {
+  return a.n > 2 && a.cxx > 0 && a.cyy > 0 ? a.cxy / Math.sqrt(a.cxx * a.cyy) : NaN;
+}
+
+/** σ(y)/σ(x): the size of y against x (both noisy, so not the regression slope). */
+function sizeRatio(a: LineAccumulator): number {
+  return a.n > 2 && a.cxx > 0 ? Math.sqrt(a.cyy / a.cxx) : NaN;
 }
 
 /** Normal equations for x = a + b·d + c·q, one per damper corner. */
@@ -111,10 +103,10 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   const present = CHANNELS.map((c) => map[c] !== undefined);
   const sm = new BlockSmoother(CHANNELS.map(() => h), dt, CHANNELS.map((_, i) => i === V));
 
-  const accel = new Correlation();
+  const accel = new LineAccumulator();
   let accelEvents = 0;
   const dampers = DAMPERS.map(() => new DamperFit());
-  const steerLat = new Correlation(), yawLat = new Correlation(), steerYaw = new Correlation();
+  const steerLat = new LineAccumulator(), yawLat = new LineAccumulator(), steerYaw = new LineAccumulator();
   const cols: (Float64Array | null)[] = new Array(CHANNELS.length).fill(null);
   const consume = (count: number) => {
     const m = sm.mean, dv = sm.slope[V];
@@ -148,7 +140,7 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   consume(sm.flush());
 
   const out: SignCheck[] = [];
-  if (present[AX]) out.push(...longAccelChecks(accel.r, accel.scale, accelEvents));
+  if (present[AX]) out.push(...longAccelChecks(correlation(accel), sizeRatio(accel), accelEvents));
   DAMPERS.forEach((ch, c) => {
     if (present[D0 + c]) out.push(damperCheck(ch, c < 2, dampers[c]));
   });
@@ -184,8 +176,11 @@ function damperCheck(channel: (typeof DAMPERS)[number], front: boolean, f: Dampe
   return { channel, verdict: "unclear", detail: "pitch and downforce do not tell a clear sign at the start of the log" };
 }
 
-function lateralChecks(hasSteer: boolean, hasYaw: boolean, steerLat: Correlation, yawLat: Correlation, steerYaw: Correlation): SignCheck[] {
-  const sign = (c: Correlation) => (c.n < MIN_EVENT_SAMPLES || !Number.isFinite(c.r) ? 0 : c.r >= AGREE_R ? 1 : c.r <= -AGREE_R ? -1 : 0);
+function lateralChecks(hasSteer: boolean, hasYaw: boolean, steerLat: LineAccumulator, yawLat: LineAccumulator, steerYaw: LineAccumulator): SignCheck[] {
+  const sign = (c: LineAccumulator) => {
+    const r = correlation(c);
+    return c.n < MIN_EVENT_SAMPLES || !Number.isFinite(r) ? 0 : r >= AGREE_R ? 1 : r <= -AGREE_R ? -1 : 0;
+  };
   const few = "too little cornering above 36 km/h at the start of the log to check the sign";
   const names: ChannelName[] = ["lat_accel", ...(hasSteer ? (["steer"] as const) : []), ...(hasYaw ? (["yaw_rate"] as const) : [])];
   const all = (verdict: SignCheck["verdict"], detail: string) => names.map((channel) => ({ channel, verdict, detail }));

@@ -38,15 +38,15 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   // the other way would turn the load-transfer correction round, so no aero figures are given then.
   const sign = s.sign;
   const cov = (sx: number, sy: number, sxy: number) => sxy / sign.n - (sx / sign.n) * (sy / sign.n);
-  const varD = cov(sign.sd, sign.sd, sign.sdd);
-  const axR = sign.n >= MIN_SIGN_SAMPLES ? cov(sign.sa, sign.sd, sign.sad) / Math.sqrt(varD * cov(sign.sa, sign.sa, sign.saa)) : NaN;
+  const varD = cov(sign.sd, sign.sd, sign.sdd), varA = cov(sign.sa, sign.sa, sign.saa);
+  const axR = sign.n >= MIN_SIGN_SAMPLES ? cov(sign.sa, sign.sd, sign.sad) / Math.sqrt(varD * varA) : NaN;
   const axInverted = axR < -0.5;
   if (axInverted) warn("suspected_sign_error", `long_accel reads opposite to the change of speed (correlation ${axR.toFixed(2)}): invert it in the channel map (braking negative). ClA and balance are not estimated until then: the load-transfer correction would go the wrong way`);
   // Units by the same kinematics: σ(long_accel) / σ(dv/dt) is ≈ 1 with the right units (unit-check.ts).
   // A time unit slip (the log's rate) explains any disagreement of sizes with dv/dt: it is named alone.
   const rateSlip = sampleRateProblem(s.sampleRateHz, s.rows);
   if (rateSlip) warn("suspected_unit_error", `${rateSlip}. ClA, balance and understeer gradients are not estimated until then`);
-  const unitSlip = axInverted || rateSlip || !(axR > 0.5) ? null : longAccelScaleProblem(Math.sqrt(cov(sign.sa, sign.sa, sign.saa) / varD));
+  const unitSlip = axInverted || rateSlip || !(axR > 0.5) ? null : longAccelScaleProblem(Math.sqrt(varA / varD));
   if (unitSlip) warn("suspected_unit_error", `${unitSlip.problem}. ${unitSlip.speed ? "ClA, balance and understeer gradients are" : "ClA and balance are"} not estimated until then`);
   // Sizes of the other channels, read off the decimated traces (unit-check.ts).
   const tr = s.traces.state();
