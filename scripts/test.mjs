@@ -127,7 +127,7 @@ async function provision() {
 async function main() {
   lock = await acquireRunLock("test", path.join("scripts", "test.mjs"));
   const started = Date.now();
-  const portsFree = await stage("Ports free (3100 app, 2526 mail)", async () => {
+  const portsFree = await stage(`Ports free (${instance.appPort} app, ${instance.smtpPort} mail)`, async () => {
     await assertPortFree(instance.appHost, instance.appPort, "Another npm test may be serving there; stop it first.");
     await assertPortFree("127.0.0.1", instance.smtpPort, "Another npm test may be running its mail catcher; stop it first.");
   });

@@ -7,7 +7,15 @@ import { fileURLToPath } from "node:url";
 export const repoRoot = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 export const dataDir = path.join(repoRoot, ".data");
 
-/** The two private instances: `npm start` (dev) and `npm test` (test). Ports never overlap. */
+/**
+ * The two private instances: `npm start` (dev) and `npm test` (test). Ports never overlap.
+ * RAKELINE_TEST_PORT_OFFSET shifts the test instance's three ports, so that several checkouts of the
+ * repository (git worktrees) can run `npm test` side by side on one machine.
+ */
+const testPortOffset = Number(process.env.RAKELINE_TEST_PORT_OFFSET || 0);
+if (!Number.isInteger(testPortOffset) || testPortOffset < 0 || testPortOffset > 1000) {
+  throw new Error(`RAKELINE_TEST_PORT_OFFSET must be a whole number from 0 to 1000, not "${process.env.RAKELINE_TEST_PORT_OFFSET}"`);
+}
 export const instances = {
   dev: {
     name: "dev",
@@ -23,13 +31,13 @@ export const instances = {
   test: {
     name: "test",
     datadir: path.join(dataDir, "test-db"),
-    dbPort: 3308,
+    dbPort: 3308 + testPortOffset,
     database: "rakeline_test",
     passwordFile: path.join(dataDir, "test-db-password"),
     mailDir: path.join(dataDir, "test-mail"),
-    smtpPort: 2526,
+    smtpPort: 2526 + testPortOffset,
     appHost: "127.0.0.1",
-    appPort: 3100,
+    appPort: 3100 + testPortOffset,
   },
 };
 
