@@ -2,3 +2,5 @@
 export * from "./auth";
 export * from "./garage";
 export * from "./sessions";
+export * from "./jobs";
+export * from "./api-tokens";
