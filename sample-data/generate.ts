@@ -42,17 +42,22 @@ const mm = (channel: ChannelName, column: string, invert = false): ColumnSpec =>
 const inch = (channel: ChannelName, column: string): ColumnSpec => ({ channel, column, unit: "in", factor: 1 / 25.4, decimals: 4 });
 const G = 9.80665;
 
+/**
+ * The demo logs. Column names are our own, one naming style per log as real exports differ (title case
+ * with a units row; lower-case words with units in brackets; quoted title case; run-together CamelCase
+ * with units in brackets); none follows any particular logger's convention.
+ */
 export const LOGS: LogSpec[] = [
   {
     file: "marlin-kestrel-comma.csv", car: MARLIN_SR2, carFile: "marlin-sr2.json", withStatic: true, track: KESTREL_BANK, laps: 4, rateHz: 100, seed: 11,
     dialect: { delimiter: ",", unitsRow: true, preamble: true },
     columns: [
-      { channel: "time", column: "Time", unit: "s", factor: 1, decimals: 3 },
-      { channel: "speed", column: "Speed", unit: "km/h", factor: 3.6, decimals: 2 },
-      { channel: "lat_accel", column: "Lat Accel", unit: "g", factor: 1 / G, decimals: 3 },
-      { channel: "long_accel", column: "Long Accel", unit: "g", factor: 1 / G, decimals: 3 },
-      { channel: "steer", column: "Steering", unit: "deg", factor: 1, decimals: 2 },
-      mm("damper_fl", "Damper FL"), mm("damper_fr", "Damper FR"), mm("damper_rl", "Damper RL"), mm("damper_rr", "Damper RR"),
+      { channel: "time", column: "Elapsed", unit: "s", factor: 1, decimals: 3 },
+      { channel: "speed", column: "Road Speed", unit: "km/h", factor: 3.6, decimals: 2 },
+      { channel: "lat_accel", column: "Lateral Acceleration", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "long_accel", column: "Longitudinal Acceleration", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "steer", column: "Handwheel Angle", unit: "deg", factor: 1, decimals: 2 },
+      mm("damper_fl", "Travel Front Left"), mm("damper_fr", "Travel Front Right"), mm("damper_rl", "Travel Rear Left"), mm("damper_rr", "Travel Rear Right"),
     ],
     metadata: { Club: CLUB, Venue: KESTREL_BANK.name, Car: MARLIN_SR2.name, Session: "Practice 2", Driver: "demo driver", Fuel: "40 L at start" },
   },
@@ -60,15 +65,15 @@ export const LOGS: LogSpec[] = [
     file: "marlin-kestrel-semicolon.csv", car: MARLIN_SR2, carFile: "marlin-sr2-no-static.json", withStatic: false, track: KESTREL_BANK, laps: 4, rateHz: 50, seed: 12,
     dialect: { delimiter: ";", decimalComma: true, preamble: true, preambleStyle: "colon", unitsInHeader: true },
     columns: [
-      { channel: "time", column: "t", unit: "ms", factor: 1000, decimals: 0 },
-      { channel: "speed", column: "v_ground", unit: "mph", factor: 1 / 0.44704, decimals: 3 },
-      { channel: "lat_accel", column: "acc_y", unit: "m/s2", factor: 1, decimals: 3 },
-      { channel: "long_accel", column: "acc_x", unit: "m/s2", factor: 1, decimals: 3 },
-      { channel: "steer", column: "steer_wheel", unit: "deg", factor: 1, invert: true, decimals: 2 },
-      inch("damper_fl", "susp_fl"), inch("damper_fr", "susp_fr"), inch("damper_rl", "susp_rl"), inch("damper_rr", "susp_rr"),
-      { channel: "ride_height_front", column: "rh_front", unit: "mm", factor: 1, decimals: 1 },
-      { channel: "ride_height_rear", column: "rh_rear", unit: "mm", factor: 1, decimals: 1 },
-      { channel: "yaw_rate", column: "yaw", unit: "deg/s", factor: 1, decimals: 2 },
+      { channel: "time", column: "run clock", unit: "ms", factor: 1000, decimals: 0 },
+      { channel: "speed", column: "speed over ground", unit: "mph", factor: 1 / 0.44704, decimals: 3 },
+      { channel: "lat_accel", column: "accel across", unit: "m/s2", factor: 1, decimals: 3 },
+      { channel: "long_accel", column: "accel along", unit: "m/s2", factor: 1, decimals: 3 },
+      { channel: "steer", column: "steer input", unit: "deg", factor: 1, invert: true, decimals: 2 },
+      inch("damper_fl", "strut lf"), inch("damper_fr", "strut rf"), inch("damper_rl", "strut lr"), inch("damper_rr", "strut rr"),
+      { channel: "ride_height_front", column: "clearance front", unit: "mm", factor: 1, decimals: 1 },
+      { channel: "ride_height_rear", column: "clearance rear", unit: "mm", factor: 1, decimals: 1 },
+      { channel: "yaw_rate", column: "turn rate", unit: "deg/s", factor: 1, decimals: 2 },
     ],
     dropouts: { share: 0.002, channels: ["damper_fl", "damper_rr", "ride_height_front", "lat_accel"], gapChannel: "damper_rr", gapS: 0.4 },
     metadata: { Club: CLUB, Venue: KESTREL_BANK.name, Car: MARLIN_SR2.name, Session: "Race 1", Logger: "demo logger, 50 Hz" },
@@ -77,12 +82,12 @@ export const LOGS: LogSpec[] = [
     file: "vesper-kestrel-tab.csv", car: VESPER_GT4R, carFile: "vesper-gt4r.json", withStatic: false, track: KESTREL_BANK, laps: 4, rateHz: 50, seed: 21,
     dialect: { delimiter: "\t", unitsRow: true, quoteHeader: true, crlf: true, bom: true },
     columns: [
-      { channel: "time", column: "Time", unit: "s", factor: 1, decimals: 3 },
-      { channel: "speed", column: "Wheel Speed", unit: "m/s", factor: 1, decimals: 3 },
-      { channel: "lat_accel", column: "G Lateral", unit: "g", factor: 1 / G, decimals: 3 },
-      { channel: "long_accel", column: "G Longitudinal", unit: "g", factor: 1 / G, invert: true, decimals: 3 },
-      { channel: "steer", column: "Steer Angle", unit: "deg", factor: 1, decimals: 2 },
-      mm("damper_fl", "Shock FL"), mm("damper_fr", "Shock FR"), mm("damper_rl", "Shock RL", true), mm("damper_rr", "Shock RR", true),
+      { channel: "time", column: "Time Since Start", unit: "s", factor: 1, decimals: 3 },
+      { channel: "speed", column: "Car Speed", unit: "m/s", factor: 1, decimals: 3 },
+      { channel: "lat_accel", column: "Cross Accel", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "long_accel", column: "Forward Accel", unit: "g", factor: 1 / G, invert: true, decimals: 3 },
+      { channel: "steer", column: "Steering Position", unit: "deg", factor: 1, decimals: 2 },
+      mm("damper_fl", "Stroke Front L"), mm("damper_fr", "Stroke Front R"), mm("damper_rl", "Stroke Rear L", true), mm("damper_rr", "Stroke Rear R", true),
     ],
     dropouts: { share: 0.001, channels: ["speed", "damper_fr"] },
     metadata: {},
@@ -91,12 +96,12 @@ export const LOGS: LogSpec[] = [
     file: "vesper-coldwater-comma.csv", car: VESPER_GT4R, carFile: "vesper-gt4r.json", withStatic: false, track: COLDWATER_RIDGE, laps: 1, rateHz: 100, seed: 31,
     dialect: { delimiter: ",", preamble: true, unitsInHeader: true },
     columns: [
-      { channel: "time", column: "Time", unit: "s", factor: 1, decimals: 3 },
-      { channel: "speed", column: "Speed", unit: "km/h", factor: 3.6, decimals: 2 },
-      { channel: "lat_accel", column: "LatG", unit: "g", factor: 1 / G, decimals: 3 },
-      { channel: "long_accel", column: "LongG", unit: "g", factor: 1 / G, decimals: 3 },
-      { channel: "steer", column: "Steer", unit: "deg", factor: 1, decimals: 2 },
-      mm("damper_fl", "DampFL"), mm("damper_fr", "DampFR"), mm("damper_rl", "DampRL"), mm("damper_rr", "DampRR"),
+      { channel: "time", column: "RunTime", unit: "s", factor: 1, decimals: 3 },
+      { channel: "speed", column: "RoadSpd", unit: "km/h", factor: 3.6, decimals: 2 },
+      { channel: "lat_accel", column: "SideAcc", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "long_accel", column: "FwdAcc", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "steer", column: "SteerPos", unit: "deg", factor: 1, decimals: 2 },
+      mm("damper_fl", "TravelFL"), mm("damper_fr", "TravelFR"), mm("damper_rl", "TravelRL"), mm("damper_rr", "TravelRR"),
     ],
     metadata: { Club: CLUB, Venue: COLDWATER_RIDGE.name, Car: VESPER_GT4R.name, Session: "Timed run 1" },
   },

@@ -86,7 +86,7 @@ const DEFAULT_UNIT: Record<ChannelKind, string> = {
 export function normaliseName(name: string): string {
   return name
     .replace(/[[(][^\])]*[\])]\s*$/, "")
-    // camelCase and run-together words: "LatG" → "lat g", "DampFL" → "damp fl".
+    // camelCase and run-together words: "SideAcc" → "side acc", "TravelFL" → "travel fl".
     .replace(/([a-z])([A-Z])/g, "$1 $2")
     .toLowerCase()
     .replace(/[_\-./:]+/g, " ")
@@ -95,11 +95,12 @@ export function normaliseName(name: string): string {
     .trim();
 }
 
+// Corner codes (FL or LF…), spelled out ("front left", "left front") or axle word plus side letter ("front l").
 const CORNERS: [RegExp, "fl" | "fr" | "rl" | "rr"][] = [
-  [/\b(fl|lf)\b|front left|left front/, "fl"],
-  [/\b(fr|rf)\b|front right|right front/, "fr"],
-  [/\b(rl|lr)\b|rear left|left rear/, "rl"],
-  [/\brr\b|rear right|right rear/, "rr"],
+  [/\b(fl|lf)\b|\bfront (left|l)\b|\b(left|l) front\b/, "fl"],
+  [/\b(fr|rf)\b|\bfront (right|r)\b|\b(right|r) front\b/, "fr"],
+  [/\b(rl|lr)\b|\brear (left|l)\b|\b(left|l) rear\b/, "rl"],
+  [/\brr\b|\brear (right|r)\b|\b(right|r) rear\b/, "rr"],
 ];
 
 function cornerOf(n: string): "fl" | "fr" | "rl" | "rr" | null {
@@ -108,6 +109,9 @@ function cornerOf(n: string): "fl" | "fr" | "rl" | "rr" | null {
 }
 
 const ACCEL_WORD = /\b(g|gs|acc|accel|acceleration|force)\b/;
+/** Words for the two directions of acceleration (with ACCEL_WORD): across the car and along it. */
+const LATERAL_WORD = /\b(lat|lateral|cross|across|side|sideways|transverse)\b/;
+const LONGITUDINAL_WORD = /\b(long|lon|longitudinal|inline|along|forward|fwd|fore aft)\b/;
 
 /** How strongly a normalised column name suggests a channel (0 = not at all). */
 function nameScore(channel: ChannelName, n: string): number {
@@ -115,44 +119,44 @@ function nameScore(channel: ChannelName, n: string): number {
     case "time":
       if (/\b(lap|date|delta|split|sector)\b/.test(n)) return 0;
       if (n === "time") return 100;
-      if (/^(elapsed|session|log|run|logger|relative)( time)?$|^(time|elapsed) (s|sec|secs|seconds|ms)$/.test(n)) return 90;
+      if (/^(elapsed|session|log|run|logger|relative)( time| clock)?$|^(time|elapsed) (s|sec|secs|seconds|ms)$|^(time|elapsed|seconds) (since|from) (start|reset)$/.test(n)) return 90;
       if (/^timestamp|^time stamp/.test(n)) return 70;
       if (n === "t" || n === "seconds") return 60;
       return /\btime\b/.test(n) ? 30 : 0;
     case "speed":
       if (/\b(engine|rpm|fan|wind|shaft|pump|steer|steering|yaw)\b/.test(n)) return 0;
       if (/\bwheel\b/.test(n)) return 20;
-      if (/^(speed|vehicle speed|car speed|ground speed|road speed|v car|vcar|v ground|v)$/.test(n)) return 100;
-      if (/\bgps\b.*\bspeed\b|\bspeed\b.*\bgps\b/.test(n)) return 80;
-      if (/\bspeed\b|\bvelocity\b/.test(n)) return 60;
+      if (/^(speed|vehicle speed|car speed|ground speed|road speed|speed over ground|v car|vcar|v ground|v)$/.test(n)) return 100;
+      if (/\bgps\b.*\b(speed|spd)\b|\b(speed|spd)\b.*\bgps\b/.test(n)) return 80;
+      if (/\b(speed|spd|velocity)\b/.test(n)) return 60;
       return 0;
     case "lat_accel":
       if (/^(ay|a y|acc y|accel y|g y)$/.test(n)) return 80;
-      return /\blat(eral)?\b/.test(n) && ACCEL_WORD.test(n) ? 100 : /\blateral\b/.test(n) ? 60 : 0;
+      return LATERAL_WORD.test(n) && ACCEL_WORD.test(n) ? 100 : /\blateral\b/.test(n) ? 60 : 0;
     case "long_accel":
       if (/^(ax|a x|acc x|accel x|g x)$/.test(n)) return 80;
-      return /\b(long|lon|longitudinal|inline)\b/.test(n) && ACCEL_WORD.test(n) ? 100 : /\blongitudinal\b/.test(n) ? 60 : 0;
+      return LONGITUDINAL_WORD.test(n) && ACCEL_WORD.test(n) ? 100 : /\blongitudinal\b/.test(n) ? 60 : 0;
     case "steer":
       if (/\b(rate|speed|torque|velocity)\b/.test(n)) return 0;
-      if (/\bsteer(ing)?\b/.test(n)) return 100;
+      if (/\bsteer(ing)?\b|\bhand ?wheel\b/.test(n)) return 100;
       return n === "swa" ? 80 : 0;
     case "damper_fl":
     case "damper_fr":
     case "damper_rl":
     case "damper_rr": {
-      if (!/\b(damper|dampers|damp|shock|susp|suspension|travel|pot|strut)\b/.test(n)) return 0;
+      if (!/\b(damper|dampers|damp|shock|susp|suspension|travel|stroke|pot|strut)\b/.test(n)) return 0;
       if (/\b(speed|velocity|vel|rate|force|temp|pressure)\b/.test(n)) return 0;
       return cornerOf(n) === channel.slice(7) ? 100 : 0;
     }
     case "ride_height_front":
     case "ride_height_rear": {
-      if (!/\b(ride height|ride ht|rh|ride)\b/.test(n)) return 0;
+      if (!/\b(ride height|ride ht|rh|ride|clearance)\b/.test(n)) return 0;
       const front = /\b(front|f)\b/.test(n);
       const rear = /\b(rear|r)\b/.test(n);
       return (channel === "ride_height_front" ? front && !rear : rear && !front) ? 100 : 0;
     }
     case "yaw_rate":
-      if (/\byaw ?rate\b|\byaw (velocity|vel)\b|\bgyro z\b/.test(n)) return 100;
+      if (/\byaw ?rate\b|\byaw (velocity|vel)\b|\b(turn|heading) rate\b|\bgyro z\b/.test(n)) return 100;
       return /\byaw\b/.test(n) ? 60 : 0;
   }
 }
