@@ -11,7 +11,7 @@
  * scan ran at ~1000 MB/s, so each rate is also printed scaled by 1000 / (this machine's scan rate).
  */
 import { spawnSync } from "node:child_process";
-import { closeSync, createReadStream, existsSync, mkdirSync, openSync, readFileSync, statSync, writeFileSync, writeSync } from "node:fs";
+import { closeSync, createReadStream, existsSync, mkdirSync, openSync, readFileSync, readSync, statSync, writeFileSync, writeSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { exportHeaderText, exportRowsText } from "../sample-data/export-writer";
 import type { ExportChannel } from "../sample-data/export-writer";
@@ -32,25 +32,26 @@ const CAR: CarInput = { ...carFile(MARLIN_SR2, true), name: "Marlin SR2 (bench)"
 const SIM_LAPS = 10;
 const SIM_RATE_HZ = 100;
 
+// Column names of our own (like the demo logs'), in a spaced title-case style.
 const MAP: ChannelMap = {
-  time: { column: "Elapsed Time", unit: "s" },
-  speed: { column: "Ground Speed", unit: "km/h" },
-  lat_accel: { column: "G Lateral", unit: "g" },
-  long_accel: { column: "G Longitudinal", unit: "g" },
-  steer: { column: "Steering Wheel Angle", unit: "deg" },
-  damper_fl: { column: "Damper Pos FL", unit: "mm" },
-  damper_fr: { column: "Damper Pos FR", unit: "mm" },
-  damper_rl: { column: "Damper Pos RL", unit: "mm" },
-  damper_rr: { column: "Damper Pos RR", unit: "mm" },
+  time: { column: "Time From Start", unit: "s" },
+  speed: { column: "Road Speed", unit: "km/h" },
+  lat_accel: { column: "Accel Cross", unit: "g" },
+  long_accel: { column: "Accel Fore-Aft", unit: "g" },
+  steer: { column: "Handwheel Angle", unit: "deg" },
+  damper_fl: { column: "Travel FL", unit: "mm" },
+  damper_fr: { column: "Travel FR", unit: "mm" },
+  damper_rl: { column: "Travel RL", unit: "mm" },
+  damper_rr: { column: "Travel RR", unit: "mm" },
   ride_height_front: { column: "Ride Height Front", unit: "mm" },
   ride_height_rear: { column: "Ride Height Rear", unit: "mm" },
   yaw_rate: { column: "Yaw Rate", unit: "deg/s" },
 };
 
 const COLUMNS: [string, string, number][] = [
-  ["Elapsed Time", "s", 3], ["Ground Speed", "km/h", 2], ["G Lateral", "g", 3], ["G Longitudinal", "g", 3],
-  ["Steering Wheel Angle", "deg", 1], ["Damper Pos FL", "mm", 2], ["Damper Pos FR", "mm", 2],
-  ["Damper Pos RL", "mm", 2], ["Damper Pos RR", "mm", 2], ["Ride Height Front", "mm", 1],
+  ["Time From Start", "s", 3], ["Road Speed", "km/h", 2], ["Accel Cross", "g", 3], ["Accel Fore-Aft", "g", 3],
+  ["Handwheel Angle", "deg", 1], ["Travel FL", "mm", 2], ["Travel FR", "mm", 2],
+  ["Travel RL", "mm", 2], ["Travel RR", "mm", 2], ["Ride Height Front", "mm", 1],
   ["Ride Height Rear", "mm", 1], ["Yaw Rate", "deg/s", 2], ["Engine Speed", "rpm", 0], ["Throttle", "%", 1],
   ["Brake Pressure Front", "bar", 2], ["Brake Pressure Rear", "bar", 2], ["Gear", "", 0],
   ["Oil Temp", "degC", 1], ["Water Temp", "degC", 1], ["Fuel Level", "l", 2],
@@ -109,10 +110,23 @@ function generate(path: string, targetBytes: number): void {
   closeSync(fd);
 }
 
+/** A cached export written with other column names (an older bench) is generated afresh. */
+function startsWithHeader(path: string): boolean {
+  const header = exportHeaderText(COLUMNS.map(([name, unit]) => ({ name, unit })), {}, {});
+  const fd = openSync(path, "r");
+  try {
+    const buf = Buffer.alloc(Buffer.byteLength(header));
+    readSync(fd, buf, 0, buf.length, 0);
+    return buf.toString("utf8") === header;
+  } finally {
+    closeSync(fd);
+  }
+}
+
 function ensureFile(mb: number, regenerate: boolean): string {
   mkdirSync(LARGE, { recursive: true });
   const path = `${LARGE}bench-sim-${mb}mb.csv`;
-  if (regenerate || !existsSync(path) || statSync(path).size < mb * 1e6) {
+  if (regenerate || !existsSync(path) || statSync(path).size < mb * 1e6 || !startsWithHeader(path)) {
     const t0 = performance.now();
     process.stdout.write(`generating ${path} … `);
     generate(path, mb * 1e6);

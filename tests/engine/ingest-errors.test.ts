@@ -55,7 +55,7 @@ describe("ingestLog error paths", () => {
     const line = lines.findIndex((l) => l.startsWith("4.980,")) + 2; // the second 4.980 is one line later, 1-based
     const e = await failure(new TextEncoder().encode(text), STINT_MAP, 1000);
     expect(e.code).toBe("time_not_increasing");
-    expect(e.message).toBe(`time is not increasing at data row 251 (line ${line}): column "Elapsed Time" goes from 4.98 to 4.98 s; time must increase strictly from row to row`);
+    expect(e.message).toBe(`time is not increasing at data row 251 (line ${line}): column "Time From Start" goes from 4.98 to 4.98 s; time must increase strictly from row to row`);
   });
 
   it("time going backwards, in milliseconds", async () => {
@@ -78,14 +78,14 @@ describe("ingestLog error paths", () => {
   });
 
   it("a mapped column that is not in the file lists the columns that exist", async () => {
-    const map = { ...STINT_MAP, damper_rr: { column: "Shock RR", unit: "mm" } };
+    const map = { ...STINT_MAP, damper_rr: { column: "Stroke RR", unit: "mm" } };
     const e = await failure(bytesOf([stint(300)]), map);
     expect(e.code).toBe("column_missing");
-    expect(e.message).toMatch(/^column "Shock RR" mapped to damper_rr is not in the file; its columns are "Elapsed Time", "Ground Speed", .*"Ride Height Front"$/);
+    expect(e.message).toMatch(/^column "Stroke RR" mapped to damper_rr is not in the file; its columns are "Time From Start", "Road Speed", .*"Ride Height Front"$/);
   });
 
   it("an unknown unit lists the allowed ones", async () => {
-    const map = { ...STINT_MAP, damper_fl: { column: "Damper Pos FL", unit: "furlong" } };
+    const map = { ...STINT_MAP, damper_fl: { column: "Travel FL", unit: "furlong" } };
     const e = await failure(bytesOf([stint(300)]), map);
     expect(e.code).toBe("unknown_unit");
     expect(e.message).toBe('unit "furlong" for damper_fl is not one Rakeline reads; use one of mm, in, m');
@@ -104,6 +104,6 @@ describe("ingestLog error paths", () => {
     await expect(
       ingestLog(cutAt(bytes, []), { ...STINT_MAP, speed: { column: "Nope", unit: "km/h" } }, { onBlock: () => {}, onHeader: (h) => (columns = h.columns) }),
     ).rejects.toThrow(/column "Nope"/);
-    expect(columns[0]).toBe("Elapsed Time");
+    expect(columns[0]).toBe("Time From Start");
   });
 });

@@ -101,7 +101,7 @@ describe("rows split across chunk boundaries", () => {
   });
 
   it("handles quoted cells, a quoted line break in a text column and cells split inside quotes", async () => {
-    const lines = ["Time,Lap Note,Speed,G Lat,G Long,Steer,DFL,DFR,DRL,DRR"];
+    const lines = ["Time,Lap Note,Speed,Across,Along,Steer,DFL,DFR,DRL,DRR"];
     for (let i = 0; i < 230; i++) {
       const note = i === 100 ? '"pit call,\nbox this lap"' : i % 3 === 0 ? '"out lap ""cold"""' : "push";
       lines.push(`${(i * 0.05).toFixed(2)},${note},"${100 + i}",1.1,-0.2, "3.5" ,10,11,12,13`);
@@ -109,7 +109,7 @@ describe("rows split across chunk boundaries", () => {
     const bytes = new TextEncoder().encode(lines.join("\n") + "\n");
     const map = {
       time: { column: "Time", unit: "s" }, speed: { column: "Speed", unit: "m/s" },
-      lat_accel: { column: "G Lat", unit: "g" }, long_accel: { column: "G Long", unit: "g" },
+      lat_accel: { column: "Across", unit: "g" }, long_accel: { column: "Along", unit: "g" },
       steer: { column: "Steer", unit: "deg" }, damper_fl: { column: "DFL", unit: "mm" },
       damper_fr: { column: "DFR", unit: "mm" }, damper_rl: { column: "DRL", unit: "mm" }, damper_rr: { column: "DRR", unit: "mm" },
     };

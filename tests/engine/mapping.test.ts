@@ -5,8 +5,9 @@ import { REQUIRED_CHANNELS } from "~/engine/types";
 import type { LogHeader } from "~/engine/types";
 
 // The header styles below are invented for these tests; what they test is trade vocabulary
-// (common practice): corner codes FL/FR/RL/RR (also LF/RF/LR), "lateral"/"longitudinal" g,
-// steering wheel angle, damper (shock) position, ride height, yaw rate.
+// (common practice): corner codes FL/FR/RL/RR (also LF/RF/LR), an axle word with a side, lateral and
+// longitudinal acceleration (also across/along, side/forward), steering or handwheel angle, damper
+// travel (stroke, strut), ride height (ground clearance), yaw rate (turn or heading rate).
 const enc = (s: string) => new TextEncoder().encode(s);
 function headerOf(names: string[], units?: string[]): LogHeader {
   const lines = [names.map((n) => (n.includes(",") ? `"${n}"` : n)).join(",")];
@@ -26,67 +27,81 @@ function engineError(fn: () => unknown): EngineError {
 }
 
 describe("suggestChannelMap on realistic headers", () => {
-  it("names with units in brackets", () => {
-    const h = headerOf(["Time [s]", "Speed [km/h]", "GPS Speed [km/h]", "Engine Speed [rpm]", "Lat G [g]", "Long G [g]", "Steering Angle [deg]",
-      "Damper FL [mm]", "Damper FR [mm]", "Damper RL [mm]", "Damper RR [mm]", "GPS Lat [deg]", "GPS Long [deg]"]);
+  it("names with units in brackets, beside GPS and engine channels that must not be taken", () => {
+    const h = headerOf(["Elapsed [s]", "Vehicle Speed [km/h]", "GPS Speed [km/h]", "Engine Speed [rpm]", "Sideways Accel [g]", "Fore-Aft Accel [g]",
+      "Hand Wheel [deg]", "Damper Travel FL [mm]", "Damper Travel FR [mm]", "Damper Travel RL [mm]", "Damper Travel RR [mm]", "GPS Lat [deg]", "GPS Long [deg]"]);
     const { map, notes } = suggestChannelMap(h);
     expect(map).toEqual({
-      time: { column: "Time [s]", unit: "s" },
-      speed: { column: "Speed [km/h]", unit: "km/h" },
-      lat_accel: { column: "Lat G [g]", unit: "g" },
-      long_accel: { column: "Long G [g]", unit: "g" },
-      steer: { column: "Steering Angle [deg]", unit: "deg" },
-      damper_fl: { column: "Damper FL [mm]", unit: "mm" },
-      damper_fr: { column: "Damper FR [mm]", unit: "mm" },
-      damper_rl: { column: "Damper RL [mm]", unit: "mm" },
-      damper_rr: { column: "Damper RR [mm]", unit: "mm" },
+      time: { column: "Elapsed [s]", unit: "s" },
+      speed: { column: "Vehicle Speed [km/h]", unit: "km/h" },
+      lat_accel: { column: "Sideways Accel [g]", unit: "g" },
+      long_accel: { column: "Fore-Aft Accel [g]", unit: "g" },
+      steer: { column: "Hand Wheel [deg]", unit: "deg" },
+      damper_fl: { column: "Damper Travel FL [mm]", unit: "mm" },
+      damper_fr: { column: "Damper Travel FR [mm]", unit: "mm" },
+      damper_rl: { column: "Damper Travel RL [mm]", unit: "mm" },
+      damper_rr: { column: "Damper Travel RR [mm]", unit: "mm" },
     });
     expect(notes.join(" ")).not.toMatch(/no column found/);
   });
 
-  it("run-together camelCase names and short speed symbols", () => {
-    // Compact names as small loggers write them (invented for this test; vocabulary is common practice).
-    const h = headerOf(["TimeS", "v_ground", "LatG", "LongG", "SteerWheel", "DampFL", "DampFR", "DampRL", "DampRR"],
+  it("run-together camelCase names and a short speed symbol", () => {
+    const h = headerOf(["ElapsedSec", "vCar", "SideG", "FwdG", "HandWheel", "StrokeFL", "StrokeFR", "StrokeRL", "StrokeRR"],
       ["s", "mph", "g", "g", "deg", "mm", "mm", "mm", "mm"]);
     const { map, notes } = suggestChannelMap(h);
-    expect(map.speed).toEqual({ column: "v_ground", unit: "mph" });
-    expect(map.lat_accel).toEqual({ column: "LatG", unit: "g" });
-    expect(map.long_accel).toEqual({ column: "LongG", unit: "g" });
-    expect(map.steer!.column).toBe("SteerWheel");
-    expect([map.damper_fl!.column, map.damper_fr!.column, map.damper_rl!.column, map.damper_rr!.column]).toEqual(["DampFL", "DampFR", "DampRL", "DampRR"]);
+    expect(map.time).toEqual({ column: "ElapsedSec", unit: "s" });
+    expect(map.speed).toEqual({ column: "vCar", unit: "mph" });
+    expect(map.lat_accel).toEqual({ column: "SideG", unit: "g" });
+    expect(map.long_accel).toEqual({ column: "FwdG", unit: "g" });
+    expect(map.steer!.column).toBe("HandWheel");
+    expect([map.damper_fl!.column, map.damper_fr!.column, map.damper_rl!.column, map.damper_rr!.column]).toEqual(["StrokeFL", "StrokeFR", "StrokeRL", "StrokeRR"]);
     expect(notes.join(" ")).not.toMatch(/no column found/);
   });
 
   it("snake_case names with a units row, LF/RF corner codes, mph and inches", () => {
     const h = headerOf(
-      ["elapsed_time", "vehicle_speed", "accel_lateral", "accel_longitudinal", "steering_wheel_angle", "shock_pos_lf", "shock_pos_rf", "shock_pos_lr", "shock_pos_rr", "ride_height_front", "ride_height_rear", "yaw_rate"],
+      ["time_from_start", "car_spd", "transverse_accel", "along_accel", "steering_angle", "strut_travel_lf", "strut_travel_rf", "strut_travel_lr", "strut_travel_rr", "ground_clearance_front", "ground_clearance_rear", "heading_rate"],
       ["ms", "mph", "m/s^2", "m/s^2", "rad", "in", "in", "in", "in", "mm", "mm", "rad/s"],
     );
     const { map } = suggestChannelMap(h);
-    expect(map.time).toEqual({ column: "elapsed_time", unit: "ms" });
-    expect(map.speed).toEqual({ column: "vehicle_speed", unit: "mph" });
-    expect(map.lat_accel).toEqual({ column: "accel_lateral", unit: "m/s2" });
-    expect(map.long_accel).toEqual({ column: "accel_longitudinal", unit: "m/s2" });
-    expect(map.steer).toEqual({ column: "steering_wheel_angle", unit: "rad" });
-    expect(map.damper_fl!.column).toBe("shock_pos_lf");
-    expect(map.damper_fr!.column).toBe("shock_pos_rf");
-    expect(map.damper_rl!.column).toBe("shock_pos_lr");
-    expect(map.damper_rr).toEqual({ column: "shock_pos_rr", unit: "in" });
-    expect(map.ride_height_front!.column).toBe("ride_height_front");
-    expect(map.ride_height_rear!.column).toBe("ride_height_rear");
-    expect(map.yaw_rate).toEqual({ column: "yaw_rate", unit: "rad/s" });
+    expect(map.time).toEqual({ column: "time_from_start", unit: "ms" });
+    expect(map.speed).toEqual({ column: "car_spd", unit: "mph" });
+    expect(map.lat_accel).toEqual({ column: "transverse_accel", unit: "m/s2" });
+    expect(map.long_accel).toEqual({ column: "along_accel", unit: "m/s2" });
+    expect(map.steer).toEqual({ column: "steering_angle", unit: "rad" });
+    expect(map.damper_fl!.column).toBe("strut_travel_lf");
+    expect(map.damper_fr!.column).toBe("strut_travel_rf");
+    expect(map.damper_rl!.column).toBe("strut_travel_lr");
+    expect(map.damper_rr).toEqual({ column: "strut_travel_rr", unit: "in" });
+    expect(map.ride_height_front!.column).toBe("ground_clearance_front");
+    expect(map.ride_height_rear!.column).toBe("ground_clearance_rear");
+    expect(map.yaw_rate).toEqual({ column: "heading_rate", unit: "rad/s" });
   });
 
-  it("spelled-out corners, no units: proposes defaults and says to confirm them", () => {
-    const h = headerOf(["Session Time", "Lap Time", "Ground Speed", "Lateral Acceleration", "Longitudinal Acceleration", "Steer",
-      "Front Left Damper", "Front Right Damper", "Rear Left Damper", "Rear Right Damper", "Damper Velocity FL"]);
+  it("spelled-out corners, an axle word with a side letter, no units: proposes defaults and says to confirm them", () => {
+    const h = headerOf(["Run Time", "Lap Time", "Road Speed", "Lateral Acceleration", "Longitudinal Acceleration", "Steer",
+      "Left Front Travel", "Front R Travel", "Rear L Travel", "Right Rear Travel", "Travel Velocity FL"]);
     const { map, notes } = suggestChannelMap(h);
-    expect(map.time!.column).toBe("Session Time");
-    expect(map.speed!.column).toBe("Ground Speed");
-    expect(map.damper_fl!.column).toBe("Front Left Damper");
-    expect(map.damper_rr!.column).toBe("Rear Right Damper");
+    expect(map.time!.column).toBe("Run Time");
+    expect(map.speed!.column).toBe("Road Speed");
+    expect(map.damper_fl!.column).toBe("Left Front Travel");
+    expect(map.damper_fr!.column).toBe("Front R Travel");
+    expect(map.damper_rl!.column).toBe("Rear L Travel");
+    expect(map.damper_rr!.column).toBe("Right Rear Travel");
     expect(map.speed!.unit).toBe("km/h");
-    expect(notes).toContain('speed: "Ground Speed" has no unit in the file; km/h assumed — confirm');
+    expect(notes).toContain('speed: "Road Speed" has no unit in the file; km/h assumed — confirm');
+  });
+
+  it("words that only look like a channel are not taken: steering rate, wheel speed against road speed, side slip", () => {
+    const h = headerOf(["Time", "Road Speed", "Wheel Speed FL", "Steer Rate", "Handwheel Angle", "Side Slip", "Cross Accel", "Inline Accel"],
+      ["s", "km/h", "km/h", "deg/s", "deg", "deg", "g", "g"]);
+    const { map } = suggestChannelMap(h);
+    expect(map.speed!.column).toBe("Road Speed");
+    expect(map.steer!.column).toBe("Handwheel Angle");
+    expect(map.lat_accel!.column).toBe("Cross Accel");
+    expect(map.long_accel!.column).toBe("Inline Accel");
+    expect(Object.values(map).map((e) => e.column)).not.toContain("Side Slip");
+    expect(map.yaw_rate).toBeUndefined();
   });
 
   it("lists the required channels it could not find and flags a unit it cannot read", () => {
@@ -99,10 +114,10 @@ describe("suggestChannelMap on realistic headers", () => {
 });
 
 describe("validateChannelMap", () => {
-  const h = headerOf(["Time", "Speed", "LatG", "LongG", "Steer", "FL", "FR", "RL", "RR"]);
+  const h = headerOf(["Time", "Speed", "Across", "Along", "Steer", "FL", "FR", "RL", "RR"]);
   const good = {
-    time: { column: "Time", unit: "s" }, speed: { column: "Speed", unit: "KM/H" }, lat_accel: { column: "LatG", unit: "g" },
-    long_accel: { column: "LongG", unit: "m/s²" }, steer: { column: "Steer", unit: "deg", invert: true }, damper_fl: { column: "FL", unit: "mm" },
+    time: { column: "Time", unit: "s" }, speed: { column: "Speed", unit: "KM/H" }, lat_accel: { column: "Across", unit: "g" },
+    long_accel: { column: "Along", unit: "m/s²" }, steer: { column: "Steer", unit: "deg", invert: true }, damper_fl: { column: "FL", unit: "mm" },
     damper_fr: { column: "FR", unit: "mm" }, damper_rl: { column: "RL", unit: "mm" }, damper_rr: { column: "RR", unit: "mm" },
   };
 
@@ -121,9 +136,9 @@ describe("validateChannelMap", () => {
   });
 
   it("mapped column absent: lists the columns that exist", () => {
-    const e = engineError(() => validateChannelMap({ ...good, damper_rr: { column: "Damper RR", unit: "mm" } }, h));
+    const e = engineError(() => validateChannelMap({ ...good, damper_rr: { column: "Travel RR", unit: "mm" } }, h));
     expect(e.code).toBe("column_missing");
-    expect(e.message).toBe('column "Damper RR" mapped to damper_rr is not in the file; its columns are "Time", "Speed", "LatG", "LongG", "Steer", "FL", "FR", "RL", "RR"');
+    expect(e.message).toBe('column "Travel RR" mapped to damper_rr is not in the file; its columns are "Time", "Speed", "Across", "Along", "Steer", "FL", "FR", "RL", "RR"');
   });
 
   it("bad shapes: not an object, missing channels, unknown channels, wrong field types, a column used twice", () => {
@@ -143,7 +158,7 @@ describe("validateChannelMap", () => {
   });
 
   it("a text column mapped to a channel", () => {
-    const text = headerOf(["Time", "Speed", "LatG", "LongG", "Steer", "FL", "FR", "RL", "RR"]);
+    const text = headerOf(["Time", "Speed", "Across", "Along", "Steer", "FL", "FR", "RL", "RR"]);
     const withNote = { ...text, skippedColumns: ["Steer"], numericColumns: text.numericColumns.filter((c) => c !== "Steer") };
     const e = engineError(() => validateChannelMap(good, withNote));
     expect(e.code).toBe("column_not_numeric");

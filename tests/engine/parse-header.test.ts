@@ -22,16 +22,16 @@ function expectEngineError(fn: () => unknown, code: string, text: RegExp) {
 
 describe("inspectLog finds the dialect", () => {
   it("comma file with a decimal point", () => {
-    const h = inspectLog(enc("Time,Speed,Lat G\n" + rows(20, (i) => `${i * 0.01},${100 + i}.5,0.${i}`) + "\n"));
+    const h = inspectLog(enc("Time,Speed,Side Accel\n" + rows(20, (i) => `${i * 0.01},${100 + i}.5,0.${i}`) + "\n"));
     expect(h.delimiter).toBe(",");
     expect(h.decimalComma).toBe(false);
-    expect(h.columns).toEqual(["Time", "Speed", "Lat G"]);
+    expect(h.columns).toEqual(["Time", "Speed", "Side Accel"]);
     expect(h.units).toEqual([null, null, null]);
     expect(h.headerLine).toBe(1);
   });
 
   it("semicolon file with a decimal comma", () => {
-    const h = inspectLog(enc("Time;Speed;Lat G\n" + rows(20, (i) => `${i},01;${100 + i},5;0,${i}`) + "\n"));
+    const h = inspectLog(enc("Time;Speed;Side Accel\n" + rows(20, (i) => `${i},01;${100 + i},5;0,${i}`) + "\n"));
     expect(h.delimiter).toBe(";");
     expect(h.decimalComma).toBe(true);
   });
@@ -44,10 +44,10 @@ describe("inspectLog finds the dialect", () => {
   });
 
   it("BOM, quoted header cells with a delimiter inside, and a units row", () => {
-    const text = '\uFEFF"Time","Speed, GPS","Damper FL"\n"s","km/h","mm"\n' + rows(20, (i) => `${i},${i * 2},${i / 4}`) + "\n";
+    const text = '\uFEFF"Time","Speed, GPS","Travel FL"\n"s","km/h","mm"\n' + rows(20, (i) => `${i},${i * 2},${i / 4}`) + "\n";
     const h = inspectLog(enc(text));
     expect(h.bom).toBe(true);
-    expect(h.columns).toEqual(["Time", "Speed, GPS", "Damper FL"]);
+    expect(h.columns).toEqual(["Time", "Speed, GPS", "Travel FL"]);
     expect(h.unitsRow).toBe(true);
     expect(h.units).toEqual(["s", "km/h", "mm"]);
   });
