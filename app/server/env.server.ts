@@ -15,9 +15,13 @@ const envSchema = z.object({
   AUTH_RATE_LIMIT: z.enum(["on", "off"]).default("on"),
   HOST: z.string().default("127.0.0.1"),
   PORT: z.coerce.number().int().positive().default(3000),
+  // The development mailbox (/dev/mailbox). Default: on unless NODE_ENV=production. `npm start` and
+  // `npm test` serve with NODE_ENV=production (React's production build renders several times faster)
+  // and switch the mailbox on explicitly.
+  DEV_MAILBOX: z.enum(["on", "off"]).optional(),
 });
 
-export type Env = z.infer<typeof envSchema> & { BETTER_AUTH_SECRET: string };
+export type Env = Omit<z.infer<typeof envSchema>, "DEV_MAILBOX"> & { BETTER_AUTH_SECRET: string; DEV_MAILBOX: "on" | "off" };
 
 const DEV_SECRET_FILE = ".data/secret";
 
@@ -39,7 +43,8 @@ export function parseEnv(source: Record<string, string | undefined>): Env {
       ? readFileSync(DEV_SECRET_FILE, "utf8").trim()
       : randomBytes(32).toString("hex");
   }
-  return { ...parsed, BETTER_AUTH_SECRET: secret };
+  const devMailbox = parsed.DEV_MAILBOX ?? (parsed.NODE_ENV === "production" ? "off" : "on");
+  return { ...parsed, BETTER_AUTH_SECRET: secret, DEV_MAILBOX: devMailbox };
 }
 
 export const env: Env = parseEnv(process.env);

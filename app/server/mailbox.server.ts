@@ -19,9 +19,9 @@ const messageSchema = z.object({
 });
 export type CaughtMessage = z.infer<typeof messageSchema>;
 
-/** The mailbox exists only outside production. */
-export function requireDevMailbox(nodeEnv: string = env.NODE_ENV): void {
-  if (nodeEnv === "production") throw data("There is nothing at this address.", { status: 404 });
+/** The mailbox exists only where DEV_MAILBOX is on (by default everywhere but NODE_ENV=production). */
+export function requireDevMailbox(devMailbox: "on" | "off" = env.DEV_MAILBOX): void {
+  if (devMailbox !== "on") throw data("There is nothing at this address.", { status: 404 });
 }
 
 function dir(): string {

@@ -36,18 +36,36 @@ export async function requireMember(
   const signedIn = await requireUser(request);
   const notFound = () => failure(request, 404, "No such team, or you are not a member of it.");
   if (!teamSlug) throw notFound();
-  const [row] = await db
-    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
-    .from(member)
-    .innerJoin(organization, eq(member.organizationId, organization.id))
-    .where(and(eq(organization.slug, teamSlug), eq(member.userId, signedIn.user.id)))
-    .limit(1);
+  const row = await membershipOf(request, teamSlug, signedIn.user.id);
   if (!row) throw notFound();
   const role = primaryRole(row.role);
   if (permission && !can(role, permission)) {
     throw failure(request, 403, "Your role in this team does not allow this.");
   }
   return { ...signedIn, team: { id: row.id, name: row.name, slug: row.slug }, role, memberId: row.memberId };
+}
+
+type Membership = { id: string; name: string; slug: string; role: string; memberId: string };
+
+// One membership lookup per request and team (the layout and the page's loader both ask).
+const membershipsOf = new WeakMap<Request, Map<string, Promise<Membership | undefined>>>();
+
+function membershipOf(request: Request, teamSlug: string, userId: string): Promise<Membership | undefined> {
+  let byKey = membershipsOf.get(request);
+  if (!byKey) membershipsOf.set(request, (byKey = new Map()));
+  const key = `${userId}\u0000${teamSlug}`;
+  let pending = byKey.get(key);
+  if (!pending) {
+    pending = db
+      .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
+      .from(member)
+      .innerJoin(organization, eq(member.organizationId, organization.id))
+      .where(and(eq(organization.slug, teamSlug), eq(member.userId, userId)))
+      .limit(1)
+      .then((rows) => rows[0]);
+    byKey.set(key, pending);
+  }
+  return pending;
 }
 
 /** better-auth stores roles as a comma list; Rakeline gives each member one. Unknown → driver (least). */

@@ -4,8 +4,17 @@ import { auth } from "./auth.server";
 export type SignedIn = NonNullable<Awaited<ReturnType<typeof auth.api.getSession>>>;
 export type SessionUser = SignedIn["user"];
 
-export async function getSignedIn(request: Request): Promise<SignedIn | null> {
-  return auth.api.getSession({ headers: request.headers });
+// One session lookup per request: a page's loaders (layout and child, each calling requireMember)
+// receive the same Request, so they share the answer instead of asking the database again.
+const signedInOf = new WeakMap<Request, Promise<SignedIn | null>>();
+
+export function getSignedIn(request: Request): Promise<SignedIn | null> {
+  let pending = signedInOf.get(request);
+  if (!pending) {
+    pending = auth.api.getSession({ headers: request.headers });
+    signedInOf.set(request, pending);
+  }
+  return pending;
 }
 
 /** The path (and query) of the request, without React Router's `.data` suffix: where to come back to. */

@@ -21,6 +21,15 @@ describe("environment", () => {
     expect(parseEnv({ NODE_ENV: "production", BETTER_AUTH_SECRET: "p".repeat(40) }).BETTER_AUTH_SECRET).toBe("p".repeat(40));
   });
 
+  it("keeps the development mailbox off in production unless it is switched on", () => {
+    const secret = "p".repeat(40);
+    expect(parseEnv({ NODE_ENV: "development", BETTER_AUTH_SECRET: secret }).DEV_MAILBOX).toBe("on");
+    expect(parseEnv({ NODE_ENV: "production", BETTER_AUTH_SECRET: secret }).DEV_MAILBOX).toBe("off");
+    // npm start and npm test serve React's production build with the mailbox on.
+    expect(parseEnv({ NODE_ENV: "production", BETTER_AUTH_SECRET: secret, DEV_MAILBOX: "on" }).DEV_MAILBOX).toBe("on");
+    expect(() => parseEnv({ DEV_MAILBOX: "yes" })).toThrow(/DEV_MAILBOX/);
+  });
+
   it("names the variable that is wrong", () => {
     // better-auth docs (Options, secret): at least 32 characters of high entropy (from memory).
     expect(() => parseEnv({ BETTER_AUTH_SECRET: "short" })).toThrow(/BETTER_AUTH_SECRET: BETTER_AUTH_SECRET must be at least 32/);
