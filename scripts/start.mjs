@@ -11,9 +11,12 @@ import { applyMigrations } from "./lib/migrate.mjs";
 import { buildApp, serveApp } from "./lib/app-server.mjs";
 import { assertPortFree, banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
+import { stopAndConfirm } from "./lib/shutdown.mjs";
 
 const instance = instances.dev;
 const stack = createStack();
+/** Every long-running process started here, checked again before "nothing left running" is said. */
+const children = [];
 let lock = null;
 let stopping = false;
 
@@ -21,9 +24,9 @@ async function shutdown(exitCode, reason) {
   if (stopping) return;
   stopping = true;
   if (reason) info(reason);
-  await stack.stopAll();
+  const closing = await stopAndConfirm(stack, children);
   lock?.release();
-  info(exitCode === 0 ? "stopped; nothing left running" : "stopped");
+  info(closing);
   process.exit(exitCode);
 }
 
@@ -63,6 +66,7 @@ async function main() {
   const db = await startMariaDB(instance);
   stack.push("MariaDB", db.stop);
   lock.record("mariadbd", db.pid, instance.datadir);
+  children.push({ name: "MariaDB", pid: db.pid });
   checkNotStopping();
 
   banner("Database migrations (drizzle/)");
@@ -92,10 +96,11 @@ async function main() {
   if (buildCode !== 0) throw new UserFacingError(`react-router build failed (exit ${buildCode}); see above`);
   checkNotStopping();
 
-  banner(`Serve (react-router-serve on ${env.HOST}:${env.PORT})`);
+  banner(`Serve (scripts/serve.mjs on ${env.HOST}:${env.PORT})`);
   const server = await serveApp(repoRoot, env);
   stack.push("app server", server.stop);
-  lock.record("app server", server.pid, "@react-router/serve/bin.js");
+  lock.record("app server", server.pid, server.marker);
+  children.push({ name: "app server", pid: server.pid });
   server.exited.then(({ code, signal }) => {
     if (!stopping) void shutdown(1, `the app server exited on its own (code ${code}, signal ${signal}); stopping the rest`);
   });

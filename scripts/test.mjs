@@ -164,7 +164,7 @@ async function main() {
       await stage(`Browser tests (Chromium against ${appEnv.APP_URL})`, async () => {
         const server = await serveApp(repoRoot, appEnv);
         stack.push("app server (test)", server.stop);
-        lock.record("app server", server.pid, "@react-router/serve/bin.js");
+        lock.record("app server", server.pid, server.marker);
         try {
           return await node(vitestArgs(vitest, "browser", ["--config", "vitest.e2e.config.ts", ...filters]), vitestEnv);
         } finally {

@@ -16,21 +16,40 @@ const newPassword = z
   .min(PASSWORD_MIN, `The password is too short: use at least ${PASSWORD_MIN} characters.`)
   .max(PASSWORD_MAX, `The password is too long: use at most ${PASSWORD_MAX} characters.`);
 
-const name = z
+/** A person's name as stored: NFC-normalised and trimmed before it is checked, so what is checked is what is kept. */
+export const personName = z
   .string({ error: "Enter your name." })
+  .normalize("NFC")
   .trim()
   .min(1, "Enter your name.")
   .max(100, "The name is too long: use at most 100 characters.");
+const name = personName;
 
 const nextPath = z
   .string()
   .optional()
   .transform((v) => safeNext(v));
 
-/** Only same-site paths are followed after sign-in; anything else goes to the start page. */
+const NEXT_BASE = "http://rakeline.invalid";
+
+/**
+ * Where to go after signing in: only a path on this site. The value is parsed as a browser would parse it
+ * (tabs and newlines dropped, backslashes read as slashes), and kept only if it stays on this origin; the
+ * parsed, re-encoded path is returned, so what is checked is exactly what the browser will follow.
+ */
 export function safeNext(value: string | null | undefined): string | undefined {
-  if (!value || !value.startsWith("/") || value.startsWith("//") || value.startsWith("/\\")) return undefined;
-  return value;
+  if (typeof value !== "string" || !value.startsWith("/") || value.length > 2000) return undefined;
+  let url: URL;
+  try {
+    url = new URL(value, NEXT_BASE);
+  } catch {
+    return undefined;
+  }
+  if (url.origin !== NEXT_BASE) return undefined;
+  const path = `${url.pathname}${url.search}${url.hash}`;
+  // "//x" or "/\\x" as a Location would leave the site again (protocol-relative).
+  if (!path.startsWith("/") || path.startsWith("//") || path.startsWith("/\\")) return undefined;
+  return path;
 }
 
 export const signUpSchema = z

@@ -4,6 +4,14 @@ import { ROLES } from "./access";
 // Team forms, shared by the pages and their actions.
 export const SLUG_PATTERN = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
 
+/**
+ * A team page's path: the slug is one encoded path segment, so no stored value can climb out of /t/
+ * (a slug like "a/../../sign-out" stays "/t/a%2F..%2F..%2Fsign-out"). `rest` starts with "/" or is empty.
+ */
+export function teamPath(slug: string, rest = ""): string {
+  return `/t/${encodeURIComponent(slug)}${rest}`;
+}
+
 export function slugify(name: string): string {
   return name
     .normalize("NFKD")
@@ -17,12 +25,14 @@ export function slugify(name: string): string {
 
 export const teamName = z
   .string({ error: "Enter a team name." })
+  .normalize("NFC")
   .trim()
   .min(2, "The team name is too short: use at least 2 characters.")
   .max(80, "The team name is too long: use at most 80 characters.");
 
 export const teamSlug = z
   .string({ error: "Enter a web address for the team." })
+  .normalize("NFC")
   .trim()
   .toLowerCase()
   .min(2, "The address is too short: use at least 2 characters.")

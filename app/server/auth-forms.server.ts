@@ -1,22 +1,29 @@
-import { redirect } from "react-router";
-import { auth } from "./auth.server";
+import { redirect, type AppLoadContext } from "react-router";
+import { auth, invalidateResetTokens } from "./auth.server";
+import { CLIENT_ADDRESS_HEADER, clientAddressOf } from "./client-address.server";
 import { env } from "./env.server";
 import { withAuthCookies } from "./session.server";
 
 // The sign-in family of forms. Each form action calls better-auth's HTTP endpoint with the browser's
-// own headers, so its rate limiter (by CLIENT_IP_HEADER) and Origin/CSRF checks apply to the forms
-// exactly as to /api/auth. Each answer is either a redirect carrying better-auth's cookies, or a
+// own headers, so its rate limiter and Origin/CSRF checks apply to the forms exactly as to /api/auth.
+// The rate limiter keys on the client address resolved from the socket (client-address.server.ts), never
+// on a header the client chose. Each answer is either a redirect carrying better-auth's cookies, or a
 // specific message for the form.
+
+/** Who is calling: the action's request and its load context (which holds the socket's peer address). */
+export type Caller = { request: Request; context?: AppLoadContext };
 
 const FORWARDED = ["cookie", "origin", "referer", "user-agent", "sec-fetch-site", "sec-fetch-mode", "sec-fetch-dest"];
 const appUrl = env.APP_URL.replace(/\/$/, "");
 
-function callAuth(request: Request, path: string, body: unknown): Promise<Response> {
+function callAuth({ request, context }: Caller, path: string, body: unknown): Promise<Response> {
   const headers = new Headers({ "content-type": "application/json" });
-  for (const name of [...FORWARDED, env.CLIENT_IP_HEADER.toLowerCase()]) {
+  for (const name of FORWARDED) {
     const value = request.headers.get(name);
     if (value) headers.set(name, value);
   }
+  const client = clientAddressOf(request, context);
+  if (client) headers.set(CLIENT_ADDRESS_HEADER, client);
   return auth.handler(new Request(`${appUrl}/api/auth${path}`, { method: "POST", headers, body: JSON.stringify(body) }));
 }
 
@@ -57,8 +64,8 @@ export function verifyCallback(next: string | undefined): string {
   return next ? `/verify?next=${encodeURIComponent(next)}` : "/verify";
 }
 
-export async function signUp(request: Request, input: { name: string; email: string; password: string; next?: string }): Promise<FormResult> {
-  const response = await callAuth(request, "/sign-up/email", {
+export async function signUp(caller: Caller, input: { name: string; email: string; password: string; next?: string }): Promise<FormResult> {
+  const response = await callAuth(caller, "/sign-up/email", {
     name: input.name,
     email: input.email,
     password: input.password,
@@ -71,8 +78,8 @@ export async function signUp(request: Request, input: { name: string; email: str
   return { ok: true, response };
 }
 
-export async function signIn(request: Request, input: { email: string; password: string }, next: string): Promise<FormResult> {
-  const response = await callAuth(request, "/sign-in/email", { email: input.email, password: input.password, callbackURL: verifyCallback(next) });
+export async function signIn(caller: Caller, input: { email: string; password: string }, next: string): Promise<FormResult> {
+  const response = await callAuth(caller, "/sign-in/email", { email: input.email, password: input.password, callbackURL: verifyCallback(next) });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
@@ -80,22 +87,26 @@ export async function signIn(request: Request, input: { email: string; password:
   return { ok: true, response: withAuthCookies(response, redirect(next)) };
 }
 
-export async function signOut(request: Request): Promise<Response> {
-  const response = await callAuth(request, "/sign-out", {});
+export async function signOut(caller: Caller): Promise<Response> {
+  const response = await callAuth(caller, "/sign-out", {});
   return withAuthCookies(response, redirect("/"));
 }
 
-export async function requestPasswordReset(request: Request, email: string): Promise<FormResult> {
-  const response = await callAuth(request, "/request-password-reset", { email, redirectTo: "/reset-password" });
-  if (!response.ok) {
-    const f = await failureOf(response);
-    return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
-  }
-  return { ok: true, response };
+/**
+ * Starts a reset and answers at once, the same way whether or not the address has an account: the
+ * lookup, the token and the mail happen after the answer, so its timing says nothing. (A request refused
+ * by the rate limiter simply sends nothing.)
+ */
+export function requestPasswordReset(caller: Caller, email: string): void {
+  callAuth(caller, "/request-password-reset", { email, redirectTo: "/reset-password" })
+    .then(async (response) => {
+      if (!response.ok && response.status !== 429) console.error(`password reset request failed: ${response.status} ${await response.text()}`);
+    })
+    .catch((error) => console.error("password reset request failed:", error));
 }
 
-export async function resetPassword(request: Request, token: string, newPassword: string): Promise<FormResult> {
-  const response = await callAuth(request, "/reset-password", { token, newPassword });
+export async function resetPassword(caller: Caller, token: string, newPassword: string): Promise<FormResult> {
+  const response = await callAuth(caller, "/reset-password", { token, newPassword });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
@@ -103,12 +114,14 @@ export async function resetPassword(request: Request, token: string, newPassword
   return { ok: true, response: redirect("/sign-in?reset=1") };
 }
 
-export async function changePassword(request: Request, currentPassword: string, newPassword: string): Promise<FormResult> {
-  const response = await callAuth(request, "/change-password", { currentPassword, newPassword, revokeOtherSessions: true });
+export async function changePassword(caller: Caller, userId: string, currentPassword: string, newPassword: string): Promise<FormResult> {
+  const response = await callAuth(caller, "/change-password", { currentPassword, newPassword, revokeOtherSessions: true });
   if (!response.ok) {
     const f = await failureOf(response);
     return { ok: false, formError: describe(f), status: f.status === 429 ? 429 : 400 };
   }
+  // A reset link mailed before the change must not undo it.
+  await invalidateResetTokens(userId);
   return { ok: true, response };
 }
 

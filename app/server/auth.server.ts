@@ -1,13 +1,38 @@
 import { betterAuth } from "better-auth";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { APIError } from "better-auth/api";
 import { organization } from "better-auth/plugins/organization";
-import { ac, isRole, ROLE_LABELS, roles } from "../lib/access";
-import { PASSWORD_MAX, PASSWORD_MIN } from "../lib/auth-schemas";
+import { and, eq, like } from "drizzle-orm";
+import { verification } from "../db/schema/auth";
+import { ac, isRole, ROLE_LABELS, ROLES, roles } from "../lib/access";
+import { PASSWORD_MAX, PASSWORD_MIN, personName } from "../lib/auth-schemas";
+import { teamName, teamSlug } from "../lib/team-schemas";
+import { CLIENT_ADDRESS_HEADER } from "./client-address.server";
 import { db, schema } from "./db.server";
 import { env } from "./env.server";
 import { invitationMail, passwordResetMail, sendMail, verificationMail } from "./mail.server";
 
 const appUrl = env.APP_URL.replace(/\/$/, "");
+
+/** The app's own schema decides what a name, slug or role may be; better-auth's endpoints obey it too. */
+function checked<T>(schema: { safeParse(v: unknown): { success: true; data: T } | { success: false; error: { issues: Array<{ message: string }> } } }, value: unknown): T {
+  const parsed = schema.safeParse(value);
+  if (!parsed.success) throw new APIError("BAD_REQUEST", { message: parsed.error.issues[0]?.message ?? "Invalid value." });
+  return parsed.data;
+}
+
+/** Rakeline gives each member exactly one of its roles; better-auth would also take a comma list. */
+function checkedRole(role: unknown): string {
+  if (typeof role !== "string" || !isRole(role)) {
+    throw new APIError("BAD_REQUEST", { message: `Choose one of the roles: ${ROLES.join(", ")}.` });
+  }
+  return role;
+}
+
+/** After a reset or a password change, no older reset link may still work. */
+export async function invalidateResetTokens(userId: string): Promise<void> {
+  await db.delete(verification).where(and(like(verification.identifier, "reset-password:%"), eq(verification.value, userId)));
+}
 
 export const auth = betterAuth({
   appName: "Rakeline",
@@ -27,6 +52,9 @@ export const auth = betterAuth({
     sendResetPassword: async ({ user, token }) => {
       await sendMail(passwordResetMail(user.email, user.name, `${appUrl}/reset-password?token=${encodeURIComponent(token)}`));
     },
+    onPasswordReset: async ({ user }) => {
+      await invalidateResetTokens(user.id);
+    },
   },
   emailVerification: {
     sendOnSignUp: true,
@@ -42,14 +70,32 @@ export const auth = betterAuth({
       await sendMail(verificationMail(user.email, user.name, link.toString()));
     },
   },
-  rateLimit: { enabled: env.AUTH_RATE_LIMIT === "on", window: 60, max: 100 },
+  databaseHooks: {
+    // Names are trimmed and NFC-normalised, then checked with the app's schema, on every way in.
+    user: {
+      create: { before: async (user) => ({ data: { ...user, name: checked(personName, user.name) } }) },
+      update: {
+        before: async (data) => (data.name === undefined ? undefined : { data: { ...data, name: checked(personName, data.name) } }),
+      },
+    },
+  },
+  // Shared by every app process (stateless servers): buckets live in the database, keyed on the client
+  // address that scripts/serve.mjs resolved (app/server/client-address.server.ts).
+  rateLimit: { enabled: env.AUTH_RATE_LIMIT === "on", window: 60, max: 100, storage: "database" },
   advanced: {
-    ipAddress: { ipAddressHeaders: [env.CLIENT_IP_HEADER] },
+    ipAddress: { ipAddressHeaders: [CLIENT_ADDRESS_HEADER] },
     // better-auth turns its Origin/CSRF checks off under test runners by default; keep them on everywhere.
     disableOriginCheck: false,
     disableCSRFCheck: false,
     useSecureCookies: appUrl.startsWith("https://"),
-    defaultCookieAttributes: { httpOnly: true, sameSite: "lax" },
+    defaultCookieAttributes: { httpOnly: true, sameSite: "lax", secure: appUrl.startsWith("https://") },
+    // Mail goes out after the answer: a request never waits on SMTP, so an answer's time says nothing
+    // about whether an address has an account.
+    backgroundTasks: {
+      handler: (promise) => {
+        void promise;
+      },
+    },
   },
   plugins: [
     organization({
@@ -61,6 +107,20 @@ export const auth = betterAuth({
       sendInvitationEmail: async ({ id, email, role, organization: team, inviter }) => {
         const roleLabel = isRole(role) ? ROLE_LABELS[role] : role;
         await sendMail(invitationMail(email, inviter.user.name, team.name, roleLabel, `${appUrl}/invitations/${id}`));
+      },
+      organizationHooks: {
+        beforeCreateOrganization: async ({ organization: team }) => ({
+          data: { ...team, name: checked(teamName, team.name), slug: checked(teamSlug, team.slug) },
+        }),
+        beforeUpdateOrganization: async ({ organization: team }) => {
+          const data = { ...team };
+          if (team.name !== undefined) data.name = checked(teamName, team.name);
+          if (team.slug !== undefined) data.slug = checked(teamSlug, team.slug);
+          return { data };
+        },
+        beforeAddMember: async ({ member }) => ({ data: { ...member, role: checkedRole(member.role) } }),
+        beforeUpdateMemberRole: async ({ newRole }) => ({ data: { role: checkedRole(newRole) } }),
+        beforeCreateInvitation: async ({ invitation }) => ({ data: { ...invitation, role: checkedRole(invitation.role) } }),
       },
     }),
   ],

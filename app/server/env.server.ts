@@ -1,6 +1,23 @@
 import { randomBytes } from "node:crypto";
 import { existsSync, readFileSync } from "node:fs";
+import { isIP } from "node:net";
 import { z } from "zod";
+
+/** "127.0.0.1, 10.0.0.0/8, ::1": addresses and CIDR ranges of the proxies allowed to name the client. */
+const proxyList = z.string().refine(
+  (list) =>
+    list
+      .split(",")
+      .map((s) => s.trim())
+      .filter(Boolean)
+      .every((entry) => {
+        const [address, bits, extra] = entry.split("/");
+        const family = isIP(address.replace(/^\[|\]$/g, ""));
+        if (!family || extra !== undefined) return false;
+        return bits === undefined || (/^\d+$/.test(bits) && Number(bits) <= (family === 6 ? 128 : 32));
+      }),
+  "TRUSTED_PROXIES must be a comma-separated list of IP addresses or CIDR ranges, e.g. 127.0.0.1,10.0.0.0/8",
+);
 
 // The environment contract lives in DEVELOPERS.md; this is its one parser.
 const envSchema = z.object({
@@ -12,6 +29,7 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default("Rakeline <no-reply@rakeline.local>"),
   MAIL_CATCHER_DIR: z.string().min(1).default(".data/mail"),
   CLIENT_IP_HEADER: z.string().min(1).default("x-forwarded-for"),
+  TRUSTED_PROXIES: proxyList.default(""),
   AUTH_RATE_LIMIT: z.enum(["on", "off"]).default("on"),
   HOST: z.string().default("127.0.0.1"),
   PORT: z.coerce.number().int().positive().default(3000),

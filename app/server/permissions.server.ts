@@ -3,6 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { member, organization } from "../db/schema/auth";
 import { can, isRole, type Permission, type Role } from "../lib/access";
 import { db } from "./db.server";
+import { requireSameOrigin } from "./same-origin.server";
 import { failure, getSignedIn, type SignedIn } from "./session.server";
 
 // Statements, roles and can() are declared once in app/lib/access.ts (client-safe, so the UI can
@@ -15,9 +16,11 @@ export type MemberContext = SignedIn & { team: Team; role: Role; memberId: strin
 
 /**
  * The signed-in user, or a thrown 401: pages are redirected to /sign-in?next=..., resource routes
- * (/api/...) get JSON with status 401.
+ * (/api/...) get JSON with status 401. A state-changing request from another site is refused first (403):
+ * see same-origin.server.ts.
  */
 export async function requireUser(request: Request): Promise<SignedIn> {
+  requireSameOrigin(request);
   const signedIn = await getSignedIn(request);
   if (!signedIn) throw failure(request, 401, "Sign in to continue.");
   return signedIn;

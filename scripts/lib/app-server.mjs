@@ -1,6 +1,9 @@
-// Build the app with react-router and serve the build with react-router-serve.
+// Build the app with react-router and serve the build with scripts/serve.mjs (our HTTP server over React Router).
 import path from "node:path";
 import { assertPortFree, info, packageBin, run, spawnService, terminatePid, UserFacingError, waitForHttp } from "./proc.mjs";
+
+/** What the app server's command line contains (for the run lock's clean-up of a killed run). */
+export const SERVE_MARKER = "scripts/serve.mjs";
 
 export async function buildApp(root, env) {
   const cli = packageBin(root, "@react-router/dev", "react-router");
@@ -13,8 +16,7 @@ export async function serveApp(root, env) {
   const host = env.HOST;
   const port = Number(env.PORT);
   await assertPortFree(host, port, "Another app server may be running; stop it or set PORT to another port.");
-  const serveBin = packageBin(root, "@react-router/serve", "react-router-serve");
-  const service = spawnService("app server", process.execPath, [serveBin, path.join("build", "server", "index.js")], {
+  const service = spawnService("app server", process.execPath, [path.join("scripts", "serve.mjs")], {
     cwd: root,
     env: { ...process.env, ...env },
   });
@@ -31,7 +33,8 @@ export async function serveApp(root, env) {
     url,
     pid: service.child.pid,
     exited: service.exited,
-    // react-router-serve may ignore the first SIGTERM while a database pool is open: escalate after 8 s.
-    stop: () => terminatePid(service.child.pid, { timeoutMs: 8000, group: true }),
+    marker: SERVE_MARKER,
+    // The server finishes requests in flight for up to 10 s after SIGTERM; escalate after 12 s.
+    stop: () => terminatePid(service.child.pid, { timeoutMs: 12_000, group: true }),
   };
 }

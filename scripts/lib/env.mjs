@@ -69,7 +69,7 @@ function loopbackUrlHost(host) {
 
 /**
  * The app's environment for an instance. For `npm start`, variables the person set (APP_URL, MAIL_FROM,
- * CLIENT_IP_HEADER, AUTH_RATE_LIMIT, BETTER_AUTH_SECRET, HOST, PORT) win; the database and mail settings always
+ * CLIENT_IP_HEADER, TRUSTED_PROXIES, AUTH_RATE_LIMIT, BETTER_AUTH_SECRET, HOST, PORT) win; the database and mail settings always
  * point at the private instance. `npm test` ignores outside values so every run is the same.
  */
 export function appEnvironment(instance, { databaseUrl }) {
@@ -87,6 +87,8 @@ export function appEnvironment(instance, { databaseUrl }) {
     MAIL_FROM: outside.MAIL_FROM || "Rakeline <no-reply@rakeline.local>",
     MAIL_CATCHER_DIR: instance.mailDir,
     CLIENT_IP_HEADER: outside.CLIENT_IP_HEADER || "x-forwarded-for",
+    // Proxies (HAProxy, a TLS terminator) whose CLIENT_IP_HEADER is believed; none by default.
+    TRUSTED_PROXIES: outside.TRUSTED_PROXIES || "",
     AUTH_RATE_LIMIT: instance.name === "test" ? "off" : outside.AUTH_RATE_LIMIT || "on",
     HOST: instance.appHost,
     PORT: String(instance.appPort),

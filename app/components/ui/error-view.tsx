@@ -7,7 +7,7 @@ export function ErrorView({ error }: { error: unknown }) {
   let stack: string | undefined;
   if (isRouteErrorResponse(error)) {
     const message = typeof error.data === "string" ? error.data : (error.data as { error?: string } | null)?.error;
-    title = { 400: "That did not work", 401: "Sign in to continue", 403: "Not allowed", 404: "Not found" }[error.status] ?? `Error ${error.status}`;
+    title = { 400: "That did not work", 401: "Sign in to continue", 403: "Not allowed", 404: "Not found", 413: "Too large", 415: "Not a form" }[error.status] ?? `Error ${error.status}`;
     detail = message || (error.status === 404 ? "There is nothing at this address." : error.statusText || detail);
   } else if (import.meta.env.DEV && error instanceof Error) {
     detail = error.message;

@@ -1,6 +1,7 @@
-import type { ReactNode } from "react";
+import { useRef, type KeyboardEvent, type ReactNode } from "react";
 import { Form, NavLink } from "react-router";
 import { ROLE_LABELS, type Role } from "~/lib/access";
+import { teamPath } from "~/lib/team-schemas";
 import { Wordmark } from "./wordmark";
 
 export type ShellTeam = { name: string; slug: string; role: Role };
@@ -21,7 +22,7 @@ export function AppShell({ user, teams, current, nav, children }: ShellProps) {
     <div className="min-h-screen">
       <header className="border-b border-rule bg-panel">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-4 gap-y-2 px-4 py-2.5">
-          <Wordmark to={current ? `/t/${current.slug}` : "/"} />
+          <Wordmark to={current ? teamPath(current.slug) : "/"} />
           <TeamSwitcher teams={teams} current={current} />
           {nav && (
             <nav aria-label="Team" className="flex flex-wrap gap-1">
@@ -49,11 +50,17 @@ export function AppShell({ user, teams, current, nav, children }: ShellProps) {
   );
 }
 
-/** A disclosure list of links: works without JavaScript and on a tablet. */
+/** A disclosure list of links: works without JavaScript and on a tablet; Escape closes it. */
 function TeamSwitcher({ teams, current }: { teams: ShellTeam[]; current?: ShellTeam }) {
+  const details = useRef<HTMLDetailsElement>(null);
   if (teams.length === 0) return null;
+  const onKeyDown = (event: KeyboardEvent<HTMLDetailsElement>) => {
+    if (event.key !== "Escape" || !details.current?.open) return;
+    details.current.open = false;
+    details.current.querySelector("summary")?.focus();
+  };
   return (
-    <details className="relative">
+    <details className="relative" ref={details} onKeyDown={onKeyDown}>
       <summary className="cursor-pointer list-none rounded border border-rule px-2.5 py-1 text-sm hover:bg-rule-soft">
         <span className="sr-only">Team: </span>
         {current ? current.name : "Choose a team"} <span aria-hidden="true">▾</span>
@@ -62,7 +69,7 @@ function TeamSwitcher({ teams, current }: { teams: ShellTeam[]; current?: ShellT
         {teams.map((t) => (
           <li key={t.slug}>
             <a
-              href={`/t/${t.slug}`}
+              href={teamPath(t.slug)}
               aria-current={current?.slug === t.slug ? "page" : undefined}
               className="flex items-baseline justify-between gap-4 px-3 py-1.5 text-sm hover:bg-rule-soft aria-[current=page]:font-semibold"
             >

@@ -6,6 +6,8 @@ import {
   timestamp,
   boolean,
   index,
+  int,
+  bigint,
 } from "drizzle-orm/mysql-core";
 
 export const user = mysqlTable("user", {
@@ -151,6 +153,17 @@ export const accountRelations = relations(account, ({ one }) => ({
     references: [user.id],
   }),
 }));
+
+/**
+ * better-auth's rate-limit buckets (rateLimit.storage "database"): one row per client address and path, so
+ * every app process counts against the same buckets. Written only by better-auth.
+ */
+export const rateLimit = mysqlTable("rate_limit", {
+  id: varchar("id", { length: 36 }).primaryKey(),
+  key: varchar("key", { length: 255 }).notNull().unique(),
+  count: int("count").notNull(),
+  lastRequest: bigint("last_request", { mode: "number" }).notNull(),
+});
 
 export const organizationRelations = relations(organization, ({ many }) => ({
   members: many(member),

@@ -4,3 +4,4 @@ export * from "./garage";
 export * from "./sessions";
 export * from "./jobs";
 export * from "./api-tokens";
+export * from "./audit";

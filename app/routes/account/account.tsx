@@ -6,6 +6,7 @@ import { ErrorView } from "~/components/ui/error-view";
 import { changePasswordSchema, fieldErrors, PASSWORD_MIN, profileSchema } from "~/lib/auth-schemas";
 import { changePassword, updateName } from "~/server/auth-forms.server";
 import { listTeamsOf, requireUser } from "~/server/permissions.server";
+import { readFormFields } from "~/server/body.server";
 import type { Route } from "./+types/account";
 
 export async function loader({ request }: Route.LoaderArgs) {
@@ -14,9 +15,9 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { user: { name: user.name, email: user.email }, teams };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  await requireUser(request);
-  const form = Object.fromEntries(await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  const { user } = await requireUser(request);
+  const form = await readFormFields(request);
   if (form.intent === "profile") {
     const parsed = profileSchema.safeParse(form);
     if (!parsed.success) return data({ intent: "profile", errors: fieldErrors(parsed.error), done: null }, { status: 400 });
@@ -26,7 +27,7 @@ export async function action({ request }: Route.ActionArgs) {
   if (form.intent === "password") {
     const parsed = changePasswordSchema.safeParse(form);
     if (!parsed.success) return data({ intent: "password", errors: fieldErrors(parsed.error), done: null }, { status: 400 });
-    const result = await changePassword(request, parsed.data.currentPassword, parsed.data.password);
+    const result = await changePassword({ request, context }, user.id, parsed.data.currentPassword, parsed.data.password);
     if (!result.ok) return data({ intent: "password", errors: { currentPassword: result.formError }, done: null }, { status: result.status });
     // The session is renewed and other devices are signed out; keep this browser's new cookie.
     const headers = new Headers();

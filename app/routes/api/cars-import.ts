@@ -1,10 +1,9 @@
 // POST /api/t/:teamSlug/cars/import — body: a CAR.json (application/json). Creates a car and a setup
 // sheet at version 1. 201 { carId, setupId } or 400 { errors: [...] }; a refused file changes nothing.
 import { requireMember } from "~/server/permissions.server";
-import { importCarFile } from "~/server/garage-io.server";
+import { importCarFile, MAX_CAR_FILE_BYTES, setupNameOf } from "~/server/garage-io.server";
+import { readText } from "~/server/body.server";
 import type { Route } from "./+types/cars-import";
-
-const MAX_CAR_FILE_BYTES = 64 * 1024;
 
 export async function loader() {
   return Response.json({ error: "POST a CAR.json to import it." }, { status: 405, headers: { Allow: "POST" } });
@@ -13,9 +12,9 @@ export async function loader() {
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
   if (request.method !== "POST") return Response.json({ error: "POST a CAR.json to import it." }, { status: 405, headers: { Allow: "POST" } });
-  const text = await request.text();
-  if (text.length > MAX_CAR_FILE_BYTES) return Response.json({ errors: ["The body is too large for a car file."] }, { status: 413 });
-  const setupName = new URL(request.url).searchParams.get("setup")?.trim().slice(0, 80) || "Imported";
+  // requireMember has refused a cross-site post (Origin) already; the body is capped before it is parsed.
+  const text = await readText(request, MAX_CAR_FILE_BYTES);
+  const setupName = setupNameOf(new URL(request.url).searchParams.get("setup"));
   const result = await importCarFile(ctx.team.id, ctx.user.id, text, setupName);
   if (!result.ok) return Response.json({ errors: result.errors }, { status: 400 });
   return Response.json(

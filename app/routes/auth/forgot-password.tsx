@@ -3,16 +3,17 @@ import { AuthCard } from "~/components/ui/panels";
 import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, forgotPasswordSchema } from "~/lib/auth-schemas";
 import { requestPasswordReset } from "~/server/auth-forms.server";
+import { readFormFields } from "~/server/body.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/forgot-password";
 
-export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  const form = await readFormFields(request);
   const parsed = forgotPasswordSchema.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error), sentTo: null }, { status: 400 });
-  const result = await requestPasswordReset(request, parsed.data.email);
-  if (!result.ok) return data({ errors: { form: result.formError }, sentTo: null }, { status: result.status });
-  return { errors: {}, sentTo: parsed.data.email };
+  // The same answer at once for every address; the work happens after it (see requestPasswordReset).
+  requestPasswordReset({ request, context }, parsed.data.email);
+  return { errors: {} as Record<string, string>, sentTo: parsed.data.email };
 }
 
 export default function ForgotPassword({ actionData }: Route.ComponentProps) {

@@ -3,6 +3,7 @@ import { AuthCard } from "~/components/ui/panels";
 import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, PASSWORD_MIN, resetPasswordSchema } from "~/lib/auth-schemas";
 import { resetPassword } from "~/server/auth-forms.server";
+import { readFormFields } from "~/server/body.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/reset-password";
 
@@ -10,11 +11,11 @@ export function loader({ request }: Route.LoaderArgs) {
   return { token: new URL(request.url).searchParams.get("token") ?? "" };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  const form = await readFormFields(request);
   const parsed = resetPasswordSchema.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
-  const result = await resetPassword(request, parsed.data.token, parsed.data.password);
+  const result = await resetPassword({ request, context }, parsed.data.token, parsed.data.password);
   if (!result.ok) return data({ errors: { form: result.formError } }, { status: result.status });
   return result.response;
 }

@@ -4,6 +4,7 @@ import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, safeNext, signInSchema } from "~/lib/auth-schemas";
 import { signIn } from "~/server/auth-forms.server";
 import { getSignedIn } from "~/server/session.server";
+import { readFormFields } from "~/server/body.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/sign-in";
 
@@ -14,12 +15,12 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { next: next ?? "", reset: url.searchParams.get("reset") === "1" };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  const form = await readFormFields(request);
   const parsed = signInSchema.safeParse(form);
   const email = String(form.email ?? "");
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error), email }, { status: 400 });
-  const result = await signIn(request, parsed.data, parsed.data.next ?? "/");
+  const result = await signIn({ request, context }, parsed.data, parsed.data.next ?? "/");
   if (!result.ok) return data({ errors: { form: result.formError }, email }, { status: result.status });
   return result.response;
 }

@@ -7,6 +7,6 @@ export async function loader() {
   return redirect("/");
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  return signOut(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  return signOut({ request, context });
 }

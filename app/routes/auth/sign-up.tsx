@@ -4,6 +4,7 @@ import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, PASSWORD_MIN, safeNext, signUpSchema } from "~/lib/auth-schemas";
 import { signUp } from "~/server/auth-forms.server";
 import { getSignedIn } from "~/server/session.server";
+import { readFormFields } from "~/server/body.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/sign-up";
 
@@ -13,13 +14,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { next: next ?? "" };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData());
+export async function action({ request, context }: Route.ActionArgs) {
+  const form = await readFormFields(request);
   const parsed = signUpSchema.safeParse(form);
   if (!parsed.success) {
     return data({ errors: fieldErrors(parsed.error), values: { name: String(form.name ?? ""), email: String(form.email ?? "") }, sentTo: null }, { status: 400 });
   }
-  const result = await signUp(request, parsed.data);
+  const result = await signUp({ request, context }, parsed.data);
   if (!result.ok) {
     return data({ errors: { form: result.formError }, values: { name: parsed.data.name, email: parsed.data.email }, sentTo: null }, { status: result.status });
   }

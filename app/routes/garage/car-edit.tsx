@@ -4,10 +4,11 @@ import { carRowValues, getCar, updateCar } from "~/server/garage-cars.server";
 import { ids } from "~/server/garage-routes.server";
 import { CAR_FIELDS } from "~/lib/garage/fields";
 import { carFormSchema, fieldErrors } from "~/lib/garage/schemas";
-import { applyExactNumbers, formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { CarForm } from "~/components/garage/car-form";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/car-edit";
+import { readFormFields } from "~/server/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["update"] });
@@ -20,7 +21,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["update"] });
   const { carId } = ids(params, "carId");
   const current = await getCar(ctx.team.id, carId);
-  const fields = formFields(await request.formData());
+  const fields = await readFormFields(request);
   const system = unitSystemOf(fields.units);
   const parsed = carFormSchema(system).safeParse(keepUnchangedNumbers(applyExactNumbers(fields, CAR_FIELDS, system), CAR_FIELDS, current, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });

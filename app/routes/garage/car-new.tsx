@@ -2,12 +2,13 @@ import { data, redirect } from "react-router";
 import { requireMember } from "~/server/permissions.server";
 import { carRowValues, createCar } from "~/server/garage-cars.server";
 import { carFormSchema, fieldErrors } from "~/lib/garage/schemas";
-import { applyExactNumbers, formFields, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { CAR_FIELDS } from "~/lib/garage/fields";
 import { CarForm } from "~/components/garage/car-form";
 import { Caution } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/car-new";
+import { readFormFields } from "~/server/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
@@ -16,7 +17,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
-  const fields = formFields(await request.formData());
+  const fields = await readFormFields(request);
   const system = unitSystemOf(fields.units);
   const parsed = carFormSchema(system).safeParse(applyExactNumbers(fields, CAR_FIELDS, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });

@@ -11,6 +11,7 @@ import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
 import { CogDiagram } from "~/components/garage/cog-diagram";
 import type { Route } from "./+types/car";
+import { readFormFields } from "~/server/body.server";
 
 const searchSchema = z.object({
   q: z.string().trim().max(80).optional().catch(undefined),
@@ -43,7 +44,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const { carId } = ids(params, "carId");
-  const parsed = intentSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = intentSchema.safeParse(await readFormFields(request));
   if (!parsed.success) throw data("Unknown action: duplicate-car or duplicate-setup (with a setupId).", { status: 400 });
   const base = `/t/${ctx.team.slug}/garage`;
   if (parsed.data.intent === "duplicate-car") {

@@ -1,13 +1,11 @@
 import { Form, data, redirect } from "react-router";
 import { requireMember } from "~/server/permissions.server";
-import { importCarFile } from "~/server/garage-io.server";
+import { importCarFile, MAX_CAR_FILE_BYTES, setupNameOf } from "~/server/garage-io.server";
+import { pageRefusalMessage, readForm, type ReadFormResult } from "~/server/body.server";
 import { Button, FormAlert } from "~/components/ui/form";
 import { Caution } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/import";
-
-/** Car files are a few hundred bytes; anything this large is not one. */
-const MAX_CAR_FILE_BYTES = 64 * 1024;
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
@@ -16,16 +14,27 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["create"] });
-  const form = await request.formData();
-  const file = form.get("file");
-  const pasted = form.get("text");
-  let text = typeof pasted === "string" ? pasted : "";
-  if (file instanceof File && file.size > 0) {
-    if (file.size > MAX_CAR_FILE_BYTES) return data({ errors: [`The file is ${file.size} bytes; a car file is a few hundred. Choose the CAR.json itself.`] }, { status: 400 });
-    text = await file.text();
+  // A car file is a few hundred bytes: the file and the pasted text are each capped at 64 KiB before
+  // anything is parsed (a larger one is refused with 413).
+  let form: ReadFormResult;
+  try {
+    form = await readForm(request, {
+      maxBytes: 3 * MAX_CAR_FILE_BYTES,
+      maxFieldBytes: MAX_CAR_FILE_BYTES,
+      maxFields: 10,
+      maxFiles: 1,
+      maxFileBytes: MAX_CAR_FILE_BYTES,
+    });
+  } catch (error) {
+    const refusal = pageRefusalMessage(error);
+    if (!refusal) throw error;
+    return data({ errors: [`${refusal.message} A car file is a few hundred bytes: choose the CAR.json itself.`] }, { status: refusal.status });
   }
+  const { fields, files } = form;
+  const file = files.file;
+  const text = file && file.bytes.length > 0 ? file.bytes.toString("utf8") : (fields.text ?? "");
   if (!text.trim()) return data({ errors: ["Choose a CAR.json file or paste its text."] }, { status: 400 });
-  const setupName = typeof form.get("setupName") === "string" && String(form.get("setupName")).trim() ? String(form.get("setupName")).trim().slice(0, 80) : "Imported";
+  const setupName = setupNameOf(fields.setupName);
   const result = await importCarFile(ctx.team.id, ctx.user.id, text, setupName);
   if (!result.ok) return data({ errors: result.errors }, { status: 400 });
   return redirect(`/t/${ctx.team.slug}/garage/${result.carId}/setups/${result.setupId}`);

@@ -4,10 +4,11 @@ import { getSetup, saveSetupEdit, setupRowValues } from "~/server/garage-setups.
 import { ids } from "~/server/garage-routes.server";
 import { SETUP_FIELDS } from "~/lib/garage/fields";
 import { fieldErrors, setupFormSchema } from "~/lib/garage/schemas";
-import { applyExactNumbers, formFields, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, keepUnchangedNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { SetupForm } from "~/components/garage/setup-form";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/setup-edit";
+import { readFormFields } from "~/server/body.server";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { setup: ["update"] });
@@ -20,7 +21,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { setup: ["update"] });
   const { carId, setupId } = ids(params, "carId", "setupId");
   const current = await getSetup(ctx.team.id, carId, setupId);
-  const fields = formFields(await request.formData());
+  const fields = await readFormFields(request);
   const system = unitSystemOf(fields.units);
   const parsed = setupFormSchema(system).safeParse(keepUnchangedNumbers(applyExactNumbers(fields, SETUP_FIELDS, system), SETUP_FIELDS, current, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });

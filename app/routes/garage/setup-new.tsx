@@ -5,12 +5,13 @@ import { getCar } from "~/server/garage-cars.server";
 import { createSetupSheet, getSetup, setupRowValues } from "~/server/garage-setups.server";
 import { ids, searchParamsOf } from "~/server/garage-routes.server";
 import { fieldErrors, setupFormSchema } from "~/lib/garage/schemas";
-import { applyExactNumbers, formFields, unitSystemOf } from "~/lib/garage/form-data";
+import { applyExactNumbers, unitSystemOf } from "~/lib/garage/form-data";
 import { SETUP_FIELDS } from "~/lib/garage/fields";
 import { SetupForm, type SetupInitial } from "~/components/garage/setup-form";
 import { Caution } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/setup-new";
+import { readFormFields } from "~/server/body.server";
 
 const searchSchema = z.object({ from: z.string().min(1).max(36).optional().catch(undefined) });
 
@@ -28,7 +29,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { setup: ["create"] });
   const { carId } = ids(params, "carId");
-  const fields = formFields(await request.formData());
+  const fields = await readFormFields(request);
   const system = unitSystemOf(fields.units);
   const parsed = setupFormSchema(system).safeParse(applyExactNumbers(fields, SETUP_FIELDS, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });

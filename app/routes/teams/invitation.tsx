@@ -7,6 +7,7 @@ import { requireUser } from "~/server/permissions.server";
 import { getSignedIn } from "~/server/session.server";
 import { answerInvitation, findInvitation, refusalMessage } from "~/server/teams.server";
 import type { Route } from "./+types/invitation";
+import { readFormFields } from "~/server/body.server";
 
 const answerSchema = z.object({ intent: z.enum(["accept", "decline"], { error: "Choose accept or decline." }) });
 
@@ -31,7 +32,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   await requireUser(request);
-  const parsed = answerSchema.safeParse(Object.fromEntries(await request.formData()));
+  const parsed = answerSchema.safeParse(await readFormFields(request));
   if (!parsed.success) return data({ error: parsed.error.issues[0].message }, { status: 400 });
   const invitation = await findInvitation(params.id);
   if (!invitation) throw data("This invitation does not exist.", { status: 404 });

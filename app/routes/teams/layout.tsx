@@ -2,6 +2,7 @@ import { Outlet } from "react-router";
 import { AppShell } from "~/components/ui/shell";
 import { ErrorView } from "~/components/ui/error-view";
 import { listTeamsOf, requireMember } from "~/server/permissions.server";
+import { teamPath } from "~/lib/team-schemas";
 import type { Route } from "./+types/layout";
 
 // The frame of every /t/:teamSlug page. Child loaders run in parallel with this one, so each of
@@ -17,7 +18,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export default function TeamLayout({ loaderData }: Route.ComponentProps) {
-  const base = `/t/${loaderData.team.slug}`;
+  const base = teamPath(loaderData.team.slug);
   return (
     <AppShell
       user={loaderData.user}

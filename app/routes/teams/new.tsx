@@ -10,6 +10,7 @@ import { listTeamsOf, requireUser } from "~/server/permissions.server";
 import { createTeam, pendingInvitationsFor, slugTaken } from "~/server/teams.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/new";
+import { readFormFields } from "~/server/body.server";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { user } = await requireUser(request);
@@ -19,7 +20,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   await requireUser(request);
-  const form = Object.fromEntries(await request.formData());
+  const form = await readFormFields(request);
   const values = { name: String(form.name ?? ""), slug: String(form.slug ?? "") };
   const parsed = createTeamSchema.safeParse(form);
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error), values }, { status: 400 });

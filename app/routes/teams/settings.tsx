@@ -8,6 +8,7 @@ import { settingsActionSchema, type SettingsAction } from "~/lib/team-schemas";
 import { requireMember, type MemberContext } from "~/server/permissions.server";
 import * as teams from "~/server/teams.server";
 import type { Route } from "./+types/settings";
+import { readFormFields } from "~/server/body.server";
 
 const NEEDS: Record<SettingsAction["intent"], Permission> = {
   rename: { team: ["update"] },
@@ -40,7 +41,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const form = Object.fromEntries(await request.formData());
+  const form = await readFormFields(request);
   const intent = String(form.intent ?? "");
   const needed = NEEDS[intent as SettingsAction["intent"]];
   // The role is checked before the input, so a refused user learns nothing from validation.
