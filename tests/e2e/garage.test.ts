@@ -48,7 +48,8 @@ describe("Garage in the browser", () => {
     expect(await page.inputValue("#f-wheelbaseMm")).toBe("96.4567");
     // The draft survives a reload (kept in localStorage for this form).
     await page.reload({ waitUntil: "networkidle" });
-    expect(await page.inputValue("#f-name")).toBe(name);
+    // The draft is put back once the page has hydrated, which may come after network idle on a busy machine.
+    await expect.poll(() => page.inputValue("#f-name")).toBe(name);
     expect(await page.inputValue("#f-wheelbaseMm")).toBe("96.4567");
     await page.getByRole("button", { name: "Create car" }).click();
     await page.waitForURL(/\/garage\/[0-9a-f-]{36}$/);
