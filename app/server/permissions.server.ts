@@ -1,5 +1,5 @@
 import { data } from "react-router";
-import { and, eq } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import { member, organization } from "../db/schema/auth";
 import { can, isRole, type Permission, type Role } from "../lib/access";
 import { db } from "./db.server";
@@ -50,25 +50,28 @@ export async function requireMember(
 
 type Membership = { id: string; name: string; slug: string; role: string; memberId: string };
 
-// One membership lookup per request and team (the layout and the page's loader both ask).
-const membershipsOf = new WeakMap<Request, Map<string, Promise<Membership | undefined>>>();
+// Every team of the user, looked up once per request: the layout's loader (the team switcher) and the
+// page's loader (requireMember) both read it. Slugs compare as MariaDB's default collation does (case-insensitive).
+const membershipsOf = new WeakMap<Request, { userId: string; rows: Promise<Membership[]> }>();
 
-function membershipOf(request: Request, teamSlug: string, userId: string): Promise<Membership | undefined> {
-  let byKey = membershipsOf.get(request);
-  if (!byKey) membershipsOf.set(request, (byKey = new Map()));
-  const key = `${userId}\u0000${teamSlug}`;
-  let pending = byKey.get(key);
-  if (!pending) {
-    pending = db
-      .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
-      .from(member)
-      .innerJoin(organization, eq(member.organizationId, organization.id))
-      .where(and(eq(organization.slug, teamSlug), eq(member.userId, userId)))
-      .limit(1)
-      .then((rows) => rows[0]);
-    byKey.set(key, pending);
-  }
-  return pending;
+function membershipsOfRequest(request: Request, userId: string): Promise<Membership[]> {
+  const known = membershipsOf.get(request);
+  if (known && known.userId === userId) return known.rows;
+  const rows = db
+    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
+    .from(member)
+    .innerJoin(organization, eq(member.organizationId, organization.id))
+    .where(eq(member.userId, userId))
+    .orderBy(organization.name)
+    // A Drizzle query runs again each time it is awaited: keep the one result as a promise.
+    .then((found) => found);
+  membershipsOf.set(request, { userId, rows });
+  return rows;
+}
+
+async function membershipOf(request: Request, teamSlug: string, userId: string): Promise<Membership | undefined> {
+  const wanted = teamSlug.toLowerCase();
+  return (await membershipsOfRequest(request, userId)).find((m) => m.slug.toLowerCase() === wanted);
 }
 
 /** better-auth stores roles as a comma list; Rakeline gives each member one. Unknown → driver (least). */
@@ -77,15 +80,20 @@ function primaryRole(stored: string): Role {
   return first ?? "driver";
 }
 
-/** The teams a user belongs to, for the team switcher and the start page. */
-export async function listTeamsOf(userId: string): Promise<Array<Team & { role: Role }>> {
-  const rows = await db
-    .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role })
-    .from(member)
-    .innerJoin(organization, eq(member.organizationId, organization.id))
-    .where(eq(member.userId, userId))
-    .orderBy(organization.name);
-  return rows.map((r) => ({ ...r, role: primaryRole(r.role) }));
+/**
+ * The teams a user belongs to, for the team switcher and the start page. With the request, the lookup
+ * requireMember made for it is reused.
+ */
+export async function listTeamsOf(userId: string, request?: Request): Promise<Array<Team & { role: Role }>> {
+  const rows = request
+    ? await membershipsOfRequest(request, userId)
+    : await db
+        .select({ id: organization.id, name: organization.name, slug: organization.slug, role: member.role, memberId: member.id })
+        .from(member)
+        .innerJoin(organization, eq(member.organizationId, organization.id))
+        .where(eq(member.userId, userId))
+        .orderBy(organization.name);
+  return rows.map((r) => ({ id: r.id, name: r.name, slug: r.slug, role: primaryRole(r.role) }));
 }
 
 /** For route actions: a thrown 400 with a message when an expected step fails. */

@@ -6,7 +6,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { sql } from "drizzle-orm";
 import { db } from "~/server/db.server";
-import { requireMember } from "~/server/permissions.server";
+import { listTeamsOf, requireMember } from "~/server/permissions.server";
 import { getSignedIn } from "~/server/session.server";
 import { garageWorld } from "./garage-support";
 import { getRequest } from "./auth-support";
@@ -45,6 +45,17 @@ describe("per-request lookups", () => {
     expect(afterFirst - before).toBeGreaterThan(1);
     // The second call: only our own SHOW STATUS statement.
     expect(afterSecond - afterFirst).toBe(1);
+  });
+
+  it("gives the layout its team list from the lookup requireMember made", async () => {
+    const request = getRequest(`/t/${world.team.slug}/garage`, world.jars.owner);
+    const ctx = await requireMember(request, world.team.slug);
+    const before = await questions();
+    const teams = await listTeamsOf(ctx.user.id, request);
+    expect(await questions()).toBe(before + 1);
+    expect(teams.map((t) => t.slug)).toContain(world.team.slug);
+    // Without the request it asks MariaDB itself, and agrees.
+    expect(await listTeamsOf(ctx.user.id)).toEqual(teams);
   });
 
   it("still answers each permission separately on a shared lookup", async () => {

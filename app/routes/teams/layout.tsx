@@ -9,7 +9,7 @@ import type { Route } from "./+types/layout";
 // them calls requireMember itself; this loader only feeds the header.
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug);
-  const teams = await listTeamsOf(ctx.user.id);
+  const teams = await listTeamsOf(ctx.user.id, request);
   return {
     user: { name: ctx.user.name, email: ctx.user.email },
     team: { ...ctx.team, role: ctx.role },
