@@ -118,6 +118,9 @@ function tooLargeMessage(capBytes) {
  * The request listener. `build` is the imported server build; `clientDir` its static files; `https` whether
  * the public address is https (APP_URL), which adds HSTS.
  */
+/** The most of a refused body (by its Content-Length) read and dropped rather than cut off. */
+const MAX_LINGER_BYTES = 64 * 1024 * 1024;
+
 export function createAppListener({ build, clientDir, mode = "production", https = false, maxParsedBodyBytes = MAX_PARSED_BODY_BYTES }) {
   const handle = createRequestHandler(build, mode);
   const baseline = baselineHeaders({ https });
@@ -143,8 +146,11 @@ export function createAppListener({ build, clientDir, mode = "production", https
       capBytes = maxParsedBodyBytes;
       const declared = Number(req.headers["content-length"]);
       if (Number.isFinite(declared) && declared > capBytes) {
-        // Refused before a byte of the body is read; the connection is closed so the rest is never parsed.
-        sendPlain(res, 413, tooLargeMessage(capBytes), { Connection: "close" });
+        // Refused before a byte of the body is parsed. A body of a sane size is read and dropped, so the
+        // client, still sending, sees the 413 and not a reset connection (RFC 9112 §9.6, tear-down);
+        // beyond that, the connection is closed at once.
+        const linger = declared <= MAX_LINGER_BYTES;
+        sendPlain(res, 413, tooLargeMessage(capBytes), linger ? {} : { Connection: "close" });
         req.resume();
         return;
       }
