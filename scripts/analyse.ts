@@ -1,7 +1,11 @@
 /**
  * analyse CLI (batch users depend on this contract):
  *   npm run --silent analyse -- FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260]
- *                                [--air-temp-c 20 --air-pressure-hpa 1013.25 [--humidity-pct 50]] [--threads N]
+ *                                [--air-temp-c 20 --air-pressure-hpa 1013.25 [--humidity-pct 50]]
+ *                                [--fuel-start-kg 45 --fuel-end-kg 18] [--threads N]
+ * --fuel-start-kg/--fuel-end-kg (both or neither): the fuel at the start and the end of the log; the
+ * burn is taken as linear in time and split over the axles by the car file's
+ * fuel_tank_from_front_axle_mm, and the static-load drift is then not fitted.
  * Large files are analysed in parts on worker threads (one per core by default; --threads 1 for
  * one thread); the summary is the same either way (see app/engine/split.ts).
  * Prints one JSON object (the session summary without its chart traces) on stdout and exits 0.
@@ -11,13 +15,14 @@ import { readFileSync, statSync } from "node:fs";
 import { parseBandEdges } from "../app/engine/bands";
 import { validateCar } from "../app/engine/car";
 import { isEngineError } from "../app/engine/errors";
+import { validateFuel } from "../app/engine/fuel";
 import type { ChannelMap } from "../app/engine/types";
 import { analyseFileInParts, defaultThreads } from "./lib/part-threads";
 
 class UsageError extends Error {}
 
-const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25] [--humidity-pct 50] [--threads N]";
-const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa", "--humidity-pct", "--threads"] as const;
+const USAGE = "usage: analyse FILE --car CAR.json --map MAP.json [--bands 0,80,120,160,260] [--air-temp-c 20] [--air-pressure-hpa 1013.25] [--humidity-pct 50] [--fuel-start-kg 45 --fuel-end-kg 18] [--threads N]";
+const VALUE_FLAGS = ["--car", "--map", "--bands", "--air-temp-c", "--air-pressure-hpa", "--humidity-pct", "--fuel-start-kg", "--fuel-end-kg", "--threads"] as const;
 type Flag = (typeof VALUE_FLAGS)[number];
 
 function parseArgs(argv: string[]): { file: string; flags: Partial<Record<Flag, string>> } {
@@ -73,6 +78,10 @@ async function main(): Promise<void> {
   const airTempC = numberFlag(flags["--air-temp-c"], "--air-temp-c");
   const airPressureHpa = numberFlag(flags["--air-pressure-hpa"], "--air-pressure-hpa");
   const airHumidityPct = numberFlag(flags["--humidity-pct"], "--humidity-pct");
+  const fuelStart = numberFlag(flags["--fuel-start-kg"], "--fuel-start-kg");
+  const fuelEnd = numberFlag(flags["--fuel-end-kg"], "--fuel-end-kg");
+  if ((fuelStart === undefined) !== (fuelEnd === undefined)) throw new UsageError(`give both --fuel-start-kg and --fuel-end-kg, or neither (got only ${fuelStart === undefined ? "--fuel-end-kg" : "--fuel-start-kg"})`);
+  const fuel = fuelStart !== undefined && fuelEnd !== undefined ? validateFuel({ startKg: fuelStart, endKg: fuelEnd }) : undefined;
   let stat;
   try {
     stat = statSync(file);
@@ -82,7 +91,7 @@ async function main(): Promise<void> {
   if (!stat.isFile()) throw new UsageError(`the log file ${file} is not a regular file`);
   const threads = numberFlag(flags["--threads"], "--threads") ?? defaultThreads();
   if (!Number.isInteger(threads) || threads < 1 || threads > 64) throw new UsageError(`--threads must be a whole number from 1 to 64, got "${flags["--threads"]}"`);
-  const summary = await analyseFileInParts(file, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa, airHumidityPct, threads });
+  const summary = await analyseFileInParts(file, car, mapJson as ChannelMap, { bandEdgesKmh, airTempC, airPressureHpa, airHumidityPct, fuel, threads });
   const { traces: _traces, ...out } = summary;
   process.stdout.write(JSON.stringify(out) + "\n");
 }

@@ -167,7 +167,10 @@ export interface AxleFit {
 
 export interface AeroFit {
   with_intercept: boolean;
+  /** The drift was fitted. */
   with_drift: boolean;
+  /** The drift is a given fuel burn (not fitted). */
+  drift_given: boolean;
   samples: number;
   blocks: number;
   front: AxleFit;
@@ -183,13 +186,20 @@ function columns(withIntercept: boolean, withDrift: boolean): number[] {
   return cols;
 }
 
-function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): MultiFit | null {
+/**
+ * Least squares on the chosen columns. `knownDrift` (N/s): a drift that is known (a given fuel burn)
+ * is taken out of the response first, y' = y − d·τ, and not fitted.
+ */
+function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean, knownDrift = 0): MultiFit | null {
   const xx = [
     [s.n, s.st, s.sq],
     [s.st, s.stt, s.stq],
     [s.sq, s.stq, s.sqq],
   ];
-  const xy = rear ? [s.sr, s.str, s.sqr] : [s.sf, s.stf, s.sqf];
+  const d = knownDrift;
+  const [sy, sty, sqy, syy] = rear ? [s.sr, s.str, s.sqr, s.srr] : [s.sf, s.stf, s.sqf, s.sff];
+  const xy = [sy - d * s.st, sty - d * s.stt, sqy - d * s.stq];
+  const yy = syy - 2 * d * sty + d * d * s.stt;
   const k = cols.length;
   const xtx = new Float64Array(k * k);
   const xty = new Float64Array(k);
@@ -197,7 +207,7 @@ function axleFit(s: AxleRegressionSums, cols: number[], rear: boolean): MultiFit
     xty[i] = xy[ci];
     cols.forEach((cj, j) => (xtx[i * k + j] = xx[ci][cj]));
   });
-  return solveNormalEquations(xtx, xty, rear ? s.srr : s.sff, s.n, k);
+  return solveNormalEquations(xtx, xty, yy, s.n, k);
 }
 
 function offsetCov(cov: Float64Array | null, k: number, ai: number, ti: number): AxleFit["offset_cov"] {
@@ -212,16 +222,21 @@ export function offsetVariance(fit: AxleFit, tauS: number): number {
   return Number.isFinite(v) ? Math.max(0, v) : 0;
 }
 
-/** Fit both axles; null when the samples cannot support the model. */
-export function fitAero(acc: AeroAccumulator, withIntercept: boolean, withDrift: boolean): AeroFit | null {
+/**
+ * Fit both axles; null when the samples cannot support the model. With `knownDrift` (N/s per axle,
+ * a given fuel burn) the drift is that and is not fitted (`withDrift` is then ignored).
+ */
+export function fitAero(acc: AeroAccumulator, withIntercept: boolean, withDrift: boolean, knownDrift: { front: number; rear: number } | null = null): AeroFit | null {
+  if (knownDrift) withDrift = false;
   const cols = columns(withIntercept, withDrift);
   const k = cols.length;
   const qi = k - 1;
   const ti = withDrift ? (withIntercept ? 1 : 0) : -1;
   const result: Partial<Record<"front" | "rear", AxleFit>> = {};
   for (const side of ["front", "rear"] as const) {
-    const fit = axleFit(acc.samples, cols, side === "rear");
-    const blockFit = axleFit(acc.blocks, cols, side === "rear");
+    const known = knownDrift ? knownDrift[side] : 0;
+    const fit = axleFit(acc.samples, cols, side === "rear", known);
+    const blockFit = axleFit(acc.blocks, cols, side === "rear", known);
     if (!fit) return null;
     const se = blockFit ? blockFit.se[qi] : NaN;
     result[side] = {
@@ -229,13 +244,13 @@ export function fitAero(acc: AeroAccumulator, withIntercept: boolean, withDrift:
       cla_se_m2: se,
       cla_ci95_m2: blockFit ? interval95(fit.beta[qi], se, blockFit.df) : null,
       intercept_n: withIntercept ? fit.beta[0] : 0,
-      drift_n_per_s: ti >= 0 ? fit.beta[ti] : 0,
-      drift_se_n_per_s: ti >= 0 && blockFit ? blockFit.se[ti] : NaN,
+      drift_n_per_s: ti >= 0 ? fit.beta[ti] : known,
+      drift_se_n_per_s: ti >= 0 && blockFit ? blockFit.se[ti] : knownDrift ? 0 : NaN,
       offset_cov: offsetCov(blockFit?.cov ?? null, k, withIntercept ? 0 : -1, ti),
       residual_sd_n: Math.sqrt(fit.rss / Math.max(1, fit.df)),
     };
   }
-  return { with_intercept: withIntercept, with_drift: withDrift, samples: acc.samples.n, blocks: acc.blocks.n, front: result.front!, rear: result.rear! };
+  return { with_intercept: withIntercept, with_drift: withDrift, drift_given: knownDrift !== null, samples: acc.samples.n, blocks: acc.blocks.n, front: result.front!, rear: result.rear! };
 }
 
 /** Mean aero load of a band (N) from the band sums and an axle fit. */

@@ -1,12 +1,31 @@
 /**
- * CAR.json validation (zod) and the derived figures the physics uses.
+ * CAR.json validation (zod) and the derived figures the physics uses. This is the one schema for a
+ * car file: the CLI, the worker API and the Garage import (app/lib/garage/car-json.ts wraps it)
+ * accept exactly the same files.
  * Rates and bump-stop gaps are at the damper; the gap is measured from the static position.
  * Ranges are wide plausibility limits that catch typing errors (a motion ratio of 7, a mass in
- * pounds), not design limits.
+ * pounds), not design limits (`CAR_LIMITS`).
  */
 import { z } from "zod";
 import { EngineError } from "./errors";
 import type { CarInput } from "./types";
+
+/** Plausibility limits of the car file's numbers: [lowest, highest, unit text]. */
+export const CAR_LIMITS = {
+  wheelbase_mm: [1200, 4500, "mm"],
+  mass_kg: [150, 4000, "kg with driver"],
+  static_front_weight_pct: [20, 80, "%"],
+  cog_height_mm: [100, 1200, "mm"],
+  steering_ratio: [4, 40, ": 1 (steering wheel / road wheel)"],
+  fuel_tank_from_front_axle_mm: [-1000, 6000, "mm behind the front axle (centre of the tank)"],
+  spring_rate_n_per_mm: [5, 2000, "N/mm at the damper"],
+  motion_ratio: [0.3, 1.5, "(damper travel / wheel travel)"],
+  bump_stop_gap_mm: [0, 150, "mm of damper travel from static"],
+  bump_stop_rate_n_per_mm: [1, 20_000, "N/mm at the damper"],
+  static_damper_mm: [-500, 500, "mm"],
+} as const satisfies Record<string, readonly [number, number, string]>;
+
+const limit = (k: keyof typeof CAR_LIMITS) => ranged(CAR_LIMITS[k][0], CAR_LIMITS[k][1], CAR_LIMITS[k][2]);
 
 function ranged(lo: number, hi: number, unit: string) {
   const what = `a number from ${lo} to ${hi}${unit ? " " + unit : ""}`;
@@ -15,7 +34,7 @@ function ranged(lo: number, hi: number, unit: string) {
     .refine((v) => Number.isFinite(v) && v >= lo && v <= hi, { error: (iss) => `must be ${what}, got ${String(iss.input)}` });
 }
 
-const tableRow = z.object(
+const tableRow = z.strictObject(
   { deflection_mm: ranged(0, 150, "mm from contact"), force_n: ranged(0, 200_000, "N at the damper") },
   { error: "must be an object { deflection_mm, force_n }" },
 );
@@ -33,50 +52,75 @@ const forceTable = z
     if (rows.every((r) => r.force_n === 0)) ctx.addIssue({ code: "custom", message: "has zero force on every row, which is not a stop" });
   });
 
-const bumpStopSchema = z.object(
+const bumpStopSchema = z.strictObject(
   {
-    gap_mm: ranged(0, 150, "mm of damper travel from static"),
-    rate_n_per_mm: ranged(1, 20_000, "N/mm at the damper"),
+    gap_mm: limit("bump_stop_gap_mm"),
+    rate_n_per_mm: limit("bump_stop_rate_n_per_mm"),
     force_table: forceTable.optional(),
   },
   { error: "must be an object { gap_mm, rate_n_per_mm, force_table? }" },
 );
 
-const axleSchema = z.object(
+const axleSchema = z.strictObject(
   {
-    spring_rate_n_per_mm: ranged(5, 2000, "N/mm at the damper"),
-    motion_ratio: ranged(0.3, 1.5, "(damper travel / wheel travel)"),
+    spring_rate_n_per_mm: limit("spring_rate_n_per_mm"),
+    motion_ratio: limit("motion_ratio"),
     bump_stop: bumpStopSchema.optional(),
   },
   { error: (iss) => (iss.input === undefined ? "is missing (an object with spring_rate_n_per_mm and motion_ratio)" : "must be an object") },
 );
 
-const damperReading = ranged(-500, 500, "mm");
+const damperReading = limit("static_damper_mm");
 
-export const carSchema = z.object(
+export const CAR_NAME_MAX = 120;
+
+/**
+ * The CAR.json schema. Unknown keys are refused (a misspelt optional key would otherwise be
+ * dropped without a word).
+ */
+export const carSchema = z.strictObject(
   {
-    name: z.string({ error: "is missing (the car's name)" }).trim().min(1, { error: "must not be empty" }).max(120, { error: "is longer than 120 characters" }),
-    wheelbase_mm: ranged(1200, 4500, "mm"),
-    mass_kg: ranged(150, 4000, "kg with driver"),
-    static_front_weight_pct: ranged(20, 80, "%"),
-    cog_height_mm: ranged(100, 1200, "mm"),
-    steering_ratio: ranged(4, 40, ": 1 (steering wheel / road wheel)"),
+    name: z
+      .string({ error: (iss) => (iss.input === undefined ? "is missing (the car's name)" : "must be a string") })
+      .trim()
+      .min(1, { error: "must not be empty" })
+      .max(CAR_NAME_MAX, { error: `is longer than ${CAR_NAME_MAX} characters` }),
+    wheelbase_mm: limit("wheelbase_mm"),
+    mass_kg: limit("mass_kg"),
+    static_front_weight_pct: limit("static_front_weight_pct"),
+    cog_height_mm: limit("cog_height_mm"),
+    steering_ratio: limit("steering_ratio"),
+    /** Centre of the fuel tank behind the front axle (mm): splits a known fuel burn over the axles. */
+    fuel_tank_from_front_axle_mm: limit("fuel_tank_from_front_axle_mm").optional(),
     front: axleSchema,
     rear: axleSchema,
     static_damper_mm: z
-      .object({ fl: damperReading, fr: damperReading, rl: damperReading, rr: damperReading }, { error: "must be an object { fl, fr, rl, rr } in mm" })
+      .strictObject({ fl: damperReading, fr: damperReading, rl: damperReading, rr: damperReading }, { error: "must be an object { fl, fr, rl, rr } in mm" })
       .optional(),
   },
   { error: "must be a JSON object" },
 );
 
+/** One line per problem: the field's path, then what is wrong ("front.motion_ratio must be …"). */
+export function carProblems(input: unknown): { ok: true; car: CarInput } | { ok: false; problems: string[] } {
+  const r = carSchema.safeParse(input);
+  if (r.success) return { ok: true, car: r.data as CarInput };
+  const problems = r.error.issues.map((issue) => {
+    const where = issue.path.length ? issue.path.join(".") : "car";
+    if (issue.code === "unrecognized_keys") {
+      const keys = issue.keys.map((k) => `"${k}"`).join(", ");
+      return `${where === "car" ? "" : where + ": "}unknown key${issue.keys.length > 1 ? "s" : ""} ${keys} (a car file holds only the CAR.json keys)`;
+    }
+    return `${where} ${issue.message}`;
+  });
+  return { ok: false, problems };
+}
+
 /** Validate a parsed CAR.json; throws EngineError("bad_car") naming the field and the range. */
 export function validateCar(input: unknown): CarInput {
-  const r = carSchema.safeParse(input);
-  if (r.success) return r.data as CarInput;
-  const issue = r.error.issues[0];
-  const field = issue.path.length ? issue.path.join(".") : "car";
-  throw new EngineError("bad_car", `car file: ${field} ${issue.message}`);
+  const r = carProblems(input);
+  if (r.ok) return r.car;
+  throw new EngineError("bad_car", `car file: ${r.problems[0]}`);
 }
 
 /**
@@ -118,6 +162,8 @@ export interface CarModel {
   motionRatioFront: number;
   motionRatioRear: number;
   staticDamperMm: { fl: number; fr: number; rl: number; rr: number } | null;
+  /** Centre of the fuel tank behind the front axle (m); null when the car file does not give it. */
+  fuelTankFromFrontAxleM: number | null;
 }
 
 export function carModel(car: CarInput): CarModel {
@@ -138,5 +184,6 @@ export function carModel(car: CarInput): CarModel {
     motionRatioFront: car.front.motion_ratio,
     motionRatioRear: car.rear.motion_ratio,
     staticDamperMm: car.static_damper_mm ?? null,
+    fuelTankFromFrontAxleM: car.fuel_tank_from_front_axle_mm === undefined ? null : car.fuel_tank_from_front_axle_mm / 1000,
   };
 }

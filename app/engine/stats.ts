@@ -33,7 +33,8 @@ export function meanInterval(n: number, sum: number, sumSq: number): { mean: num
 export function roundOrNull(v: number, digits: number): number | null {
   if (!Number.isFinite(v)) return null;
   const f = 10 ** digits;
-  return Math.round(v * f) / f;
+  // + 0 turns −0 into 0 (JSON writes −0 as 0, so the summary would not survive a round trip).
+  return Math.round(v * f) / f + 0;
 }
 
 export function roundPair(p: [number, number] | null, digits: number): [number, number] | null {

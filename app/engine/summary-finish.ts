@@ -1,6 +1,7 @@
 /** Turns the streaming statistics into the SessionSummary (fits, bands, warnings). */
 import { bandAeroLoadN, fitAero, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
+import { fuelAxleLoadChangeN } from "./fuel";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { StaticReference, SummaryBuilder } from "./summary";
 import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./summary-types";
@@ -22,6 +23,7 @@ const MIN_BAND_BLOCKS = 5;
 /** Samples (speed changing by ≥ 0.05 g above 30 km/h) before the sign checks against dv/dt speak. */
 const MIN_SIGN_SAMPLES = 200;
 const CONTACT_WARN_PCT = 2;
+const KMH_PER_MS = 3.6;
 
 export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSummary {
   const warnings: SummaryWarning[] = [];
@@ -33,7 +35,14 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
 
   // Aero fit: through the origin when static readings are given, else with an intercept.
   const withIntercept = !s.staticGiven;
-  const withDrift = duration >= DRIFT_MIN_DURATION_S && s.aero.blocks.n >= FEW_AERO_BLOCKS;
+  // Static-load drift: a given fuel burn (known, not fitted), else a fitted linear trend on long stints.
+  const fuelGiven = s.opts.fuel;
+  const tankM = c.fuelTankFromFrontAxleM ?? c.wheelbaseM * (1 - c.frontWeightFraction);
+  const fuelChange = fuelGiven ? fuelAxleLoadChangeN(fuelGiven.endKg - fuelGiven.startKg, tankM, c.wheelbaseM) : null;
+  const knownDrift = fuelChange && duration > 0 ? { front: fuelChange.front / duration, rear: fuelChange.rear / duration } : fuelChange ? { front: 0, rear: 0 } : null;
+  if (fuelGiven && c.fuelTankFromFrontAxleM === null) warn("fuel_tank_position_assumed", `the car file gives no fuel_tank_from_front_axle_mm: the fuel burn is split over the axles as the static weight is (tank taken at the centre of gravity, ${(tankM * 1000).toFixed(0)} mm behind the front axle)`);
+  const withDrift = !fuelGiven && duration >= DRIFT_MIN_DURATION_S && s.aero.blocks.n >= FEW_AERO_BLOCKS;
+  if (!fuelGiven) warn("fuel_not_given", withDrift ? "fuel at the start and end of the stint not given: the static-load change (fuel burn, pot drift) is fitted as a linear trend, which can take up part of the aero's speed dependence; give the fuel (--fuel-start-kg, --fuel-end-kg) for firmer band balances" : "fuel at the start and end of the stint not given and the log is too short to fit a static-load trend: a fuel burn during the log is not modelled");
   // Sign checks against the rate of change of speed d (see SummaryBuilder.sign): a long_accel logged
   // the other way would turn the load-transfer correction round, so no aero figures are given then.
   const sign = s.sign;
@@ -65,8 +74,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (axInverted || unitSlip || rateSlip || damperSlips.length > 0) {
     // No fit: the warning above says why.
   } else if (s.aero.blocks.n >= MIN_AERO_BLOCKS) {
-    fit = fitAero(s.aero, withIntercept, withDrift);
-    alt = fitAero(s.aero, !withIntercept, withDrift);
+    fit = fitAero(s.aero, withIntercept, withDrift, knownDrift);
+    alt = fitAero(s.aero, !withIntercept, withDrift, knownDrift);
     if (!fit) warn("aero_fit_failed", "the aero fit could not be solved: the usable samples do not span enough speeds");
   } else {
     warn("few_aero_samples", `only ${s.aero.blocks.n} s of usable running for the aero fit (at least ${MIN_AERO_BLOCKS} s above ${s.opts.gates.aero_min_speed_kmh} km/h with |ax| ≤ ${s.opts.gates.aero_max_long_g} g are needed), so ClA and balance are not estimated`);
@@ -153,6 +162,9 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (s.hasBumpStops) flags.push("bump_stops_modelled");
   if (withDrift) flags.push("static_load_drift_modelled");
   const bands: BandSummary[] = [];
+  const bandBalances: { bal: number; ci: [number, number] | null }[] = [];
+  const rate = Number.isFinite(s.sampleRateHz) && s.sampleRateHz > 0 ? s.sampleRateHz : 1;
+  const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
   const a = s.aero.bands;
   const edges = s.opts.bandEdgesKmh;
   const weightN = c.massKg * 9.80665;
@@ -179,6 +191,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
     }
     const rh = rideHeights(s, staticRef, b, loadF, loadR);
+    const bandCop = Number.isFinite(bal) ? copFromFrontAxleMm(s.car.wheelbase_mm, bal) : NaN;
     // Balance interval from the band's block means (delta method on F/(F + R)).
     const spread = fit ? s.aero.bandBlockSpread(b, fit.front.drift_n_per_s, fit.rear.drift_n_per_s) : null;
     let balCi: [number, number] | null = null;
@@ -210,10 +223,17 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       understeer_blocks: us ? us.blocks : 0,
       understeer_lat_g_range: us ? roundPair([s.opts.gates.us_min_lat_g, us.upper_gate_g], 3) : null,
       ...rh,
+      duration_s: r(s.bandRows[b] / rate, 2) ?? 0,
+      mean_speed_kmh: r(s.bandRows[b] > 0 ? (s.bandSpeedSum[b] / s.bandRows[b]) * KMH_PER_MS : NaN, 2),
+      cla_front_ci95_m2: null,
+      cla_rear_ci95_m2: null,
+      cop_from_front_axle_mm: r(bandCop, 1),
+      cop_behind_cog_mm: r(bandCop - cogMm, 1),
+      steady_cornering_s: r(us && Number.isFinite(k) ? us.samples / rate : 0, 2) ?? 0,
     });
+    bandBalances.push({ bal, ci: balCi });
   }
 
-  const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
   const copMm = Number.isFinite(balance) ? copFromFrontAxleMm(s.car.wheelbase_mm, balance) : NaN;
   const dropped = ctx.droppedCells ?? {};
   const totalDropped = Object.values(dropped).reduce((x, y) => x + y, 0);
@@ -248,6 +268,18 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       alternative: alt ? { model: alt.with_intercept ? "with_intercept" : "through_origin", cla_front_m2: r(alt.front.cla_m2, 4), cla_rear_m2: r(alt.rear.cla_m2, 4) } : null,
       bump_stop_contact_front_pct: r(contactPct.front, 2),
       bump_stop_contact_rear_pct: r(contactPct.rear, 2),
+      variation_model: "constant",
+      variation_criterion: { name: "none (one ClA per axle)", scores: { constant: null, speed_band: null, ride_height: null } },
+      balance_shift: balanceShift(bands, bandBalances, s.car.wheelbase_mm),
+      ride_height_sensitivity: null,
+    },
+    fuel: {
+      source: fuelGiven ? "given" : withDrift && fit ? "fitted_drift" : "not_modelled",
+      start_kg: fuelGiven ? fuelGiven.startKg : null,
+      end_kg: fuelGiven ? fuelGiven.endKg : null,
+      tank_from_front_axle_mm: c.fuelTankFromFrontAxleM === null ? null : r(c.fuelTankFromFrontAxleM * 1000, 1),
+      static_load_change_front_n: fuelChange ? r(fuelChange.front, 1) : driftChange(fit, "front"),
+      static_load_change_rear_n: fuelChange ? r(fuelChange.rear, 1) : driftChange(fit, "rear"),
     },
     static_damper_mm: staticRef
       ? { source: staticRef.source, fl: r(staticRef.fl, 2)!, fr: r(staticRef.fr, 2)!, rl: r(staticRef.rl, 2)!, rr: r(staticRef.rr, 2)!, samples: staticRef.samples }
@@ -277,6 +309,30 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     warnings,
     cautions: [...CAUTIONS],
     notes: [...METHOD_NOTES, ...(s.mapped.has("ride_height_front") || s.mapped.has("ride_height_rear") ? [RIDE_HEIGHT_NOTE] : [])],
+  };
+}
+
+/**
+ * Balance between the lowest and the highest band whose balance could be given (enough aero load):
+ * the two bands' balance intervals taken as independent for the interval of the difference.
+ */
+function balanceShift(bands: BandSummary[], bb: { bal: number; ci: [number, number] | null }[], wheelbaseMm: number): SessionSummary["aero"]["balance_shift"] {
+  const ok = bb.map((x, i) => (Number.isFinite(x.bal) ? i : -1)).filter((i) => i >= 0);
+  if (ok.length < 2) return null;
+  const lo = ok[0], hi = ok[ok.length - 1];
+  const points = bb[hi].bal - bb[lo].bal;
+  const half = (ci: [number, number] | null) => (ci ? (ci[1] - ci[0]) / 2 : NaN);
+  const h = Math.hypot(half(bb[lo].ci), half(bb[hi].ci));
+  const ci: [number, number] | null = Number.isFinite(h) ? [points - h, points + h] : null;
+  // CoP = L·(1 − balance): a forward shift of balance by p points moves the CoP forward by L·p/100.
+  const mm = (wheelbaseMm * points) / 100;
+  return {
+    low_band_kmh: [bands[lo].min_kmh, bands[lo].max_kmh],
+    high_band_kmh: [bands[hi].min_kmh, bands[hi].max_kmh],
+    points: r(points, 2)!,
+    ci95_points: roundPair(ci, 2),
+    cop_shift_mm: r(mm, 1)!,
+    cop_shift_ci95_mm: ci ? roundPair([(wheelbaseMm * ci[0]) / 100, (wheelbaseMm * ci[1]) / 100], 1) : null,
   };
 }
 

@@ -1,6 +1,8 @@
 /** Options and gates of the streaming summary. Gate values are common practice, not from one source. */
 import { DEFAULT_BAND_EDGES_KMH, validateBandEdges } from "./bands";
 import { EngineError } from "./errors";
+import { validateFuel } from "./fuel";
+import type { FuelGiven } from "./fuel";
 
 export interface SummaryGates {
   /** Aero fit: speed floor, |ax| limit after the load-transfer correction, damper velocity and spike limits. */
@@ -47,6 +49,12 @@ export interface SummaryOptions {
   gates?: Partial<SummaryGates>;
   /** Length of the blocks used for intervals (s), default 1. */
   blockS?: number;
+  /**
+   * Fuel at the start and at the end of the log (kg). When given, the static-load drift is this
+   * known burn (linear in time, split over the axles by the car file's tank position) and is not
+   * fitted; without it the drift is fitted on long stints (fuel.ts).
+   */
+  fuel?: FuelGiven;
   /** Boxcar lengths (s): dampers ≈ 0.11 s (≈4 Hz), understeer gates ≈ 0.2 s. */
   damperSmoothingS?: number;
   gateSmoothingS?: number;
@@ -62,6 +70,7 @@ export interface ResolvedOptions {
   airPressureHpa?: number;
   airHumidityPct?: number;
   gates: SummaryGates;
+  fuel: FuelGiven | null;
   blockS: number;
   damperSmoothingS: number;
   gateSmoothingS: number;
@@ -87,6 +96,7 @@ export function resolveOptions(o: SummaryOptions = {}): ResolvedOptions {
     airPressureHpa: o.airPressureHpa === undefined ? undefined : positive("air pressure (hPa)", o.airPressureHpa, 1013.25, 500, 1100),
     airHumidityPct: o.airHumidityPct === undefined ? undefined : positive("relative humidity (%)", o.airHumidityPct, 0, 0, 100),
     gates,
+    fuel: o.fuel === undefined ? null : validateFuel(o.fuel),
     blockS: positive("block length (s)", o.blockS, 1, 0.1, 60),
     damperSmoothingS: positive("damper smoothing (s)", o.damperSmoothingS, 0.11, 0, 2),
     gateSmoothingS: positive("gate smoothing (s)", o.gateSmoothingS, 0.2, 0, 2),

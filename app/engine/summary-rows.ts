@@ -38,10 +38,10 @@ export interface TimeState {
 
 /**
  * Pass 1: τ (s since the first row), row flags and the speed band of each row (−1 outside the
- * edges); counts rows per band. Band i holds edge[i] ≤ v < edge[i+1].
+ * edges); counts rows per band and sums their speed. Band i holds edge[i] ≤ v < edge[i+1].
  */
 export function timeAndBandPass(
-  count: number, cT: Float64Array, mV: Float64Array, blockS: number, edges: Float64Array, bandRows: Float64Array,
+  count: number, cT: Float64Array, mV: Float64Array, blockS: number, edges: Float64Array, bandRows: Float64Array, bandSpeedSum: Float64Array,
   s: TimeState, tauOut: Float64Array, bandOut: Int32Array, flagOut: Uint8Array,
 ): void {
   const lastEdge = edges.length - 1, e0 = edges[0];
@@ -77,7 +77,7 @@ export function timeAndBandPass(
       if (band >= 0) { lo = edges[band]; hi = edges[band + 1]; } else { lo = Infinity; hi = -Infinity; }
     }
     bandOut[j] = band;
-    if (band >= 0) bandRows[band]++;
+    if (band >= 0) { bandRows[band]++; bandSpeedSum[band] += v; }
   }
   s.rows = rows; s.t0 = t0; s.tLast = tLast; s.blockStart = blockStart; s.blockEnd = blockEnd; s.owned = owned;
 }

@@ -6,7 +6,8 @@
 import type { CarInput, ChannelMap } from "./types";
 import type { TraceOutput } from "./summary-traces";
 
-export const SUMMARY_VERSION = 1;
+/** 2: bands carry their own ClA (the aero may vary with speed and ride height), fuel and balance shift. */
+export const SUMMARY_VERSION = 2;
 
 export interface SummaryWarning {
   code: string;
@@ -44,6 +45,51 @@ export interface BandSummary {
   ride_height_front_mm: number | null;
   ride_height_rear_mm: number | null;
   rake_mm: number | null;
+  /** Time the car spent in the band (rows / sample rate, s). */
+  duration_s: number;
+  mean_speed_kmh: number | null;
+  cla_front_ci95_m2: [number, number] | null;
+  cla_rear_ci95_m2: [number, number] | null;
+  /** Centre of pressure at the band's balance, from the front axle, and behind the CoG (mm). */
+  cop_from_front_axle_mm: number | null;
+  cop_behind_cog_mm: number | null;
+  /** Seconds of steady cornering the band's understeer gradient rests on. */
+  steady_cornering_s: number;
+}
+
+/** How the static axle loads change over the stint (fuel burn). */
+export interface FuelSummary {
+  /** given = fuel at start and end known (CLI --fuel-start-kg/--fuel-end-kg, or the form's litres); fitted_drift = a linear trend fitted instead. */
+  source: "given" | "fitted_drift" | "not_modelled";
+  start_kg: number | null;
+  end_kg: number | null;
+  tank_from_front_axle_mm: number | null;
+  /** Over the stint, given or fitted (N; negative = lighter). */
+  static_load_change_front_n: number | null;
+  static_load_change_rear_n: number | null;
+}
+
+export type AeroVariationModel = "constant" | "speed_band" | "ride_height";
+
+/** Balance between the lowest and the highest band with enough aero load. */
+export interface BalanceShift {
+  low_band_kmh: [number, number];
+  high_band_kmh: [number, number];
+  /** balance(high) − balance(low), % points; positive = balance moves forward with speed. */
+  points: number;
+  ci95_points: [number, number] | null;
+  /** CoP(low) − CoP(high), CoP from the front axle; positive = CoP moves forward with speed. */
+  cop_shift_mm: number;
+  cop_shift_ci95_mm: [number, number] | null;
+}
+
+/** Balance and total ClA against the front ride-height change (per mm; positive = rises as the nose rises). */
+export interface RideHeightSensitivity {
+  front_ride_height_span_mm: [number, number];
+  balance_pct_per_mm: number;
+  balance_ci95_pct_per_mm: [number, number] | null;
+  cla_total_m2_per_mm: number;
+  cla_total_ci95_m2_per_mm: [number, number] | null;
 }
 
 export interface AxleFitSummary {
@@ -83,7 +129,13 @@ export interface SessionSummary {
     alternative: { model: "through_origin" | "with_intercept"; cla_front_m2: number | null; cla_rear_m2: number | null } | null;
     bump_stop_contact_front_pct: number | null;
     bump_stop_contact_rear_pct: number | null;
+    /** The aero model the figures come from: one ClA per axle, one per speed band, or ClA as a function of front ride height. */
+    variation_model: AeroVariationModel;
+    variation_criterion: { name: string; scores: Record<AeroVariationModel, number | null> };
+    balance_shift: BalanceShift | null;
+    ride_height_sensitivity: RideHeightSensitivity | null;
   };
+  fuel: FuelSummary;
   /**
    * The static damper readings (mm, as mapped) that place bump-stop contact and ride-height changes:
    * the car file's, or estimated from slow running (`samples` of them); null when neither exists.

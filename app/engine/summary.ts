@@ -74,7 +74,7 @@ export interface SummaryPart {
   usScalars: number[];
   sign: number[]; yawSignDot: number; yawSignN: number;
   contactHist: Float64Array; aeroWaitingStatic: number;
-  bandRows: Float64Array;
+  bandRows: Float64Array; bandSpeedSum: Float64Array;
   seed: StaticSeed;
   traces: TraceState;
 }
@@ -102,6 +102,8 @@ export class SummaryBuilder {
   readonly us: UndersteerAccumulator;
   readonly traces: TraceDecimator;
   readonly bandRows: Float64Array;
+  /** Σ speed (m/s) of each band's rows. */
+  readonly bandSpeedSum: Float64Array;
   readonly staticGiven: boolean;
   readonly hasBumpStops: boolean;
   sampleRateHz = NaN;
@@ -157,6 +159,7 @@ export class SummaryBuilder {
     this.us = new UndersteerAccumulator(this.bandCount);
     this.traces = new TraceDecimator(TRACE_CHANNELS, this.opts.traceBuckets);
     this.bandRows = new Float64Array(this.bandCount);
+    this.bandSpeedSum = new Float64Array(this.bandCount);
     this.staticGiven = this.model.staticDamperMm !== null;
     this.hasBumpStops = this.model.bumpForcePerMmFront > 0 || this.model.bumpForcePerMmRear > 0;
     this.part = part;
@@ -241,7 +244,7 @@ export class SummaryBuilder {
       usScalars: US_SCALARS.map((k) => u[k]),
       sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
       contactHist: this.contactHist.slice(), aeroWaitingStatic: this.aeroWaitingStatic,
-      bandRows: this.bandRows.slice(),
+      bandRows: this.bandRows.slice(), bandSpeedSum: this.bandSpeedSum.slice(),
       seed: this.seed,
       traces: this.traces.state(),
     };
@@ -267,7 +270,7 @@ export class SummaryBuilder {
       SIGN_KEYS.forEach((k, j) => { this.sign[k] += p.sign[j]; });
       this.yawSignDot += p.yawSignDot; this.yawSignN += p.yawSignN;
       add(this.contactHist, p.contactHist); this.aeroWaitingStatic += p.aeroWaitingStatic;
-      add(this.bandRows, p.bandRows);
+      add(this.bandRows, p.bandRows); add(this.bandSpeedSum, p.bandSpeedSum);
       this.takeSeed(p.seed);
       if (i === 0) this.traces.restore(p.traces); else this.traces.append(p.traces);
     });
@@ -340,7 +343,7 @@ export class SummaryBuilder {
     const sV = sl[V];
     if (this.tauBuf.length < count) { this.tauBuf = new Float64Array(count); this.bandBuf = new Int32Array(count); this.flagBuf = new Uint8Array(count); }
     const tauBuf = this.tauBuf, bandBuf = this.bandBuf, flagBuf = this.flagBuf;
-    timeAndBandPass(count, cT, mV, this.opts.blockS, this.edgesMs, this.bandRows, this, tauBuf, bandBuf, flagBuf);
+    timeAndBandPass(count, cT, mV, this.opts.blockS, this.edgesMs, this.bandRows, this.bandSpeedSum, this, tauBuf, bandBuf, flagBuf);
     // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
     const cur = aero.cur, bs = aero.band, bc = aero.bandCur, blockMin = this.blockMin;
     let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];

@@ -64,6 +64,8 @@ export interface CarInput {
   static_front_weight_pct: number;
   cog_height_mm: number;
   steering_ratio: number;
+  /** Centre of the fuel tank behind the front axle (mm); optional. */
+  fuel_tank_from_front_axle_mm?: number;
   front: AxleSpringInput;
   rear: AxleSpringInput;
   static_damper_mm?: { fl: number; fr: number; rl: number; rr: number };

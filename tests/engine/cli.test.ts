@@ -54,6 +54,20 @@ describe("analyse CLI: good input", () => {
     expect(out.warnings.some((w: { code: string }) => w.code === "air_density_assumed")).toBe(false);
   });
 
+  it("takes the fuel at the start and end as the static-load drift (--fuel-start-kg, --fuel-end-kg)", () => {
+    const withTank = file("car-tank.json", JSON.stringify({ ...JSON.parse(readFileSync(join(ROOT, CAR), "utf8")), fuel_tank_from_front_axle_mm: 1300 }));
+    const r = cli([LOG, "--car", withTank, "--map", MAP, "--fuel-start-kg", "40", "--fuel-end-kg", "25"]);
+    expect(r.stderr).toBe("");
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.fuel.source).toBe("given");
+    expect([out.fuel.start_kg, out.fuel.end_kg, out.fuel.tank_from_front_axle_mm]).toEqual([40, 25, 1300]);
+    // −15 kg × 9.80665 m/s² split by the lever rule about each axle (computed by us): the axles sum to the burn.
+    expect(out.fuel.static_load_change_front_n + out.fuel.static_load_change_rear_n).toBeCloseTo(-15 * 9.80665, 0);
+    expect(out.warnings.some((w: { code: string }) => w.code === "fuel_not_given")).toBe(false);
+    expect(out.summary_version).toBe(2);
+  });
+
   it("answers the same through its cached bundle and straight from the TypeScript", () => {
     // `npm run analyse` starts a cached plain-JS bundle (scripts/analyse.mjs); without a bundler it
     // loads scripts/analyse.ts through tsx. Both must print the same bytes and exit codes.
@@ -82,6 +96,8 @@ describe("analyse CLI: bad input exits 2 with one error line", () => {
     ["unknown flag", () => [LOG, "--car", CAR, "--map", MAP, "--verbose"], /unknown option --verbose/],
     ["missing --map", () => [LOG, "--car", CAR], /--map/],
     ["non-numeric temperature", () => [LOG, "--car", CAR, "--map", MAP, "--air-temp-c", "warm"], /--air-temp-c/],
+    ["only one fuel flag", () => [LOG, "--car", CAR, "--map", MAP, "--fuel-start-kg", "40"], /give both --fuel-start-kg and --fuel-end-kg/],
+    ["fuel rising over the stint", () => [LOG, "--car", CAR, "--map", MAP, "--fuel-start-kg", "10", "--fuel-end-kg", "30"], /were the two swapped/],
     ["humidity over 100 %", () => [LOG, "--car", CAR, "--map", MAP, "--humidity-pct", "120"], /relative humidity \(%\) must be a number from 0 to 100, got 120/],
   ];
   it.each(cases)("%s", (_name, args, message) => {

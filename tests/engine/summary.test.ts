@@ -49,7 +49,7 @@ describe("streaming summary", () => {
     expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
     expect(s.aero.cla_rear_m2!).toBeCloseTo(CLA_R, 3);
     expect(s.aero.balance_front_pct!).toBeCloseTo((100 * CLA_F) / (CLA_F + CLA_R), 1);
-    expect(s.summary_version).toBe(1);
+    expect(s.summary_version).toBe(2);
   });
 
   it("carries the usual cautions and what the method assumes, for every screen that shows its figures", () => {

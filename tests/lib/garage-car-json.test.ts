@@ -91,7 +91,7 @@ describe("CAR.json import errors", () => {
     const bad = { ...JSON.parse(CAR_FILE), colour: "blue" };
     const r = parseCarInputText(JSON.stringify(bad));
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.errors).toEqual(['unknown key "colour" (a car file holds exactly the CAR.json keys).']);
+    if (!r.ok) expect(r.errors).toEqual(['unknown key "colour" (a car file holds only the CAR.json keys).']);
   });
 
   it("names a missing key and a wrong type with their paths", () => {
@@ -101,17 +101,39 @@ describe("CAR.json import errors", () => {
     const r = parseCarInputText(JSON.stringify(bad));
     expect(r.ok).toBe(false);
     if (!r.ok) {
-      expect(r.errors).toContain("cog_height_mm is missing.");
-      expect(r.errors).toContain("rear.motion_ratio must be a number.");
+      expect(r.errors).toContain("cog_height_mm is missing (a number from 100 to 1200 mm).");
+      expect(r.errors.join("\n")).toMatch(/^rear\.motion_ratio must be a number from 0\.3 to 1\.5 .*got "0\.78"\.$/m);
     }
   });
 
-  it("applies the form's plausibility ranges (a motion ratio of 7 is a typing error)", () => {
+  it("applies the engine's plausibility ranges (a motion ratio of 7 is a typing error)", () => {
     const bad = JSON.parse(CAR_FILE);
     bad.front.motion_ratio = 7;
     const r = parseCarInputText(JSON.stringify(bad));
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.errors[0]).toMatch(/^front\.motion_ratio: A motion ratio of 7 looks like a typing error/);
+    if (!r.ok) expect(r.errors[0]).toMatch(/^front\.motion_ratio must be a number from 0\.3 to 1\.5 .*got 7\.$/);
+  });
+
+  it("takes exactly the files the CLI takes: one schema (app/engine/car.ts) for both", () => {
+    // Values at the edges of the engine's ranges, which the Garage form's own ranges used to refuse.
+    const edge = { ...JSON.parse(CAR_FILE), wheelbase_mm: 1300, mass_kg: 3000, steering_ratio: 35, fuel_tank_from_front_axle_mm: 1400 };
+    expect(() => validateCar(edge)).not.toThrow();
+    expect(parseCarInputText(JSON.stringify(edge)).ok).toBe(true);
+    // And refuse the same: the CLI names the first problem, the Garage lists them all.
+    for (const bad of [{ ...edge, wheelbase_mm: 1100 }, { ...edge, colour: "blue" }, { ...edge, fuel_tank_from_front_axle_mm: "1400" }]) {
+      expect(() => validateCar(bad)).toThrow();
+      const r = parseCarInputText(JSON.stringify(bad));
+      expect(r.ok).toBe(false);
+      if (!r.ok) expect(() => validateCar(bad)).toThrow(r.errors[0].replace(/\.$/, ""));
+    }
+  });
+
+  it("carries the fuel tank position through import and export", () => {
+    const withTank = { ...JSON.parse(CAR_FILE), fuel_tank_from_front_axle_mm: 1400 };
+    const text = JSON.stringify(withTank);
+    const out = JSON.parse(roundTrip(text));
+    expect(out.fuel_tank_from_front_axle_mm).toBe(1400);
+    expect(Object.keys(out).indexOf("fuel_tank_from_front_axle_mm")).toBe(Object.keys(out).indexOf("steering_ratio") + 1);
   });
 
   it("names what is wrong with a bump-stop table", () => {
@@ -119,11 +141,11 @@ describe("CAR.json import errors", () => {
     bad.front.bump_stop.force_table = [{ deflection_mm: 0, force_n: 0 }, { deflection_mm: 4, force_n: 800 }, { deflection_mm: 3, force_n: 900 }];
     const r = parseCarInputText(JSON.stringify(bad));
     expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.errors).toEqual(["front.bump_stop.force_table: Bump-stop table row 3: deflections must increase from row to row."]);
+    if (!r.ok) expect(r.errors).toEqual(["front.bump_stop.force_table.2.deflection_mm must be larger than the row before (4 mm)."]);
     bad.front.bump_stop.force_table = [{ deflection_mm: 0, force: 0 }];
     const r2 = parseCarInputText(JSON.stringify(bad));
     expect(r2.ok).toBe(false);
-    if (!r2.ok) expect(r2.errors.join(" ")).toMatch(/force_table rows need a number force_n/);
+    if (!r2.ok) expect(r2.errors.join(" ")).toMatch(/force_table.0.force_n is missing/);
   });
 
   it("says when the text is not JSON", () => {

@@ -3,10 +3,9 @@
  * Garage car plus one setup version and imported back. Export writes exactly the CarInput keys in
  * the documented order; import accepts exactly those keys and says which one is wrong.
  */
-import { z } from "zod";
+import { carProblems } from "~/engine/car";
 import type { CarInput } from "~/engine/types";
-import { CAR_FIELDS, SETUP_FIELDS, rangeProblem, type NumberFieldSpec } from "./fields";
-import { bumpStopTableProblem, linearRateFromTable, type BumpStopPoint } from "./bump-stop";
+import { linearRateFromTable, type BumpStopPoint } from "./bump-stop";
 import type { BumpStopKind } from "./schemas";
 
 /** The stored car fields export needs. */
@@ -17,6 +16,8 @@ export interface CarForExport {
   staticFrontWeightPct: number;
   cogHeightMm: number;
   steeringRatio: number;
+  /** Centre of the fuel tank behind the front axle (mm), when the Garage knows it. */
+  fuelTankFromFrontAxleMm?: number | null;
 }
 
 type AxlePrefix = "front" | "rear";
@@ -65,6 +66,15 @@ export function toCarInput(car: CarForExport, setup: SetupForExport): CarInput {
     front: axleOut(setup, "front"),
     rear: axleOut(setup, "rear"),
   };
+  if (car.fuelTankFromFrontAxleMm !== undefined && car.fuelTankFromFrontAxleMm !== null) {
+    // CAR.json key order: the tank position follows the steering ratio.
+    const { front, rear, ...head } = out;
+    return withDampers({ ...head, fuel_tank_from_front_axle_mm: car.fuelTankFromFrontAxleMm, front, rear }, setup);
+  }
+  return withDampers(out, setup);
+}
+
+function withDampers(out: CarInput, setup: SetupForExport): CarInput {
   const d = [setup.staticDamperFlMm, setup.staticDamperFrMm, setup.staticDamperRlMm, setup.staticDamperRrMm];
   if (d.every((v) => v !== null)) out.static_damper_mm = { fl: d[0]!, fr: d[1]!, rl: d[2]!, rr: d[3]! };
   return out;
@@ -75,80 +85,13 @@ export function carInputToText(input: CarInput): string {
   return JSON.stringify(input, null, 2) + "\n";
 }
 
-function num(spec: NumberFieldSpec, path: string) {
-  return z
-    .number({ error: (iss) => (iss.input === undefined ? `${path} is missing.` : `${path} must be a number.`) })
-    .superRefine((v, ctx) => {
-      const problem = rangeProblem(spec, v, "metric");
-      if (problem) ctx.addIssue({ code: "custom", message: `${path}: ${problem}` });
-    });
-}
-
-function axleSchema(axle: AxlePrefix) {
-  const f = SETUP_FIELDS;
-  return z.strictObject(
-    {
-      spring_rate_n_per_mm: num(f[`${axle}SpringRateNPerMm`], `${axle}.spring_rate_n_per_mm`),
-      motion_ratio: num(f[`${axle}MotionRatio`], `${axle}.motion_ratio`),
-      bump_stop: z
-        .strictObject(
-          {
-            gap_mm: num(f[`${axle}BumpStopGapMm`], `${axle}.bump_stop.gap_mm`),
-            rate_n_per_mm: num(f[`${axle}BumpStopRateNPerMm`], `${axle}.bump_stop.rate_n_per_mm`),
-            force_table: z
-              .array(
-                z.strictObject(
-                  {
-                    deflection_mm: z.number({ error: `${axle}.bump_stop.force_table rows need a number deflection_mm.` }),
-                    force_n: z.number({ error: `${axle}.bump_stop.force_table rows need a number force_n.` }),
-                  },
-                  { error: `${axle}.bump_stop.force_table rows must be objects {"deflection_mm", "force_n"}.` },
-                ),
-                { error: `${axle}.bump_stop.force_table must be a list of {"deflection_mm", "force_n"} rows.` },
-              )
-              .superRefine((rows, ctx) => {
-                const problem = bumpStopTableProblem(rows.map((r) => ({ deflectionMm: r.deflection_mm, forceN: r.force_n })));
-                if (problem) ctx.addIssue({ code: "custom", message: `${axle}.bump_stop.force_table: ${problem}` });
-              })
-              .optional(),
-          },
-          { error: `${axle}.bump_stop must be an object {"gap_mm", "rate_n_per_mm", "force_table"?}.` },
-        )
-        .optional(),
-    },
-    { error: `${axle} must be an object {"spring_rate_n_per_mm", "motion_ratio", "bump_stop"?}.` },
-  );
-}
-
-const damperPath = (c: string) => num(SETUP_FIELDS.staticDamperFlMm, `static_damper_mm.${c}`);
-
-export const carInputSchema = z.strictObject(
-  {
-    name: z
-      .string({ error: "name must be a string." })
-      .trim()
-      .min(1, { error: "name must not be empty." })
-      .max(CAR_FIELDS.name.maxLength, { error: `name is longer than ${CAR_FIELDS.name.maxLength} characters.` }),
-    wheelbase_mm: num(CAR_FIELDS.wheelbaseMm, "wheelbase_mm"),
-    mass_kg: num(CAR_FIELDS.massKg, "mass_kg"),
-    static_front_weight_pct: num(CAR_FIELDS.staticFrontWeightPct, "static_front_weight_pct"),
-    cog_height_mm: num(CAR_FIELDS.cogHeightMm, "cog_height_mm"),
-    steering_ratio: num(CAR_FIELDS.steeringRatio, "steering_ratio"),
-    front: axleSchema("front"),
-    rear: axleSchema("rear"),
-    static_damper_mm: z
-      .strictObject(
-        { fl: damperPath("fl"), fr: damperPath("fr"), rl: damperPath("rl"), rr: damperPath("rr") },
-        { error: 'static_damper_mm must be an object {"fl", "fr", "rl", "rr"}.' },
-      )
-      .optional(),
-  },
-  { error: "A car file must be a JSON object." },
-);
-
 export type ImportResult = { ok: true; car: CarInput } | { ok: false; errors: string[] };
 
-/** Parses a CAR.json text; every problem is one line naming the key. */
+/**
+ * Parses a CAR.json text with the engine's own schema (app/engine/car.ts carSchema), so the Garage
+ * takes exactly the files the CLI takes; every problem is one line naming the key (a bump-stop
+ * table is checked there by the same rules as the Garage form's, bump-stop.ts).
+ */
 export function parseCarInputText(text: string): ImportResult {
   let json: unknown;
   try {
@@ -156,16 +99,9 @@ export function parseCarInputText(text: string): ImportResult {
   } catch (e) {
     return { ok: false, errors: [`The file is not valid JSON (${(e as Error).message}).`] };
   }
-  const result = carInputSchema.safeParse(json);
-  if (result.success) return { ok: true, car: json as CarInput };
-  const errors = result.error.issues.map((issue) => {
-    if (issue.code === "unrecognized_keys") {
-      const where = issue.path.length ? `${issue.path.join(".")}: ` : "";
-      return `${where}unknown key${issue.keys.length > 1 ? "s" : ""} ${issue.keys.map((k) => `"${k}"`).join(", ")} (a car file holds exactly the CAR.json keys).`;
-    }
-    return issue.message;
-  });
-  return { ok: false, errors };
+  const result = carProblems(json);
+  if (!result.ok) return { ok: false, errors: result.problems.map((p) => `${p}.`) };
+  return { ok: true, car: json as CarInput };
 }
 
 /** Stored car and setup values from a car file (a stop with a force_table becomes a table stop). */
@@ -193,6 +129,7 @@ export function fromCarInput(input: CarInput): { car: CarForExport; setup: Setup
       staticFrontWeightPct: input.static_front_weight_pct,
       cogHeightMm: input.cog_height_mm,
       steeringRatio: input.steering_ratio,
+      fuelTankFromFrontAxleMm: input.fuel_tank_from_front_axle_mm ?? null,
     },
     setup: {
       frontSpringRateNPerMm: f.spring,
