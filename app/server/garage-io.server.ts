@@ -65,7 +65,7 @@ export async function importCarFile(teamId: string, userId: string | null, text:
     trackFrontMm: null,
     trackRearMm: null,
     tyreVerticalStiffnessNPerMm: null,
-    fuelTankFromFrontAxleMm: null,
+    fuelTankFromFrontAxleMm: car.fuelTankFromFrontAxleMm ?? null,
     fuelDensityKgPerL: 0.745,
     cornerFlKg: null,
     cornerFrKg: null,
