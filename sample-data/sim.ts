@@ -24,6 +24,8 @@ export interface SimCar {
   powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
   tyreRateNPerMm: number; loadSensitivity: number;
   fuelBurnKgPerS: number; fuelFrontShare: number;
+  /** Centre of the fuel tank behind the front axle, as the car file gives it (mm). */
+  fuelTankFromFrontAxleMm: number;
   front: SimAxle; rear: SimAxle;
   staticDamperMm: { fl: number; fr: number; rl: number; rr: number };
 }

@@ -72,8 +72,9 @@ describe("CAR.json import and export over the resource routes", () => {
     expect(refused.status).toBe(400);
     const errors = (refused.body as { errors: string[] }).errors;
     expect(errors).toHaveLength(3);
-    expect(errors.some((e) => e.startsWith("front.motion_ratio: A motion ratio of 7"))).toBe(true);
-    expect(errors.some((e) => e.startsWith("rear.bump_stop.gap_mm:") && e.includes("negative"))).toBe(true);
+    // The engine's CAR.json schema (app/engine/car.ts) names each field, its range and the value read.
+    expect(errors.some((e) => e.startsWith("front.motion_ratio must be a number from 0.3 to 1.5") && e.includes("got 7"))).toBe(true);
+    expect(errors.some((e) => e.startsWith("rear.bump_stop.gap_mm must be a number from 0 to 150") && e.includes("got -3"))).toBe(true);
     expect(errors.some((e) => e.includes('"paint"'))).toBe(true);
     expect(await teamCarCount()).toBe(before);
   });
