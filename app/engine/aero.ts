@@ -10,6 +10,7 @@
  * The point estimate uses every gated sample; its 95 % interval comes from the same fit over
  * per-block means (samples are autocorrelated, raw counts make intervals far too narrow).
  */
+import { BlockMoments } from "./aero-model";
 import { solveNormalEquations } from "./regression";
 import type { MultiFit } from "./regression";
 import { interval95 } from "./stats";
@@ -45,8 +46,10 @@ export const RH_MAP_BIN_MM = 2;
 export const RH_MAP_BINS = 25;
 
 export const BAND_STRIDE = 11;
-/** Per band, the current block's aero samples: n, Στ, ΣF_front, ΣF_rear (the row loop writes them). */
-export const BAND_CUR_STRIDE = 4;
+/** Per band, the current block's aero samples: n, Στ, ΣF_front, ΣF_rear, Σq (the row loop writes them). */
+export const BAND_CUR_STRIDE = 5;
+/** Length of the current block's sums (AeroAccumulator.cur). */
+export const CUR_SUMS = 16;
 /**
  * Per band, sums over the time blocks that held enough of its samples, of the block means m_f,
  * m_r and the block's mean time τ: B, Σm_f, Σm_f², Σm_r, Σm_r², Σm_f·m_r, Στ, Στ², Στ·m_f, Στ·m_r.
@@ -67,8 +70,13 @@ export class AeroAccumulator {
   /** Band sums, stride BAND_STRIDE (the summary's row loop writes them directly). */
   readonly band: Float64Array;
   private readonly bandCount: number;
-  /** Current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr² (the row loop keeps these in locals). */
-  readonly cur = new Float64Array(11);
+  /**
+   * Current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr², Σq·ax, Σax, Σh (front ride-height
+   * change, mm), the samples with h and Σq³ (the row loop keeps these in locals).
+   */
+  readonly cur = new Float64Array(CUR_SUMS);
+  /** Block-mean moments for the aero models in which ClA varies (aero-model.ts). */
+  readonly moments: BlockMoments;
   /** Current block per band (BAND_CUR_STRIDE) and the block-mean sums per band (BAND_BLOCK_STRIDE). */
   readonly bandCur: Float64Array;
   readonly bandBlocks: Float64Array;
@@ -78,6 +86,7 @@ export class AeroAccumulator {
     this.band = new Float64Array(bandCount * BS);
     this.bandCur = new Float64Array(bandCount * BAND_CUR_STRIDE);
     this.bandBlocks = new Float64Array(bandCount * BAND_BLOCK_STRIDE);
+    this.moments = new BlockMoments(bandCount);
   }
 
   add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
@@ -85,7 +94,7 @@ export class AeroAccumulator {
     c[0]++; c[1] += t; c[2] += t * t; c[3] += q; c[4] += q * q; c[5] += f; c[6] += q * f; c[7] += f * f; c[8] += r; c[9] += q * r; c[10] += r * r;
     if (band < 0) return;
     const bc = this.bandCur, oc = band * BAND_CUR_STRIDE;
-    bc[oc]++; bc[oc + 1] += t; bc[oc + 2] += f; bc[oc + 3] += r;
+    bc[oc]++; bc[oc + 1] += t; bc[oc + 2] += f; bc[oc + 3] += r; bc[oc + 4] += q;
     const b = this.band, o = band * BS;
     b[o]++; b[o + 1] += t; b[o + 2] += q; b[o + 3] += f; b[o + 4] += r; b[o + 5] += dampFront; b[o + 6] += dampRear;
     if (rhFront === rhFront) { b[o + 7] += rhFront; b[o + 8]++; }
@@ -109,6 +118,7 @@ export class AeroAccumulator {
       s.sf += c[5]; s.stf += tb * c[5]; s.sqf += c[6]; s.sff += c[7];
       s.sr += c[8]; s.str += tb * c[8]; s.sqr += c[9]; s.srr += c[10];
       if (n >= minSamples) this.blocks.add(tb, c[3] / n, c[5] / n, c[8] / n);
+      this.moments.addBlock(n, c[1], c[3], c[4], c[11], c[15], c[12], c[5], c[8], c[13], c[14], this.bandCur, BAND_CUR_STRIDE, 4, n >= minSamples);
     }
     c.fill(0);
     const bc = this.bandCur, bb = this.bandBlocks;

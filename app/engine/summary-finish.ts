@@ -2,6 +2,7 @@
 import { bandAeroLoadN, fitAero, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { fuelAxleLoadChangeN } from "./fuel";
+import { chooseAeroModel, rideHeightSensitivity } from "./summary-aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { StaticReference, SummaryBuilder } from "./summary";
 import { CAUTIONS, METHOD_NOTES, RIDE_HEIGHT_NOTE, SUMMARY_VERSION } from "./summary-types";
@@ -96,6 +97,9 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (pitchF > 0.5) warn("suspected_sign_error", `the front dampers extend under braking and compress under acceleration: check the front damper channels' invert flag${aeroUntil}`);
   if (pitchR < -0.5) warn("suspected_sign_error", `the rear dampers compress under braking: check the rear damper channels' invert flag${aeroUntil}`);
   if (invertedF || invertedR) fit = alt = null;
+  // Aero models in which ClA may vary (aero-model.ts): chosen by BIC on block means; the chosen
+  // model's static load and drift then stand for all figures (bands are measured loads less those).
+  const variation = fit ? chooseAeroModel(s, fit, { withIntercept, withDrift, knownDrift }) : null;
   if (fit && s.aero.blocks.n < FEW_AERO_BLOCKS) warn("few_aero_samples", `the aero fit rests on only ${s.aero.blocks.n} s of running: treat ClA and balance as rough`);
   if (s.aeroWaitingStatic > 0) warn("static_estimated", `${s.aeroWaitingStatic} samples waited for a static damper estimate before the bump-stop model could place contact; give static_damper_mm in the car file to use them`);
   if (!s.staticGiven) flags.push("static_from_fit_intercept");
@@ -195,10 +199,17 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     // Balance interval from the band's block means (delta method on F/(F + R)).
     const spread = fit ? s.aero.bandBlockSpread(b, fit.front.drift_n_per_s, fit.rear.drift_n_per_s) : null;
     let balCi: [number, number] | null = null;
+    let claFCi: [number, number] | null = null, claRCi: [number, number] | null = null;
+    if (spread && fit && n > 0 && spread.blocks >= MIN_BAND_BLOCKS) {
+      // Sampling spread of the band means, plus the fitted static load's uncertainty at the band's mean time.
+      const tau = a.st[b] / n;
+      const vF = spread.varF / spread.blocks + offsetVariance(fit.front, tau), vR = spread.varR / spread.blocks + offsetVariance(fit.rear, tau);
+      claFCi = interval95(loadF / qMean, Math.sqrt(vF) / qMean, spread.blocks - 1);
+      claRCi = interval95(loadR / qMean, Math.sqrt(vR) / qMean, spread.blocks - 1);
+    }
     if (spread && Number.isFinite(bal) && spread.blocks >= MIN_BAND_BLOCKS) {
       const total = loadF + loadR;
       const gF = (100 * loadR) / (total * total), gR = (-100 * loadF) / (total * total);
-      // Sampling spread of the band means, plus the fitted static load's uncertainty at the band's mean time.
       const tau = a.st[b] / n;
       const vF = spread.varF / spread.blocks + offsetVariance(fit!.front, tau), vR = spread.varR / spread.blocks + offsetVariance(fit!.rear, tau);
       const v = gF * gF * vF + gR * gR * vR + (2 * gF * gR * spread.cov) / spread.blocks;
@@ -225,8 +236,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       ...rh,
       duration_s: r(s.bandRows[b] / rate, 2) ?? 0,
       mean_speed_kmh: r(s.bandRows[b] > 0 ? (s.bandSpeedSum[b] / s.bandRows[b]) * KMH_PER_MS : NaN, 2),
-      cla_front_ci95_m2: null,
-      cla_rear_ci95_m2: null,
+      cla_front_ci95_m2: roundPair(claFCi, 4),
+      cla_rear_ci95_m2: roundPair(claRCi, 4),
       cop_from_front_axle_mm: r(bandCop, 1),
       cop_behind_cog_mm: r(bandCop - cogMm, 1),
       steady_cornering_s: r(us && Number.isFinite(k) ? us.samples / rate : 0, 2) ?? 0,
@@ -268,10 +279,10 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       alternative: alt ? { model: alt.with_intercept ? "with_intercept" : "through_origin", cla_front_m2: r(alt.front.cla_m2, 4), cla_rear_m2: r(alt.rear.cla_m2, 4) } : null,
       bump_stop_contact_front_pct: r(contactPct.front, 2),
       bump_stop_contact_rear_pct: r(contactPct.rear, 2),
-      variation_model: "constant",
-      variation_criterion: { name: "none (one ClA per axle)", scores: { constant: null, speed_band: null, ride_height: null } },
+      variation_model: variation ? variation.chosen : "constant",
+      variation_criterion: { name: variation ? variation.criterion : "none: no aero fit", scores: variation ? variation.scores : { constant: null, speed_band: null, ride_height: null } },
       balance_shift: balanceShift(bands, bandBalances, s.car.wheelbase_mm),
-      ride_height_sensitivity: null,
+      ride_height_sensitivity: variation && fit ? rideHeightSensitivity(s, variation, fit) : null,
     },
     fuel: {
       source: fuelGiven ? "given" : withDrift && fit ? "fitted_drift" : "not_modelled",

@@ -5,6 +5,7 @@
  * The per-row path allocates nothing.
  */
 import { AeroAccumulator, BAND_CUR_STRIDE, BAND_STRIDE } from "./aero";
+import type { BlockMoments } from "./aero-model";
 import { bandEdgesMs } from "./bands";
 import { carModel, validateCar } from "./car";
 import type { CarModel } from "./car";
@@ -69,7 +70,7 @@ export interface PartSpec {
 export interface SummaryPart {
   rows: number; t0: number; tLast: number; sampleRateHz: number;
   mapped: string[];
-  aeroSamples: number[]; aeroBlocks: number[]; rhMap: Float64Array; aeroBand: Float64Array; aeroBandBlocks: Float64Array;
+  aeroSamples: number[]; aeroBlocks: number[]; aeroMoments: ReturnType<BlockMoments["state"]>; rhMap: Float64Array; aeroBand: Float64Array; aeroBandBlocks: Float64Array;
   usCells: Float64Array; usBlockCells: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
   usScalars: number[];
   sign: number[]; yawSignDot: number; yawSignN: number;
@@ -238,7 +239,7 @@ export class SummaryBuilder {
     return {
       rows: this.rows, t0: this.t0, tLast: this.tLast, sampleRateHz: this.sampleRateHz,
       mapped: [...this.mapped],
-      aeroSamples: SUM_KEYS.map((k) => a.samples[k]), aeroBlocks: SUM_KEYS.map((k) => a.blocks[k]),
+      aeroSamples: SUM_KEYS.map((k) => a.samples[k]), aeroBlocks: SUM_KEYS.map((k) => a.blocks[k]), aeroMoments: a.moments.state(),
       rhMap: a.rhMap.slice(), aeroBand: a.band.slice(), aeroBandBlocks: a.bandBlocks.slice(),
       usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
       usScalars: US_SCALARS.map((k) => u[k]),
@@ -263,6 +264,7 @@ export class SummaryBuilder {
       this.rows += p.rows;
       for (const m of p.mapped) this.mapped.add(m);
       SUM_KEYS.forEach((k, j) => { a.samples[k] += p.aeroSamples[j]; a.blocks[k] += p.aeroBlocks[j]; });
+      a.moments.absorb(p.aeroMoments);
       add(a.rhMap, p.rhMap); add(a.band, p.aeroBand); add(a.bandBlocks, p.aeroBandBlocks);
       add(u.cells, p.usCells); add(u.blockCells, p.usBlockCells); add(u.left, p.usLeft); add(u.right, p.usRight);
       for (let b = 0; b < u.peakAyG.length; b++) u.peakAyG[b] = Math.max(u.peakAyG[b], p.usPeakAyG[b]);
@@ -347,13 +349,14 @@ export class SummaryBuilder {
     // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
     const cur = aero.cur, bs = aero.band, bc = aero.bandCur, blockMin = this.blockMin;
     let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
+    let bqa = cur[11], ba = cur[12], bh = cur[13], bhn = cur[14], bqqq = cur[15];
     for (let j = 0; j < count; j++) {
       const flag = flagBuf[j];
       if (flag === 0) { ffOut[j] = NaN; frOut[j] = NaN; continue; }
       if (flag !== ROW_VALID) {
-        cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
+        cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq;
         aero.closeBlock(blockMin);
-        bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = 0;
+        bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = bqa = ba = bh = bhn = bqqq = 0;
       }
       const tau = tauBuf[j], band = bandBuf[j];
       const v = mV[j];
@@ -414,23 +417,28 @@ export class SummaryBuilder {
           else {
             const q = halfRho * v * v;
             bn++; bt += tau; btt += tau * tau; bq += q; bqq += q * q; bf += ff; bqf += q * ff; bff += ff * ff; br += fr; bqr += q * fr; brr += fr * fr;
+            bqa += q * ax; ba += ax; bqqq += q * q * q;
             if (band >= 0) {
               const o = band * BAND_STRIDE;
               const oc = band * BAND_CUR_STRIDE;
-              bc[oc]++; bc[oc + 1] += tau; bc[oc + 2] += ff; bc[oc + 3] += fr;
+              bc[oc]++; bc[oc + 1] += tau; bc[oc + 2] += ff; bc[oc + 3] += fr; bc[oc + 4] += q;
               bs[o]++; bs[o + 1] += tau; bs[o + 2] += q; bs[o + 3] += ff; bs[o + 4] += fr; bs[o + 5] += xfl + xfr; bs[o + 6] += xrl + xrr;
               const rhf = mRHF[j], rhr = mRHR[j];
               if (rhf === rhf) { bs[o + 7] += rhf; bs[o + 8]++; }
               if (rhr === rhr) { bs[o + 9] += rhr; bs[o + 10]++; }
             }
-            if (staticKnown) aero.addRideHeight((xfl + xfr - sfl - sfr) * rhPerDamp, tau, q, ff, fr);
+            if (staticKnown) {
+              const hF = (xfl + xfr - sfl - sfr) * rhPerDamp;
+              bh += hF; bhn++;
+              aero.addRideHeight(hF, tau, q, ff, fr);
+            }
           }
         }
       }
 
       ffOut[j] = ff; frOut[j] = fr;
     }
-    cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr;
+    cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq;
     this.estN = estN; this.refFront = refF; this.refRear = refR;
     sign.n = sgN; sign.sd = sgD; sign.sdd = sgDD; sign.sa = sgA; sign.saa = sgAA; sign.sad = sgAD;
     sign.sf = sgF; sign.sdf = sgDF; sign.sr = sgR; sign.sdr = sgDR;
