@@ -11,9 +11,9 @@ import { DEFAULT_BAND_EDGES_KMH } from "../app/engine/bands";
 import type { ChannelMap, ChannelName } from "../app/engine/types";
 import { writeExport } from "./export-writer";
 import type { ExportChannel, ExportDialect } from "./export-writer";
-import { carFile, CLUB, COLDWATER_RIDGE, KESTREL_BANK, MARLIN_SR2, VESPER_GT4R } from "./scenario";
+import { carFile, CLUB, COLDWATER_RIDGE, KESTREL_BANK, MARLIN_SR2, MARLIN_SR2_SPLITTER, VESPER_GT4R } from "./scenario";
 import { simulateStint } from "./sim";
-import type { SimCar, SimColumns } from "./sim";
+import type { SimCar, SimColumns, SimOptions } from "./sim";
 import { Prng } from "./prng";
 import type { TrackLayout } from "./track";
 
@@ -36,6 +36,8 @@ export interface LogSpec {
   /** Share of cells left empty in the listed channels, plus one longer gap. */
   dropouts?: { share: number; channels: ChannelName[]; gapChannel?: ChannelName; gapS?: number };
   metadata: Record<string, string>;
+  /** Simulation extras: sensor noise levels and lap-to-lap pace (sim.ts SimOptions). */
+  sim?: Pick<SimOptions, "latNoiseMs2" | "steerNoiseDeg" | "paceSpread" | "paceDrift">;
 }
 
 const mm = (channel: ChannelName, column: string, invert = false): ColumnSpec => ({ channel, column, unit: "mm", factor: 1, invert, decimals: 2 });
@@ -105,6 +107,23 @@ export const LOGS: LogSpec[] = [
     ],
     metadata: { Club: CLUB, Venue: COLDWATER_RIDGE.name, Car: VESPER_GT4R.name, Session: "Timed run 1" },
   },
+  {
+    // The low splitter: balance moving forward with speed. Sensor noise as on a real 200 Hz logger
+    // (≈0.015 g on lateral acceleration, ≈0.35° at the steering wheel), lap speeds varying ±1 % and
+    // rising 3 % over the stint; written at 50 Hz to keep the committed file small.
+    file: "marlin-kestrel-splitter.csv", car: MARLIN_SR2_SPLITTER, carFile: "marlin-sr2.json", withStatic: true, track: KESTREL_BANK, laps: 4, rateHz: 50, seed: 41,
+    dialect: { delimiter: ",", unitsRow: true, preamble: true },
+    columns: [
+      { channel: "time", column: "Elapsed", unit: "s", factor: 1, decimals: 3 },
+      { channel: "speed", column: "Road Speed", unit: "km/h", factor: 3.6, decimals: 2 },
+      { channel: "lat_accel", column: "Lateral Acceleration", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "long_accel", column: "Longitudinal Acceleration", unit: "g", factor: 1 / G, decimals: 3 },
+      { channel: "steer", column: "Handwheel Angle", unit: "deg", factor: 1, decimals: 2 },
+      mm("damper_fl", "Travel Front Left"), mm("damper_fr", "Travel Front Right"), mm("damper_rl", "Travel Rear Left"), mm("damper_rr", "Travel Rear Right"),
+    ],
+    metadata: { Club: CLUB, Venue: KESTREL_BANK.name, Car: MARLIN_SR2.name, Session: "Practice 3 (low splitter)", Fuel: "40 L at start" },
+    sim: { latNoiseMs2: 0.015 * G, steerNoiseDeg: 0.35, paceSpread: 0.01, paceDrift: 0.03 },
+  },
 ];
 
 /** The map file matching a log spec (units and inverts as the file has them). */
@@ -151,7 +170,7 @@ function writeChunks(path: string, chunks: Iterable<string>): Promise<void> {
 }
 
 export function simulate(spec: LogSpec) {
-  return simulateStint(spec.car, spec.track, { laps: spec.laps, rateHz: spec.rateHz, seed: spec.seed, airDensityKgM3: 1.225, bandEdgesKmh: [...DEFAULT_BAND_EDGES_KMH] });
+  return simulateStint(spec.car, spec.track, { laps: spec.laps, rateHz: spec.rateHz, seed: spec.seed, airDensityKgM3: 1.225, bandEdgesKmh: [...DEFAULT_BAND_EDGES_KMH], ...spec.sim });
 }
 
 async function main(): Promise<void> {

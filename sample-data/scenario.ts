@@ -79,6 +79,14 @@ export const VESPER_GT4R: SimCar = {
   staticDamperMm: { fl: 42.0, fr: 43.4, rl: 38.9, rr: 38.1 },
 };
 
+/**
+ * The Marlin with its low splitter fitted: the front is in ground effect, so its ClA climbs steeply
+ * as the nose drops and the balance moves forward with speed (about 3 points from the 80–120 to the
+ * 160+ km/h band). The car file is the same: aero is what the engine measures. The fuel's share on
+ * each axle follows from the tank position in the car file.
+ */
+export const MARLIN_SR2_SPLITTER: SimCar = { ...MARLIN_SR2, claFrontPerMmDrop: 0.035, fuelFrontShare: undefined };
+
 /** The CAR.json a team would type in the Garage for a simulated car. */
 export function carFile(car: SimCar, withStatic: boolean): CarInput {
   const axle = (a: SimCar["front"]) => ({ spring_rate_n_per_mm: a.springNPerMm, motion_ratio: a.motionRatio, bump_stop: { gap_mm: a.bumpGapMm, rate_n_per_mm: a.bumpRateNPerMm } });

@@ -23,14 +23,27 @@ export interface SimCar {
   claFrontM2: number; claRearM2: number; claFrontPerMmDrop: number; cdaM2: number;
   powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
   tyreRateNPerMm: number; loadSensitivity: number;
-  fuelBurnKgPerS: number; fuelFrontShare: number;
+  fuelBurnKgPerS: number;
+  /** Share of the fuel's weight on the front axle; when absent, from the tank position (lever rule). */
+  fuelFrontShare?: number;
   /** Centre of the fuel tank behind the front axle, as the car file gives it (mm). */
   fuelTankFromFrontAxleMm: number;
   front: SimAxle; rear: SimAxle;
   staticDamperMm: { fl: number; fr: number; rl: number; rr: number };
 }
 
-export interface SimOptions { laps: number; rateHz: number; seed: number; airDensityKgM3: number; bandEdgesKmh: number[]; kerbs?: boolean }
+export interface SimOptions {
+  laps: number; rateHz: number; seed: number; airDensityKgM3: number; bandEdgesKmh: number[]; kerbs?: boolean;
+  /** Sensor noise (rms): lateral acceleration (m/s², default 0.3) and steering wheel (deg, default 0.15). */
+  latNoiseMs2?: number; steerNoiseDeg?: number;
+  /** Lap-to-lap pace: a spread (sd of a factor on corner speeds, default 0) and a drift over the stint (default 0). */
+  paceSpread?: number; paceDrift?: number;
+}
+
+/** The fuel's share on the front axle: given, or 1 − x/L from the tank position (moments about the rear axle). */
+export function fuelFrontShare(car: SimCar): number {
+  return car.fuelFrontShare ?? 1 - car.fuelTankFromFrontAxleMm / 1000 / car.wheelbaseM;
+}
 
 /** Columns in SI/engine units (time s, speed m/s, accel m/s², steer deg, dampers mm, ride height mm, yaw deg/s). */
 export interface SimColumns {
@@ -44,9 +57,15 @@ export interface SimTruth {
   cla_front_m2_at_static_ride_height: number; cla_rear_m2: number;
   /** Least-squares slope of the simulation's true axle aero loads against q (running samples). */
   cla_front_m2: number; cla_rear_m2_fit: number; cla_total_m2: number; balance_front_pct: number;
+  /** q²-weighted through the origin (Σq·F/Σq²): what the engine's headline ClA and balance estimate. */
+  cla_front_m2_q2: number; cla_rear_m2_q2: number; balance_front_pct_q2: number;
   steering_offset_deg: number; fuel_burnt_kg: number; static_load_change_front_n: number; static_load_change_rear_n: number;
   bump_stop_contact_front_pct: number; bump_stop_contact_rear_pct: number;
-  bands: { min_kmh: number; max_kmh: number; aero_load_front_n: number | null; aero_load_rear_n: number | null; balance_front_pct: number | null; understeer_gradient_deg_per_g: number | null; steady_samples: number }[];
+  bands: { min_kmh: number; max_kmh: number; aero_load_front_n: number | null; aero_load_rear_n: number | null; balance_front_pct: number | null; understeer_gradient_deg_per_g: number | null; steady_samples: number; steady_cornering_s: number;
+    /** Mean ride-height change from static over the band's running (suspension and tyre, mm). */
+    ride_height_change_front_mm: number | null; ride_height_change_rear_mm: number | null }[];
+  /** Balance of the highest band minus the lowest, among bands with a minute of running and 5 % of the weight in aero load. */
+  balance_shift: { low_band_kmh: [number, number]; high_band_kmh: [number, number]; points: number } | null;
 }
 
 function lag(x: Float64Array, dt: number, tau: number): Float64Array {
@@ -72,7 +91,12 @@ function corneringStiffness(cc: number, fz: number, fz0: number, sens: number): 
 export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): { columns: SimColumns; truth: SimTruth } {
   const rng = new Prng(o.seed);
   const rho = o.airDensityKgM3;
-  const prof = speedProfile(track, o.laps, { massKg: car.massKg, powerW: car.powerW, cdaM2: car.cdaM2, claTotalM2: car.claFrontM2 + car.claRearM2, muLat: car.muLat, muBrake: car.muBrake, cornerSpeedFactor: car.cornerSpeedFactor }, rho);
+  // Pace per lap from its own generator, so logs without it keep their noise sequence.
+  const paceRng = new Prng(o.seed * 31 + 7);
+  const pace = o.paceSpread || o.paceDrift ? Array.from({ length: o.laps }, (_, lap) => 1 + (o.paceDrift ?? 0) * (o.laps > 1 ? lap / (o.laps - 1) : 0) + (o.paceSpread ?? 0) * paceRng.gauss()) : undefined;
+  const prof = speedProfile(track, o.laps, { massKg: car.massKg, powerW: car.powerW, cdaM2: car.cdaM2, claTotalM2: car.claFrontM2 + car.claRearM2, muLat: car.muLat, muBrake: car.muBrake, cornerSpeedFactor: car.cornerSpeedFactor }, rho, undefined, undefined, undefined, pace);
+  const latNoise = o.latNoiseMs2 ?? 0.3, steerNoise = o.steerNoiseDeg ?? 0.15;
+  const frontShare = fuelFrontShare(car);
   const dt = 1 / o.rateHz;
   const total = prof.time[prof.time.length - 1];
   const n = Math.floor(total / dt);
@@ -99,6 +123,8 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     ride_height_front: new Float64Array(n), ride_height_rear: new Float64Array(n), yaw_rate: new Float64Array(n),
   };
   const aeroF = new Float64Array(n), aeroR = new Float64Array(n), kTrue = new Float64Array(n);
+  // True ride-height change from static at each axle (suspension and tyre, mm; negative = lower).
+  const rhF = new Float64Array(n), rhR = new Float64Array(n);
   const L = car.wheelbaseM, h = car.cogHeightM;
   const fz0f = car.massKg * G * car.frontWeightFraction, fz0r = car.massKg * G * (1 - car.frontWeightFraction);
   const kwF = car.front.springNPerMm * car.front.motionRatio ** 2;
@@ -112,7 +138,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const mass = car.massKg - fuel;
     const q = 0.5 * rho * V[i] * V[i];
     const lt = (-mass * axChassis[i] * h) / L;
-    const fuelF = -fuel * G * car.fuelFrontShare, fuelR = -fuel * G * (1 - car.fuelFrontShare);
+    const fuelF = -fuel * G * frontShare, fuelR = -fuel * G * (1 - frontShare);
     // Front ClA depends on front ride height, which depends on the front load: iterate.
     let fa = car.claFrontM2 * q;
     let dropF = 0;
@@ -138,7 +164,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const insideLeft = K[i] > 0;
     cols.time[i] = t;
     cols.speed[i] = V[i] * (1 + 0.003 * rng.gauss()) + 0.05 * rng.gauss();
-    cols.lat_accel[i] = ayChassis[i] + 0.3 * rng.gauss();
+    cols.lat_accel[i] = ayChassis[i] + latNoise * rng.gauss();
     cols.long_accel[i] = axChassis[i] + 0.3 * rng.gauss();
     cols.yaw_rate[i] = yawChassis[i] + 0.3 * rng.gauss();
     const st = car.staticDamperMm;
@@ -150,20 +176,22 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     cols.damper_fr[i] = st.fr + travel[1][i] + 0.04 * rng.gauss();
     cols.damper_rl[i] = st.rl + travel[2][i] + 0.04 * rng.gauss();
     cols.damper_rr[i] = st.rr + travel[3][i] + 0.04 * rng.gauss();
-    cols.ride_height_front[i] = car.front.staticRideHeightMm - ((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
-    cols.ride_height_rear[i] = car.rear.staticRideHeightMm - ((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm + 0.4 * rng.gauss();
+    rhF[i] = -((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm;
+    rhR[i] = -((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm;
+    cols.ride_height_front[i] = car.front.staticRideHeightMm + rhF[i] + 0.4 * rng.gauss();
+    cols.ride_height_rear[i] = car.rear.staticRideHeightMm + rhR[i] + 0.4 * rng.gauss();
     // Steering: the steady-state relation at the path's demand (the chassis follows with a lag).
     const cf = corneringStiffness(car.front.corneringCoeffPerRad, fz0f + fa, fz0f, car.loadSensitivity);
     const cr = corneringStiffness(car.rear.corneringCoeffPerRad, fz0r + ra, fz0r, car.loadSensitivity);
     kTrue[i] = DEG * (fz0f / cf - fz0r / cr);
     const road_deg = DEG * L * K[i] + kTrue[i] * (ayPath[i] / G);
-    cols.steer[i] = car.steeringRatio * road_deg + car.steeringOffsetDeg + 0.15 * rng.gauss();
+    cols.steer[i] = car.steeringRatio * road_deg + car.steeringOffsetDeg + steerNoise * rng.gauss();
   }
   const contact = {
     front: contactSharePct(travel[0], travel[1], car.front.bumpGapMm, runningRow, o.rateHz),
     rear: contactSharePct(travel[2], travel[3], car.rear.bumpGapMm, runningRow, o.rateHz),
   };
-  return { columns: cols, truth: truthOf(car, track, o, V, AX, ayPath, aeroF, aeroR, kTrue, n * dt, contact) };
+  return { columns: cols, truth: truthOf(car, track, o, V, AX, ayPath, aeroF, aeroR, kTrue, n * dt, contact, K, rhF, rhR) };
 }
 
 /**
@@ -188,12 +216,13 @@ function contactSharePct(left: Float64Array, right: Float64Array, gapMm: number,
   return rows > 0 ? (100 * contact) / rows : 0;
 }
 
-function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array, AX: Float64Array, ay: Float64Array, aeroF: Float64Array, aeroR: Float64Array, k: Float64Array, duration: number, contact: { front: number; rear: number }): SimTruth {
+function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array, AX: Float64Array, ay: Float64Array, aeroF: Float64Array, aeroR: Float64Array, k: Float64Array, duration: number, contact: { front: number; rear: number }, K: Float64Array, rhF: Float64Array, rhR: Float64Array): SimTruth {
   const rho = o.airDensityKgM3;
   // True aero load vs q, least squares with an intercept, over running samples (|ax| ≤ 0.6 g).
   let n = 0, sq = 0, sqq = 0, sf = 0, sqf = 0, sr = 0, sqr = 0;
   const nb = o.bandEdgesKmh.length - 1;
-  const bn = new Float64Array(nb), bf = new Float64Array(nb), br = new Float64Array(nb), kw = new Float64Array(nb), ka = new Float64Array(nb), ks = new Float64Array(nb);
+  const bn = new Float64Array(nb), bf = new Float64Array(nb), br = new Float64Array(nb), kw = new Float64Array(nb), ka = new Float64Array(nb), ks = new Float64Array(nb), arc = new Float64Array(nb);
+  const bhF = new Float64Array(nb), bhR = new Float64Array(nb);
   for (let i = 0; i < V.length; i++) {
     const kmh = V[i] * 3.6;
     let b = -1;
@@ -201,21 +230,28 @@ function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array
     if (V[i] >= 20 / 3.6 && Math.abs(AX[i]) <= 0.6 * G) {
       const q = 0.5 * rho * V[i] * V[i];
       n++; sq += q; sqq += q * q; sf += aeroF[i]; sqf += q * aeroF[i]; sr += aeroR[i]; sqr += q * aeroR[i];
-      if (b >= 0) { bn[b]++; bf[b] += aeroF[i]; br[b] += aeroR[i]; }
+      if (b >= 0) { bn[b]++; bf[b] += aeroF[i]; br[b] += aeroR[i]; bhF[b] += rhF[i]; bhR[b] += rhR[i]; }
     }
     const ayg = Math.abs(ay[i] / G);
-    if (b >= 0 && ayg >= 0.2 && Math.abs(AX[i]) <= 0.1 * G) { kw[b] += ayg * ayg; ka[b] += k[i] * ayg * ayg; ks[b]++; }
+    if (b >= 0 && ayg >= 0.2 && Math.abs(AX[i]) <= 0.1 * G) {
+      kw[b] += ayg * ayg; ka[b] += k[i] * ayg * ayg; ks[b]++;
+      // Steady cornering: on the arc itself (constant curvature, not in a transition) at near-constant speed.
+      if (i > 0 && K[i] !== 0 && K[i] === K[i - 1]) arc[b]++;
+    }
   }
   const slope = (sy: number, sqy: number) => (sqy - (sq * sy) / n) / (sqq - (sq * sq) / n);
   const claF = slope(sf, sqf), claR = slope(sr, sqr);
+  // The q²-weighted ClA (through the origin, Σq·F/Σq²): the engine's headline figure when ClA varies.
+  const q2F = sqf / sqq, q2R = sqr / sqq;
   const fuel = car.fuelBurnKgPerS * duration;
   const r4 = (v: number) => Math.round(v * 1e4) / 1e4;
   return {
     car: car.name, track: track.name, laps: o.laps, rate_hz: o.rateHz, seed: o.seed, air_density_kg_m3: rho,
     cla_front_m2_at_static_ride_height: car.claFrontM2, cla_rear_m2: car.claRearM2,
     cla_front_m2: r4(claF), cla_rear_m2_fit: r4(claR), cla_total_m2: r4(claF + claR), balance_front_pct: r4((100 * claF) / (claF + claR)),
+    cla_front_m2_q2: r4(q2F), cla_rear_m2_q2: r4(q2R), balance_front_pct_q2: r4((100 * q2F) / (q2F + q2R)),
     steering_offset_deg: car.steeringOffsetDeg, fuel_burnt_kg: r4(fuel),
-    static_load_change_front_n: r4(-fuel * G * car.fuelFrontShare), static_load_change_rear_n: r4(-fuel * G * (1 - car.fuelFrontShare)),
+    static_load_change_front_n: r4(-fuel * G * fuelFrontShare(car)), static_load_change_rear_n: r4(-fuel * G * (1 - fuelFrontShare(car))),
     bump_stop_contact_front_pct: r4(contact.front), bump_stop_contact_rear_pct: r4(contact.rear),
     bands: Array.from({ length: nb }, (_, b) => ({
       min_kmh: o.bandEdgesKmh[b], max_kmh: o.bandEdgesKmh[b + 1],
@@ -224,6 +260,20 @@ function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array
       balance_front_pct: bn[b] ? r4((100 * bf[b]) / (bf[b] + br[b])) : null,
       understeer_gradient_deg_per_g: ks[b] ? r4(ka[b] / kw[b]) : null,
       steady_samples: ks[b],
+      steady_cornering_s: r4(arc[b] / o.rateHz),
+      ride_height_change_front_mm: bn[b] ? r4(bhF[b] / bn[b]) : null,
+      ride_height_change_rear_mm: bn[b] ? r4(bhR[b] / bn[b]) : null,
     })),
+    balance_shift: balanceShiftOf(o.bandEdgesKmh, bn, bf, br, o.rateHz),
   };
+}
+
+/** The truth's balance shift: bands holding a minute of running and an aero load of 5 % of a 600 kg car. */
+function balanceShiftOf(edges: number[], bn: Float64Array, bf: Float64Array, br: Float64Array, rateHz: number): SimTruth["balance_shift"] {
+  const ok: number[] = [];
+  for (let b = 0; b < bn.length; b++) if (bn[b] >= 60 * rateHz && (bf[b] + br[b]) / bn[b] > 0.05 * 600 * G) ok.push(b);
+  if (ok.length < 2) return null;
+  const lo = ok[0], hi = ok[ok.length - 1];
+  const bal = (b: number) => (100 * bf[b]) / (bf[b] + br[b]);
+  return { low_band_kmh: [edges[lo], edges[lo + 1]], high_band_kmh: [edges[hi], edges[hi + 1]], points: Math.round((bal(hi) - bal(lo)) * 1e4) / 1e4 };
 }

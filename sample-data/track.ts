@@ -43,7 +43,7 @@ export function trackLength(t: TrackLayout): number {
 }
 
 /** Curvature (1/m) and speed cap (m/s) at ds spacing along `laps` laps after a pit-lane run. */
-function pathOf(track: TrackLayout, laps: number, ds: number, pitM: number, pitSpeedMs: number, car: ProfileCar, rho: number) {
+function pathOf(track: TrackLayout, laps: number, ds: number, pitM: number, pitSpeedMs: number, car: ProfileCar, rho: number, paceByLap?: number[]) {
   const lap = trackLength(track);
   const n = Math.round((pitM + laps * lap) / ds) + 1;
   const kappa = new Float64Array(n);
@@ -76,7 +76,7 @@ function pathOf(track: TrackLayout, laps: number, ds: number, pitM: number, pitS
     if (i < p0) { cap[i] = pitSpeedMs; continue; }
     const j = (i - p0) % m;
     kappa[i] = k1[j];
-    if (Math.abs(k1[j]) > 1e-6) cap[i] = Math.min(Math.sqrt(ay1[j] / Math.abs(k1[j])), gripSpeed(Math.abs(k1[j]), car, rho));
+    if (Math.abs(k1[j]) > 1e-6) cap[i] = Math.min(Math.sqrt(ay1[j] / Math.abs(k1[j])) * (paceByLap?.[Math.floor((i - p0) / m)] ?? 1), gripSpeed(Math.abs(k1[j]), car, rho));
   }
   return { kappa, cap };
 }
@@ -87,8 +87,9 @@ export function gripSpeed(kappa: number, car: ProfileCar, rho: number): number {
   return den <= 0 ? 90 : Math.min(90, Math.sqrt((car.muLat * G) / den));
 }
 
-export function speedProfile(track: TrackLayout, laps: number, car: ProfileCar, rho: number, pitM = 120, pitSpeedMs = 12.5, ds = 0.5): SpeedProfile {
-  const { kappa, cap } = pathOf(track, laps, ds, pitM, pitSpeedMs, car, rho);
+/** `paceByLap`: a factor on each lap's corner speeds (a driver is never the same twice; later laps on a lighter car). */
+export function speedProfile(track: TrackLayout, laps: number, car: ProfileCar, rho: number, pitM = 120, pitSpeedMs = 12.5, ds = 0.5, paceByLap?: number[]): SpeedProfile {
+  const { kappa, cap } = pathOf(track, laps, ds, pitM, pitSpeedMs, car, rho, paceByLap);
   const n = kappa.length;
   const v = new Float64Array(n);
   v[0] = Math.min(pitSpeedMs, cap[0]);

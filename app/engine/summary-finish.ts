@@ -15,8 +15,11 @@ import { bandUndersteer, estimateSteeringOffset } from "./understeer";
 
 const MIN_AERO_BLOCKS = 10;
 const FEW_AERO_BLOCKS = 60;
-const MIN_US_BLOCKS = 5;
-const FEW_US_BLOCKS = 15;
+/** Straight-line blocks before the steering offset comes from the straights. */
+const MIN_OFFSET_BLOCKS = 5;
+/** Seconds of steady cornering in a band before it gets an understeer gradient, and before it is not called rough. */
+const MIN_US_SECONDS = 5;
+const FEW_US_SECONDS = 15;
 const DRIFT_MIN_DURATION_S = 120;
 const LARGE_OFFSET_DEG = 3;
 /** Blocks (time blocks holding enough of a band's aero samples) before a band's balance gets an interval. */
@@ -143,7 +146,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
 
   // Steering offset and understeer per band.
   const firstBin = Math.round(s.opts.gates.us_min_lat_g / 0.05);
-  const offset = estimateSteeringOffset(s.us, MIN_US_BLOCKS, c.steeringRatio, firstBin);
+  const offset = estimateSteeringOffset(s.us, MIN_OFFSET_BLOCKS, c.steeringRatio, firstBin);
   if (offset.source === "corners") warn("steering_offset_from_corners", "too few straight-line samples for the steering offset; it was estimated from corners of both directions instead");
   if (offset.source === "none") warn("steering_offset_unknown", "the steering offset could not be estimated (no straights and corners of one direction only): understeer gradients are not given");
   if (offset.offset_deg !== null && Math.abs(offset.offset_deg) > LARGE_OFFSET_DEG) warn("large_steering_offset", `the steering wheel reads ${offset.offset_deg.toFixed(1)}° on the straights: check the steering sensor's zero (it is removed from the understeer figures)`);
@@ -185,14 +188,15 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);
     }
     const offRoad = offset.offset_deg === null ? NaN : offset.offset_deg / c.steeringRatio;
-    const us = offset.offset_deg === null || understeerUnsound ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_min_lat_g, s.opts.gates.us_max_lat_fraction_of_peak);
+    const us = offset.offset_deg === null || understeerUnsound ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_max_lat_fraction_of_peak);
+    const steadyS = us ? us.samples / rate : 0;
     let k = NaN;
-    if (us && us.blocks >= MIN_US_BLOCKS) {
+    if (us && steadyS >= MIN_US_SECONDS) {
       k = us.k_deg_per_g;
-      if (us.blocks < FEW_US_BLOCKS) warn("few_understeer_samples", `${label}: the understeer gradient rests on ${us.blocks} s of steady cornering: treat it as rough`);
+      if (steadyS < FEW_US_SECONDS) warn("few_understeer_samples", `${label}: the understeer gradient rests on ${steadyS.toFixed(1)} s of steady cornering: treat it as rough`);
       if (Math.min(us.left_samples, us.right_samples) < 0.1 * (us.left_samples + us.right_samples)) warn("one_turn_direction", `${label}: steady corners are nearly all one direction, so a steering-offset error goes straight into the understeer gradient`);
     } else if (s.bandRows[b] > 0 && offset.offset_deg !== null && !understeerUnsound) {
-      warn("few_understeer_samples", `${label}: only ${us ? us.blocks : 0} s of quasi-steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steady steering, |ax| ≤ ${s.opts.gates.us_max_long_g} g); at least ${MIN_US_BLOCKS} s are needed for an understeer gradient`);
+      warn("few_understeer_samples", `${label}: only ${steadyS.toFixed(1)} s of steady cornering (|ay| ≥ ${s.opts.gates.us_min_lat_g} g, steering rate ≤ ${s.opts.gates.us_max_steer_rate_deg_s}°/s, |ax| ≤ ${s.opts.gates.us_max_long_g} g on the smoothed channels); at least ${MIN_US_SECONDS} s are needed for an understeer gradient`);
     }
     const rh = rideHeights(s, staticRef, b, loadF, loadR);
     const bandCop = Number.isFinite(bal) ? copFromFrontAxleMm(s.car.wheelbase_mm, bal) : NaN;
@@ -231,7 +235,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       understeer_gradient_deg_per_g: r(k, 3),
       understeer_ci95_deg_per_g: Number.isFinite(k) && us ? roundPair(us.ci95_deg_per_g, 3) : null,
       understeer_samples: us ? us.samples : 0,
-      understeer_blocks: us ? us.blocks : 0,
+      understeer_blocks: us ? us.segments : 0,
       understeer_lat_g_range: us ? roundPair([s.opts.gates.us_min_lat_g, us.upper_gate_g], 3) : null,
       ...rh,
       duration_s: r(s.bandRows[b] / rate, 2) ?? 0,
@@ -240,7 +244,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       cla_rear_ci95_m2: roundPair(claRCi, 4),
       cop_from_front_axle_mm: r(bandCop, 1),
       cop_behind_cog_mm: r(bandCop - cogMm, 1),
-      steady_cornering_s: r(us && Number.isFinite(k) ? us.samples / rate : 0, 2) ?? 0,
+      steady_cornering_s: r(Number.isFinite(k) ? steadyS : 0, 2) ?? 0,
     });
     bandBalances.push({ bal, ci: balCi });
   }
@@ -354,8 +358,12 @@ function rideHeights(s: SummaryBuilder, st: StaticReference | null, b: number, l
   const staticF = st ? (st.fl + st.fr) / 2 : NaN;
   const staticR = st ? (st.rl + st.rr) / 2 : NaN;
   const kt = s.opts.tyreRateNPerMm;
-  const changeF = n > 0 ? -(a.dampFront[b] / n / 2 - staticF) / c.motionRatioFront - (Number.isFinite(loadF) ? loadF / 2 / kt : 0) : NaN;
-  const changeR = n > 0 ? -(a.dampRear[b] / n / 2 - staticR) / c.motionRatioRear - (Number.isFinite(loadR) ? loadR / 2 / kt : 0) : NaN;
+  // Suspension travel at the wheel (damper travel / MR) plus the tyre's deflection under the same
+  // spring force change (Ks·MR per mm of damper travel, per wheel): the springs and tyre in series.
+  const dF = n > 0 ? a.dampFront[b] / n / 2 - staticF : NaN, dR = n > 0 ? a.dampRear[b] / n / 2 - staticR : NaN;
+  const changeF = -dF / c.motionRatioFront - (c.forcePerMmFront * dF) / kt;
+  const changeR = -dR / c.motionRatioRear - (c.forcePerMmRear * dR) / kt;
+  void loadF; void loadR;
   const rhF = a.rhFrontN[b] > 0 ? a.rhFront[b] / a.rhFrontN[b] : NaN;
   const rhR = a.rhRearN[b] > 0 ? a.rhRear[b] / a.rhRearN[b] : NaN;
   return {

@@ -89,8 +89,10 @@ export interface YawSign {
 }
 
 /**
- * Understeer pass: quasi-steady cornering samples per band; straight-line samples give the
- * steering offset. Closes the accumulator's time block at each flagged row.
+ * Understeer pass: quasi-steady cornering samples per band, in segments (runs of consecutive passing
+ * samples); straight-line samples give the steering offset. Closes the accumulator's time block
+ * (and the open segment) at each flagged row. The gates read the ≈0.2 s centred (zero-phase)
+ * moving averages and their slopes (filters.ts: −3 dB near 2.2 Hz).
  */
 export function understeerPass(
   count: number, flag: Uint8Array, bandOf: Int32Array,
@@ -107,7 +109,7 @@ export function understeerPass(
     if (f === 0) continue;
     if (f !== ROW_VALID) us.closeBlock(blockMinUs);
     const v = mV[j];
-    if (!(v >= usMinV)) continue;
+    if (!(v >= usMinV)) { us.endSegment(); continue; }
     const steer = mSTEER[j], yaw = mYAW[j], ay = mAY[j];
     const invV = 1 / v;
     const kappa = yaw === yaw ? yaw * RAD_PER_DEG * invV : ay * invV * invV;
@@ -118,14 +120,15 @@ export function understeerPass(
     if (steer === steer && geom === geom) {
       const band = bandOf[j];
       if (((absAy < straightLat ? 1 : 0) & (steerRate < straightRate ? 1 : 0) & (v >= straightMinV ? 1 : 0)) === 1) {
+        us.endSegment();
         us.addStraight(steer - ratio * geom);
       } else if (((band >= 0 ? 1 : 0) & (absAy >= usLat ? 1 : 0) & (steerRate <= usRate ? 1 : 0) & (Math.abs(sAY[j]) <= usJerk ? 1 : 0) & (Math.abs(mAX[j]) <= usLongMs2 ? 1 : 0)) === 1) {
         const road = steer * invRatio;
         us.addCorner(band, ayG, road - geom);
         usDot += road * geom;
         usNorm += geom * geom;
-      }
-    }
+      } else us.endSegment();
+    } else us.endSegment();
     if (yaw === yaw && absAy > 0.3) { yawDot += yaw * ayG > 0 ? 1 : -1; yawN++; }
   }
   us.signDot = usDot; us.signNorm = usNorm; yawSign.yawSignDot = yawDot; yawSign.yawSignN = yawN;

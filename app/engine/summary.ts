@@ -71,7 +71,7 @@ export interface SummaryPart {
   rows: number; t0: number; tLast: number; sampleRateHz: number;
   mapped: string[];
   aeroSamples: number[]; aeroBlocks: number[]; aeroMoments: ReturnType<BlockMoments["state"]>; rhMap: Float64Array; aeroBand: Float64Array; aeroBandBlocks: Float64Array;
-  usCells: Float64Array; usBlockCells: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
+  usCells: Float64Array; usSegments: Float64Array; usPeakAyG: Float64Array; usLeft: Float64Array; usRight: Float64Array;
   usScalars: number[];
   sign: number[]; yawSignDot: number; yawSignN: number;
   contactHist: Float64Array; aeroWaitingStatic: number;
@@ -241,7 +241,7 @@ export class SummaryBuilder {
       mapped: [...this.mapped],
       aeroSamples: SUM_KEYS.map((k) => a.samples[k]), aeroBlocks: SUM_KEYS.map((k) => a.blocks[k]), aeroMoments: a.moments.state(),
       rhMap: a.rhMap.slice(), aeroBand: a.band.slice(), aeroBandBlocks: a.bandBlocks.slice(),
-      usCells: u.cells.slice(), usBlockCells: u.blockCells.slice(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
+      usCells: u.cells.slice(), usSegments: u.segments(), usPeakAyG: u.peakAyG.slice(), usLeft: u.left.slice(), usRight: u.right.slice(),
       usScalars: US_SCALARS.map((k) => u[k]),
       sign: SIGN_KEYS.map((k) => this.sign[k]), yawSignDot: this.yawSignDot, yawSignN: this.yawSignN,
       contactHist: this.contactHist.slice(), aeroWaitingStatic: this.aeroWaitingStatic,
@@ -266,7 +266,7 @@ export class SummaryBuilder {
       SUM_KEYS.forEach((k, j) => { a.samples[k] += p.aeroSamples[j]; a.blocks[k] += p.aeroBlocks[j]; });
       a.moments.absorb(p.aeroMoments);
       add(a.rhMap, p.rhMap); add(a.band, p.aeroBand); add(a.bandBlocks, p.aeroBandBlocks);
-      add(u.cells, p.usCells); add(u.blockCells, p.usBlockCells); add(u.left, p.usLeft); add(u.right, p.usRight);
+      add(u.cells, p.usCells); u.appendSegments(p.usSegments); add(u.left, p.usLeft); add(u.right, p.usRight);
       for (let b = 0; b < u.peakAyG.length; b++) u.peakAyG[b] = Math.max(u.peakAyG[b], p.usPeakAyG[b]);
       US_SCALARS.forEach((k, j) => { u[k] += p.usScalars[j]; });
       SIGN_KEYS.forEach((k, j) => { this.sign[k] += p.sign[j]; });

@@ -2,11 +2,17 @@
  * Understeer gradient per speed band (SAE J670 / ISO 8855 definition, steady-state relation from
  * Gillespie ch. 6): u = δ_road − 57.3·L·κ, K = slope of u against ay (g) through the origin.
  *
+ * Steady cornering is found on zero-phase smoothed channels (summary-rows.ts gates) and kept as
+ * segments: runs of consecutive samples that pass every gate, in one speed band, cut at the 1 s
+ * time-block edges (so a log analysed in parts gives the same segments). Every passing sample counts
+ * towards the gradient; the interval comes from the segments' means (samples within a run are
+ * strongly autocorrelated, segments far less). No sample is dropped for sharing a cell or a block
+ * with few others.
+ *
  * The steering offset is one constant for the stint, estimated from straight-line samples. Since
- * u = u_raw − offset/N is linear in the offset, the accumulator stores sums of u_raw and applies the
- * offset at the end. Samples are binned by |ay| (0.05 g) so that the upper gate (a fraction of the
- * band's peak, to stay out of the tyres' non-linear range) can be chosen once the peak is known.
- * Intervals use per-block means (one per block, band and |ay| bin).
+ * u = u_raw − offset/N is linear in the offset, the sums hold u_raw and the offset is applied at the
+ * end. An |ay| histogram per band (0.05 g cells) gives the band's peak for the optional upper gate
+ * (a fraction of the peak, applied to each segment's mean |ay|).
  */
 import { fitThroughOrigin } from "./regression";
 import { interval95, meanInterval } from "./stats";
@@ -17,19 +23,22 @@ const INV_AY_BIN = 1 / AY_BIN_G;
 
 const S_N = 0, S_A = 1, S_AA = 2, S_AU = 3, S_U = 4, S_UU = 5;
 const STRIDE = 6;
+/** One segment: band, n, Σa, Σa², Σa·u, Σu, Σu², Σ|a|. */
+export const SEG_STRIDE = 8;
 
 export class UndersteerAccumulator {
   readonly bandCount: number;
-  /** Sample-level sums per (band, bin). */
+  /** Sample-level sums per (band, |ay| cell): the peak and the offset fallback read them. */
   readonly cells: Float64Array;
-  /** Sums of block means per (band, bin). */
-  readonly blockCells: Float64Array;
   readonly peakAyG: Float64Array;
   readonly left: Float64Array;
   readonly right: Float64Array;
-  private readonly scratch: Float64Array;
-  private readonly touched: Int32Array;
-  private touchedCount = 0;
+  /** Closed segments, SEG_STRIDE numbers each (`segCount` of them). */
+  segs = new Float64Array(SEG_STRIDE * 256);
+  segCount = 0;
+  /** The open segment (band −1: none). */
+  private segBand = -1;
+  private readonly seg = new Float64Array(SEG_STRIDE);
   /** Straight-line samples for the steering offset (steering-wheel deg). */
   offsetN = 0; offsetSum = 0; offsetSumSq = 0;
   offsetBlocks = 0; offsetBlockSum = 0; offsetBlockSumSq = 0;
@@ -39,11 +48,7 @@ export class UndersteerAccumulator {
 
   constructor(bandCount: number) {
     this.bandCount = bandCount;
-    const n = bandCount * AY_BINS;
-    this.cells = new Float64Array(n * STRIDE);
-    this.blockCells = new Float64Array(n * STRIDE);
-    this.scratch = new Float64Array(n * 3);
-    this.touched = new Int32Array(n);
+    this.cells = new Float64Array(bandCount * AY_BINS * STRIDE);
     this.peakAyG = new Float64Array(bandCount);
     this.left = new Float64Array(bandCount);
     this.right = new Float64Array(bandCount);
@@ -54,36 +59,59 @@ export class UndersteerAccumulator {
     this.obN++; this.obSum += steerDeg;
   }
 
+  /** A steady-cornering sample: it extends the open segment of its band, or opens one. */
   addCorner(band: number, ayG: number, uRawDeg: number): void {
     const abs = ayG < 0 ? -ayG : ayG;
     let bin = (abs * INV_AY_BIN) | 0;
     if (bin >= AY_BINS) bin = AY_BINS - 1;
-    const cell = band * AY_BINS + bin;
-    const o = cell * STRIDE;
+    const o = (band * AY_BINS + bin) * STRIDE;
     const c = this.cells;
     c[o + S_N]++; c[o + S_A] += ayG; c[o + S_AA] += ayG * ayG; c[o + S_AU] += ayG * uRawDeg; c[o + S_U] += uRawDeg; c[o + S_UU] += uRawDeg * uRawDeg;
-    const so = cell * 3;
-    if (this.scratch[so] === 0) this.touched[this.touchedCount++] = cell;
-    this.scratch[so]++; this.scratch[so + 1] += ayG; this.scratch[so + 2] += uRawDeg;
     if (abs > this.peakAyG[band]) this.peakAyG[band] = abs;
     if (ayG > 0) this.left[band]++; else this.right[band]++;
+    if (band !== this.segBand) { this.endSegment(); this.segBand = band; }
+    const g = this.seg;
+    g[1]++; g[2] += ayG; g[3] += ayG * ayG; g[4] += ayG * uRawDeg; g[5] += uRawDeg; g[6] += uRawDeg * uRawDeg; g[7] += abs;
   }
 
-  closeBlock(minSamples: number): void {
-    for (let i = 0; i < this.touchedCount; i++) {
-      const cell = this.touched[i];
-      const so = cell * 3;
-      const n = this.scratch[so];
-      if (n >= minSamples) {
-        const a = this.scratch[so + 1] / n;
-        const u = this.scratch[so + 2] / n;
-        const o = cell * STRIDE;
-        const b = this.blockCells;
-        b[o + S_N]++; b[o + S_A] += a; b[o + S_AA] += a * a; b[o + S_AU] += a * u; b[o + S_U] += u; b[o + S_UU] += u * u;
-      }
-      this.scratch[so] = this.scratch[so + 1] = this.scratch[so + 2] = 0;
+  /** A sample that is not steady cornering ends the open segment. */
+  endSegment(): void {
+    if (this.segBand < 0) return;
+    const g = this.seg;
+    g[0] = this.segBand;
+    if (this.segs.length < (this.segCount + 1) * SEG_STRIDE) {
+      const grown = new Float64Array(this.segs.length * 2);
+      grown.set(this.segs);
+      this.segs = grown;
     }
-    this.touchedCount = 0;
+    this.segs.set(g, this.segCount * SEG_STRIDE);
+    this.segCount++;
+    g.fill(0);
+    this.segBand = -1;
+  }
+
+  /** Appends the segments of a later part of the log (split.ts). */
+  appendSegments(segs: Float64Array): void {
+    this.endSegment();
+    const count = segs.length / SEG_STRIDE;
+    if (this.segs.length < (this.segCount + count) * SEG_STRIDE) {
+      const grown = new Float64Array((this.segCount + count) * SEG_STRIDE * 2);
+      grown.set(this.segs.subarray(0, this.segCount * SEG_STRIDE));
+      this.segs = grown;
+    }
+    this.segs.set(segs, this.segCount * SEG_STRIDE);
+    this.segCount += count;
+  }
+
+  /** The closed segments as one array (for a part's result). */
+  segments(): Float64Array {
+    this.endSegment();
+    return this.segs.slice(0, this.segCount * SEG_STRIDE);
+  }
+
+  /** End of a time block: segments are cut here; the block's straight-line mean joins the offset sums. */
+  closeBlock(minSamples: number): void {
+    this.endSegment();
     if (this.obN >= minSamples) {
       const m = this.obSum / this.obN;
       this.offsetBlocks++; this.offsetBlockSum += m; this.offsetBlockSumSq += m * m;
@@ -143,7 +171,8 @@ export interface BandUndersteer {
   k_deg_per_g: number;
   ci95_deg_per_g: [number, number] | null;
   samples: number;
-  blocks: number;
+  /** Segments of steady cornering the gradient rests on. */
+  segments: number;
   peak_lat_g: number;
   upper_gate_g: number;
   left_samples: number;
@@ -151,30 +180,38 @@ export interface BandUndersteer {
 }
 
 /**
- * K for one band with the offset removed (offset in steering-wheel deg, δ_road = δ_sw/N).
- * Bins from `minLatG` up to `maxFraction`·peak are used. Null when no samples pass.
+ * K for one band with the offset removed (offset in steering-wheel deg, δ_road = δ_sw/N): every
+ * sample of the band's segments whose mean |ay| is at most `maxFraction`·peak. The interval comes
+ * from the segment means, each weighted by its samples (a segment is one cluster of autocorrelated
+ * samples): s² = Σ n_s·(ū_s − K·ā_s)² / (S − 1), se(K)² = s² / Σ n_s·ā_s². Null when no sample passes.
  */
-export function bandUndersteer(acc: UndersteerAccumulator, band: number, offsetRoadDeg: number, minLatG: number, maxFraction: number): BandUndersteer | null {
+export function bandUndersteer(acc: UndersteerAccumulator, band: number, offsetRoadDeg: number, maxFraction: number): BandUndersteer | null {
+  acc.endSegment();
   const peak = robustPeakG(acc.cells, band, acc.peakAyG[band]);
   const upper = maxFraction * peak;
-  const from = Math.round(minLatG / AY_BIN_G);
-  const to = Math.min(AY_BINS, Math.floor(upper / AY_BIN_G));
-  if (to <= from) return null;
-  const s = sumBins(acc.cells, band, from, to);
-  const b = sumBins(acc.blockCells, band, from, to);
   const o = offsetRoadDeg;
+  let n = 0, sa = 0, saa = 0, sau = 0, su = 0, suu = 0, segments = 0;
+  let wAA = 0, wAU = 0, wUU = 0;
+  const g = acc.segs;
+  for (let i = 0; i < acc.segCount; i++) {
+    const b = i * SEG_STRIDE;
+    if (g[b] !== band) continue;
+    const m = g[b + 1];
+    if (!(g[b + 7] / m <= upper + 1e-12)) continue;
+    n += m; sa += g[b + 2]; saa += g[b + 3]; sau += g[b + 4]; su += g[b + 5]; suu += g[b + 6];
+    segments++;
+    const a = g[b + 2] / m, u = g[b + 5] / m - o;
+    wAA += m * a * a; wAU += m * a * u; wUU += m * u * u;
+  }
+  if (n === 0) return null;
   // u = u_raw − o:  Σa·u = Σa·u_raw − o·Σa ;  Σu² = Σu_raw² − 2oΣu_raw + o²n
-  const fit = fitThroughOrigin(s.n, s.saa, s.sau - o * s.sa, s.suu - 2 * o * s.su + o * o * s.n);
+  const fit = fitThroughOrigin(n, saa, sau - o * sa, suu - 2 * o * su + o * o * n);
   if (!fit) return null;
   let ci: [number, number] | null = null;
-  if (b.n >= 3 && b.saa > 0) {
-    const sau = b.sau - o * b.sa;
-    const suu = b.suu - 2 * o * b.su + o * o * b.n;
-    const rss = Math.max(0, suu - 2 * fit.slope * sau + fit.slope * fit.slope * b.saa);
-    ci = interval95(fit.slope, Math.sqrt(rss / (b.n - 1) / b.saa), b.n - 1);
+  if (segments >= 3 && wAA > 0) {
+    const rss = Math.max(0, wUU - 2 * fit.slope * wAU + fit.slope * fit.slope * wAA);
+    ci = interval95(fit.slope, Math.sqrt(rss / (segments - 1) / wAA), segments - 1);
   }
-  // Direction counts are kept per band, not per bin: a fair proxy for "both directions present".
-  const left = acc.left[band];
-  const right = acc.right[band];
-  return { k_deg_per_g: fit.slope, ci95_deg_per_g: ci, samples: s.n, blocks: b.n, peak_lat_g: peak, upper_gate_g: upper, left_samples: left, right_samples: right };
+  // Direction counts are kept per band: a fair proxy for "both directions present".
+  return { k_deg_per_g: fit.slope, ci95_deg_per_g: ci, samples: n, segments, peak_lat_g: peak, upper_gate_g: upper, left_samples: acc.left[band], right_samples: acc.right[band] };
 }

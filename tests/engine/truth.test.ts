@@ -28,9 +28,9 @@ async function analyse(file: string, editMap?: (map: Record<string, { invert?: b
 describe.each(LOGS.map((l) => l.file))("truth recovery: %s", (file) => {
   it("ClA per axle within 5 %, balance within 1 point, steering offset within 0.2°", async () => {
     const { s, truth } = await analyse(file);
-    expect(Math.abs(s.aero.cla_front_m2! / truth.cla_front_m2 - 1)).toBeLessThan(0.05);
-    expect(Math.abs(s.aero.cla_rear_m2! / truth.cla_rear_m2_fit - 1)).toBeLessThan(0.05);
-    expect(Math.abs(s.aero.balance_front_pct! - truth.balance_front_pct)).toBeLessThan(1);
+    expect(Math.abs(s.aero.cla_front_m2! / truth.cla_front_m2_q2 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.cla_rear_m2! / truth.cla_rear_m2_q2 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.balance_front_pct! - truth.balance_front_pct_q2)).toBeLessThan(1);
     expect(Math.abs(s.steering.offset_deg! - truth.steering_offset_deg)).toBeLessThan(0.2);
     // CoP − CoG follows from the balance: L·(w_f − %F).
     const car = s.car;
@@ -79,9 +79,9 @@ describe("truth recovery at other logging rates", () => {
     const car = JSON.parse(readFileSync(join(ROOT, "sample-data", "cars", spec.carFile), "utf8"));
     const s = await analyseLog((async function* () { yield bytes; })(), car, mapFor(spec));
     expect(s.sample_rate_hz).toBeCloseTo(rateHz, 6);
-    expect(Math.abs(s.aero.cla_front_m2! / truth.cla_front_m2 - 1)).toBeLessThan(0.05);
-    expect(Math.abs(s.aero.cla_rear_m2! / truth.cla_rear_m2_fit - 1)).toBeLessThan(0.05);
-    expect(Math.abs(s.aero.balance_front_pct! - truth.balance_front_pct)).toBeLessThan(1);
+    expect(Math.abs(s.aero.cla_front_m2! / truth.cla_front_m2_q2 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.cla_rear_m2! / truth.cla_rear_m2_q2 - 1)).toBeLessThan(0.05);
+    expect(Math.abs(s.aero.balance_front_pct! - truth.balance_front_pct_q2)).toBeLessThan(1);
     let checked = 0;
     s.bands.forEach((band, i) => {
       const t = truth.bands[i].understeer_gradient_deg_per_g;
