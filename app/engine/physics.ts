@@ -1,5 +1,5 @@
 /**
- * Per-sample physics (DOMAIN.md conventions): damper travel positive in compression,
+ * Per-sample physics (app/engine/README.md §1 conventions): damper travel positive in compression,
  * MR = damper travel / wheel travel, rates and gaps at the damper.
  * Pure scalar functions; the summary's hot loop inlines the same arithmetic.
  */

@@ -181,14 +181,14 @@ export interface FinishContext {
 }
 
 /** Cautions the product shows with any number that can lead to a setup change (common practice). */
-/** What the method measures and assumes (DOMAIN conventions, common practice). */
+/** What the method measures and assumes (app/engine/README.md §1–2, common practice). */
 export const METHOD_NOTES = [
   "Aero load is what the aero puts on each axle, measured at the springs: the drag's pitching moment is included, as in maps quoted at the contact patches.",
   "Dynamic pressure uses the logged ground speed as airspeed: wind along the straights adds error, so compare runs in both directions where you can.",
   "Load from damper travel assumes the springs, motion ratios and bump stops in the car file: a heave spring carries load the corner springs do not, and anti-dive or anti-squat geometry takes part of the load transfer past the springs.",
 ];
 
-/** Shown when ride-height channels are logged (DOMAIN pitfalls, common practice). */
+/** Shown when ride-height channels are logged (app/engine/README.md §3, common practice). */
 export const RIDE_HEIGHT_NOTE =
   "Ride-height sensors read to the road, so tyre growth at speed raises them; the ride-height change worked out from the dampers leaves the tyre out, and the two part company at high speed.";
 

@@ -58,7 +58,7 @@ describe("suspension relations", () => {
   });
 
   it("ride height falls by damper travel / MR plus tyre deflection", () => {
-    // Wheel travel = damper travel / MR (DOMAIN convention, Barton & Fieldhouse §3.9); tyre
+    // Wheel travel = damper travel / MR (app/engine/README.md §1, Barton & Fieldhouse §3.9); tyre
     // deflection F/Kt. 6 mm of damper at MR 0.75 = 8 mm; 600 N on a 300 N/mm tyre = 2 mm.
     expect(rideHeightChangeMm(6, 0.75, 600, 300)).toBeCloseTo(-10, 12);
   });

@@ -52,7 +52,7 @@ describe("aero load and the square of speed (common practice)", () => {
     expect(fast.aero_load_rear_n! / slow.aero_load_rear_n!).toBeCloseTo(4, 2);
     expect(s.aero.cla_front_m2!).toBeCloseTo(CLA_F, 3);
     expect(s.aero.cla_rear_m2!).toBeCloseTo(CLA_R, 3);
-    // Balance = ClA_f/(ClA_f + ClA_r) = 0.5/1.3 = 38.46 % front (definition, DOMAIN method).
+    // Balance = ClA_f/(ClA_f + ClA_r) = 0.5/1.3 = 38.46 % front (definition, app/engine/README.md §2).
     expect(s.aero.balance_front_pct!).toBeCloseTo(38.46, 1);
     expect(s.aero.model).toBe("through_origin");
   });

@@ -4,13 +4,14 @@ import { createSummaryBuilder } from "~/engine/summary";
 import { carFor, DEG, emptyTrace, G, toBlocks } from "./summary-synthetic";
 import type { Trace } from "./summary-synthetic";
 
-// Worked check from the steady-state cornering relations (Gillespie, Fundamentals of Vehicle
-// Dynamics, SAE 1992, ch. 6, from memory): 1300 kg, L 2.6 m, 55 % front, Cαf 120 kN/rad and
-// Cαr 140 kN/rad per axle → K = Wf/Cαf − Wr/Cαr = 1.000 deg/g, V_char = √(57.3·L·g/K) = 38.22 m/s.
+// A check computed by us from the steady-state cornering relations (Gillespie, Fundamentals of
+// Vehicle Dynamics, SAE 1992, ch. 6, from memory); the car is ours, not an example from the book:
+// 1300 kg, L 2.6 m, 55 % front, Cαf 120 kN/rad and Cαr 140 kN/rad per axle → K = Wf/Cαf − Wr/Cαr
+// = 1.000 deg/g and V_char = √(57.3·L·g/K) = 38.22 m/s (both computed by us from the formulas).
 const MASS = 1300, L = 2.6, WF = 0.55, CF = 120_000, CR = 140_000;
 
 describe("steady-state steering relation (Gillespie ch. 6, from memory)", () => {
-  it("understeer gradient and characteristic speed of the worked example", () => {
+  it("understeer gradient and characteristic speed computed by us from the formulas", () => {
     const k = understeerGradientDegPerG(MASS * G * WF, MASS * G * (1 - WF), CF, CR);
     expect(k).toBeCloseTo(1.0, 3);
     expect(characteristicSpeedMs(L, k)!).toBeCloseTo(38.22, 2);
