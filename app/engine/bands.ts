@@ -1,4 +1,5 @@
 /** Speed bands (km/h edges). Default 0, 80, 120, 160, 200, 300. */
+import { KMH_PER_M_PER_S } from "./units";
 import { EngineError } from "./errors";
 
 export const DEFAULT_BAND_EDGES_KMH = [0, 80, 120, 160, 200, 300] as const;
@@ -27,7 +28,7 @@ export function parseBandEdges(text: string): number[] {
 
 /** Upper edges in m/s for the hot loop: band i holds edge[i] ≤ v < edge[i+1]. */
 export function bandEdgesMs(edgesKmh: readonly number[]): Float64Array {
-  return Float64Array.from(edgesKmh, (e) => e / 3.6);
+  return Float64Array.from(edgesKmh, (e) => e / KMH_PER_M_PER_S);
 }
 
 /** Band index of a speed (m/s), −1 outside the edges. */

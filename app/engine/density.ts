@@ -10,10 +10,11 @@
  * with the saturation vapour pressure, enhancement factor and compressibility of that paper and
  * 400 ppm of CO₂. Humid air is lighter: about −0.7 % at 25 °C and 60 %.
  */
+import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
+
 export const ISA_SEA_LEVEL_TEMP_K = 288.15;
 export const ISA_SEA_LEVEL_PRESSURE_PA = 101_325;
 export const AIR_GAS_CONSTANT_J_PER_KG_K = 287.05287;
-export const STANDARD_GRAVITY_M_S2 = 9.80665;
 const ISA_LAPSE_K_PER_M = -0.0065;
 
 /** ρ = p/(R·T), dry air. */
@@ -31,7 +32,7 @@ export interface AtmosphereState {
 export function isaAtGeopotentialM(altitudeM: number): AtmosphereState {
   if (!(altitudeM >= -5000 && altitudeM <= 11_000)) throw new RangeError("ISA troposphere only: −5 000 to 11 000 m");
   const temp_k = ISA_SEA_LEVEL_TEMP_K + ISA_LAPSE_K_PER_M * altitudeM;
-  const exponent = -STANDARD_GRAVITY_M_S2 / (ISA_LAPSE_K_PER_M * AIR_GAS_CONSTANT_J_PER_KG_K);
+  const exponent = -STANDARD_GRAVITY_M_PER_S2 / (ISA_LAPSE_K_PER_M * AIR_GAS_CONSTANT_J_PER_KG_K);
   const pressure_pa = ISA_SEA_LEVEL_PRESSURE_PA * Math.pow(temp_k / ISA_SEA_LEVEL_TEMP_K, exponent);
   return { temp_k, pressure_pa, density_kg_m3: airDensityKgM3(temp_k, pressure_pa) };
 }

@@ -4,7 +4,7 @@
  * the log, the burn is taken as linear in time and split over the axles by the tank position (moment
  * balance about each axle, the same lever rule as the static weight split).
  */
-import { STANDARD_GRAVITY_M_S2 } from "./density";
+import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import { EngineError } from "./errors";
 
 /**
@@ -49,7 +49,7 @@ export function validateFuel(fuel: FuelGiven): FuelGiven {
  * (1 − x/L), the rear x/L (moments about each axle).
  */
 export function fuelAxleLoadChangeN(deltaKg: number, tankFromFrontM: number, wheelbaseM: number): { front: number; rear: number } {
-  const w = deltaKg * STANDARD_GRAVITY_M_S2;
+  const w = deltaKg * STANDARD_GRAVITY_M_PER_S2;
   const rearShare = tankFromFrontM / wheelbaseM;
   return { front: w * (1 - rearShare), rear: w * rearShare };
 }

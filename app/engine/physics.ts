@@ -3,7 +3,7 @@
  * MR = damper travel / wheel travel, rates and gaps at the damper.
  * Pure scalar functions; the summary's hot loop inlines the same arithmetic.
  */
-import { STANDARD_GRAVITY_M_S2 } from "./density";
+import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
 
 export const DEG_PER_RAD = 180 / Math.PI;
 
@@ -86,10 +86,10 @@ export function understeerGradientDegPerG(frontLoadN: number, rearLoadN: number,
 
 /** Characteristic speed √(57.3·L·g/K) (m/s) for K > 0 deg/g; null otherwise. */
 export function characteristicSpeedMs(wheelbaseM: number, understeerDegPerG: number): number | null {
-  return understeerDegPerG > 0 ? Math.sqrt((DEG_PER_RAD * wheelbaseM * STANDARD_GRAVITY_M_S2) / understeerDegPerG) : null;
+  return understeerDegPerG > 0 ? Math.sqrt((DEG_PER_RAD * wheelbaseM * STANDARD_GRAVITY_M_PER_S2) / understeerDegPerG) : null;
 }
 
 /** Critical speed √(−57.3·L·g/K) (m/s) for K < 0 deg/g; null otherwise. */
 export function criticalSpeedMs(wheelbaseM: number, understeerDegPerG: number): number | null {
-  return understeerDegPerG < 0 ? Math.sqrt((-DEG_PER_RAD * wheelbaseM * STANDARD_GRAVITY_M_S2) / understeerDegPerG) : null;
+  return understeerDegPerG < 0 ? Math.sqrt((-DEG_PER_RAD * wheelbaseM * STANDARD_GRAVITY_M_PER_S2) / understeerDegPerG) : null;
 }

@@ -19,6 +19,7 @@
  * Verdicts are relative to the map given: "invert" means flip that channel's `invert` flag.
  * A verdict is a proposal for the user to confirm, never applied silently.
  */
+import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import { EngineError } from "./errors";
 import { BlockSmoother } from "./filters";
 import { ingestLog } from "./ingest";
@@ -34,7 +35,7 @@ export interface SignCheck {
   detail: string;
 }
 
-const G = 9.80665;
+const G = STANDARD_GRAVITY_M_PER_S2;
 /** ISA sea-level density: the check needs only the sign and shape of q, not its exact size. */
 const RHO = 1.225;
 /** Smoothing window (s) for every channel, and the speed floor of the tests (m/s, 36 km/h). */

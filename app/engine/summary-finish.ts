@@ -1,4 +1,5 @@
 /** Turns the streaming statistics into the SessionSummary (fits, bands, warnings). */
+import { KMH_PER_M_PER_S, STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import { bandAeroLoadN, fitAero, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { fuelAxleLoadChangeN } from "./fuel";
@@ -27,7 +28,6 @@ const MIN_BAND_BLOCKS = 5;
 /** Samples (speed changing by ≥ 0.05 g above 30 km/h) before the sign checks against dv/dt speak. */
 const MIN_SIGN_SAMPLES = 200;
 const CONTACT_WARN_PCT = 2;
-const KMH_PER_MS = 3.6;
 
 export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSummary {
   const warnings: SummaryWarning[] = [];
@@ -174,7 +174,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
   const a = s.aero.bands;
   const edges = s.opts.bandEdgesKmh;
-  const weightN = c.massKg * 9.80665;
+  const weightN = c.massKg * STANDARD_GRAVITY_M_PER_S2;
   for (let b = 0; b < s.bandCount; b++) {
     const label = `${edges[b]}–${edges[b + 1]} km/h`;
     const n = a.n[b];
@@ -239,7 +239,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       understeer_lat_g_range: us ? roundPair([s.opts.gates.us_min_lat_g, us.upper_gate_g], 3) : null,
       ...rh,
       duration_s: r(s.bandRows[b] / rate, 2) ?? 0,
-      mean_speed_kmh: r(s.bandRows[b] > 0 ? (s.bandSpeedSum[b] / s.bandRows[b]) * KMH_PER_MS : NaN, 2),
+      mean_speed_kmh: r(s.bandRows[b] > 0 ? (s.bandSpeedSum[b] / s.bandRows[b]) * KMH_PER_M_PER_S : NaN, 2),
       cla_front_ci95_m2: roundPair(claFCi, 4),
       cla_rear_ci95_m2: roundPair(claRCi, 4),
       cop_from_front_axle_mm: r(bandCop, 1),
@@ -312,8 +312,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     traces: s.traces.output(
       { speed_kmh: 1, lat_accel_g: 3, long_accel_g: 3, steer_deg: 1, axle_load_front_n: 0, axle_load_rear_n: 0, yaw_rate_deg_s: 1 },
       (name, t, v) => {
-        if (name === "speed_kmh") return v * 3.6;
-        if (name === "lat_accel_g" || name === "long_accel_g") return v / 9.80665;
+        if (name === "speed_kmh") return v * KMH_PER_M_PER_S;
+        if (name === "lat_accel_g" || name === "long_accel_g") return v / STANDARD_GRAVITY_M_PER_S2;
         if (name !== "axle_load_front_n" && name !== "axle_load_rear_n") return v;
         if (!traceFit) return NaN;
         const af = name === "axle_load_front_n" ? traceFit.front : traceFit.rear;

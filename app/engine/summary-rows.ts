@@ -3,12 +3,12 @@
  * columns it needs (few live arrays, so the compiled loop keeps them in registers), and the passes
  * share per-row results through small scratch arrays. The aero pass stays in summary.ts.
  */
-import { STANDARD_GRAVITY_M_S2 } from "./density";
+import { KMH_PER_M_PER_S, STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import type { SummaryGates } from "./summary-options";
 import type { UndersteerAccumulator } from "./understeer";
 
 // Module-local copies: a loader may turn imported bindings into getters, too slow per row.
-const G = STANDARD_GRAVITY_M_S2;
+const G = STANDARD_GRAVITY_M_PER_S2;
 const INV_G = 1 / G;
 const DEG_PER_RAD = 180 / Math.PI;
 const RAD_PER_DEG = Math.PI / 180;
@@ -99,7 +99,7 @@ export function understeerPass(
   mV: Float64Array, mAY: Float64Array, mAX: Float64Array, mSTEER: Float64Array, mYAW: Float64Array, sSTEER: Float64Array, sAY: Float64Array,
   us: UndersteerAccumulator, g: SummaryGates, steeringRatio: number, wheelbaseM: number, blockMinUs: number, yawSign: YawSign,
 ): void {
-  const usMinV = g.us_min_speed_kmh / 3.6, straightMinV = g.straight_min_speed_kmh / 3.6;
+  const usMinV = g.us_min_speed_kmh / KMH_PER_M_PER_S, straightMinV = g.straight_min_speed_kmh / KMH_PER_M_PER_S;
   const straightLat = g.straight_max_lat_g, straightRate = g.straight_max_steer_rate_deg_s, usLat = g.us_min_lat_g, usRate = g.us_max_steer_rate_deg_s;
   const usJerk = g.us_max_lat_jerk_g_s * G, usLongMs2 = g.us_max_long_g * G;
   const ratio = steeringRatio, invRatio = 1 / ratio, geomPerKappa = DEG_PER_RAD * wheelbaseM;

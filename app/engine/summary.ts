@@ -9,7 +9,8 @@ import type { BlockMoments } from "./aero-model";
 import { bandEdgesMs } from "./bands";
 import { carModel, validateCar } from "./car";
 import type { CarModel } from "./car";
-import { sessionAirDensity, STANDARD_GRAVITY_M_S2 } from "./density";
+import { sessionAirDensity } from "./density";
+import { KMH_PER_M_PER_S, STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import { BlockSmoother } from "./filters";
 import { buildSummary } from "./summary-finish";
 import type { FinishContext, SessionSummary } from "./summary-types";
@@ -29,9 +30,10 @@ export type { SessionSummary, FinishContext } from "./summary-types";
 export { TRACE_CHANNELS } from "./summary-traces";
 
 // Module-local copies: a loader may turn imported bindings into getters, too slow per row.
-const G = STANDARD_GRAVITY_M_S2;
+const G = STANDARD_GRAVITY_M_PER_S2;
 // Reciprocal: the row loop multiplies instead of dividing (a division costs several multiplies).
 const INV_G = 1 / G;
+const KMH = KMH_PER_M_PER_S;
 const NO_CURVE = new Float64Array(2);
 // The contact histogram's layout (static-estimate.ts contactSlot, inlined in the row loop).
 const C_LO = CONTACT_LO_MM, C_PER_MM = 1 / CONTACT_BIN_MM, C_BINS = CONTACT_BINS, C_SLOTS = CONTACT_SLOTS;
@@ -318,7 +320,7 @@ export class SummaryBuilder {
     const g = this.opts.gates;
     const c = this.model;
     const rho = this.air.density_kg_m3;
-    const aeroMinV = g.aero_min_speed_kmh / 3.6, aeroMaxAx = g.aero_max_long_g * G, vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
+    const aeroMinV = g.aero_min_speed_kmh / KMH, aeroMaxAx = g.aero_max_long_g * G, vmax = g.aero_max_damper_velocity_mm_s, spike = g.aero_max_spike_mm;
     const st = c.staticDamperMm;
     const ltPerMs2 = (c.massKg * c.cogHeightM) / c.wheelbaseM;
     if (this.ffOut.length < count) { this.ffOut = new Float64Array(count); this.frOut = new Float64Array(count); }
@@ -367,7 +369,7 @@ export class SummaryBuilder {
       if (dampersOk) {
         const vFl = sFL[j], vFr = sFR[j], vRl = sRL[j], vRr = sRR[j];
         // Static estimate from slow running with no load transfer (only when readings are not given).
-        if (collectEst && estN < estMax && v < 60 / 3.6 && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(mAY[j]) < 0.1 * G &&
+        if (collectEst && estN < estMax && v < 60 / KMH && v > 1 && Math.abs(ax) < 0.1 * G && Math.abs(mAY[j]) < 0.1 * G &&
           Math.abs(vFl) < 50 && Math.abs(vFr) < 50 && Math.abs(vRl) < 50 && Math.abs(vRr) < 50) {
           addStaticSample(est, halfRho * v * v, xfl, xfr, xrl, xrr); estN++;
           const s4 = this.static4;
@@ -399,7 +401,7 @@ export class SummaryBuilder {
           hist[C_SLOTS + (br >= 0 ? (br < C_BINS ? br + 1 : C_BINS + 1) : 0)]++;
         }
         const dv = sV[j];
-        if (v > 30 / 3.6 && Math.abs(dv) > 0.05 * G && ax === ax) {
+        if (v > 30 / KMH && Math.abs(dv) > 0.05 * G && ax === ax) {
           const d = dv * INV_G, axG = ax * INV_G, sf = xfl + xfr, sr = xrl + xrr;
           const w = v * v * 1e-3;
           sgN++; sgD += d; sgDD += d * d; sgA += axG; sgAA += axG * axG; sgAD += axG * d;

@@ -4,7 +4,9 @@
  * Their ratio of spreads, `scale` = σ(long_accel) / σ(dv/dt) in the engine's units, is ≈ 1 when both
  * channels are mapped with the right units; the classic mapping slips show as fixed factors.
  */
-const G = 9.80665;
+import { KMH_PER_M_PER_S, STANDARD_GRAVITY_M_PER_S2 } from "./units";
+
+const G = STANDARD_GRAVITY_M_PER_S2;
 
 /** Ratio band taken as agreement (noise, grade and wheel slip move it a little). */
 export const SCALE_OK: readonly [number, number] = [0.7, 1.4];
@@ -12,8 +14,8 @@ export const SCALE_OK: readonly [number, number] = [0.7, 1.4];
 const SLIPS: { factor: number; problem: string; speed: boolean }[] = [
   { factor: G, problem: "long_accel reads about 9.8 times the change of speed: it is probably logged in m/s² but mapped as g", speed: false },
   { factor: 1 / G, problem: "long_accel reads about a tenth (1/9.8) of the change of speed: it is probably logged in g but mapped as m/s²", speed: false },
-  { factor: 3.6, problem: "the speed changes about 3.6 times too slowly for long_accel: speed is probably logged in m/s but mapped as km/h", speed: true },
-  { factor: 1 / 3.6, problem: "the speed changes about 3.6 times too fast for long_accel: speed is probably logged in km/h but mapped as m/s", speed: true },
+  { factor: KMH_PER_M_PER_S, problem: "the speed changes about 3.6 times too slowly for long_accel: speed is probably logged in m/s but mapped as km/h", speed: true },
+  { factor: 1 / KMH_PER_M_PER_S, problem: "the speed changes about 3.6 times too fast for long_accel: speed is probably logged in km/h but mapped as m/s", speed: true },
   { factor: 1.609344, problem: "the speed changes about 1.6 times too slowly for long_accel: speed is probably logged in mph but mapped as km/h", speed: true },
   { factor: 1 / 1.609344, problem: "the speed changes about 1.6 times too fast for long_accel: speed is probably logged in km/h but mapped as mph", speed: true },
   { factor: 1 / 0.44704, problem: "the speed changes about 2.2 times too slowly for long_accel: speed is probably logged in m/s but mapped as mph", speed: true },
@@ -96,13 +98,13 @@ export function traceSizes(
   const dLo: number[][] = idx.dampers.map(() => []), dHi: number[][] = idx.dampers.map(() => []);
   for (let b = 0; b < buckets; b++) {
     const o = b * channels, v = hi[o + idx.speed];
-    if (!(v >= 20 / 3.6)) continue;
+    if (!(v >= 20 / KMH_PER_M_PER_S)) continue;
     vHi.push(v);
     if (Number.isFinite(lo[o + idx.speed])) vLo.push(lo[o + idx.speed]);
     idx.dampers.forEach((k, i) => {
       if (Number.isFinite(lo[o + k]) && Number.isFinite(hi[o + k])) { dLo[i].push(lo[o + k]); dHi[i].push(hi[o + k]); }
     });
-    if (!(v >= 80 / 3.6)) continue;
+    if (!(v >= 80 / KMH_PER_M_PER_S)) continue;
     const ay = Math.max(Math.abs(lo[o + idx.lat]), Math.abs(hi[o + idx.lat]));
     const sw = Math.max(Math.abs(lo[o + idx.steer]), Math.abs(hi[o + idx.steer]));
     if (Number.isFinite(ay)) {
@@ -117,6 +119,6 @@ export function traceSizes(
     steerDeg: steerP90,
     steerRatio: steerP90 / percentile(kin, 0.9),
     damperRangeMm: dLo.map((l, i) => percentile(dHi[i], 0.95) - percentile(l, 0.05)),
-    speedSpanKmh: (percentile(vHi, 0.95) - percentile(vLo, 0.05)) * 3.6,
+    speedSpanKmh: (percentile(vHi, 0.95) - percentile(vLo, 0.05)) * KMH_PER_M_PER_S,
   };
 }

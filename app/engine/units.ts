@@ -35,7 +35,9 @@ export const CHANNEL_KIND: Record<ChannelName, ChannelKind> = {
 export const STANDARD_GRAVITY_M_PER_S2 = 9.80665;
 export const MPH_TO_M_PER_S = 0.44704;
 export const INCH_TO_M = 0.0254;
-export const KMH_TO_M_PER_S = 1 / 3.6;
+/** km/h per m/s (exact: 3600 s / 1000 m). */
+export const KMH_PER_M_PER_S = 3.6;
+export const KMH_TO_M_PER_S = 1 / KMH_PER_M_PER_S;
 const RAD_TO_DEG = 180 / Math.PI;
 
 /** Canonical unit spelling → factor to the internal unit of that kind. */
