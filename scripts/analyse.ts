@@ -48,11 +48,19 @@ function parseArgs(argv: string[]): { file: string; flags: Partial<Record<Flag, 
   return { file: files[0], flags };
 }
 
+/** A car file or channel map is a few kB; anything past this is not one (a device, a log given by mistake). */
+const JSON_FILE_MAX_BYTES = 1 << 20;
+
 function readJson(path: string, what: string): unknown {
   let text: string;
   try {
+    // Only a regular file of sensible size: /dev/zero would grow without end, a FIFO would block.
+    const st = statSync(path);
+    if (!st.isFile()) throw new UsageError(`the ${what} ${path} is not a regular file`);
+    if (st.size > JSON_FILE_MAX_BYTES) throw new UsageError(`the ${what} ${path} is ${(st.size / 1e6).toFixed(1)} MB; a ${what} is a small JSON file (at most 1 MB)`);
     text = readFileSync(path, "utf8");
   } catch (e) {
+    if (e instanceof UsageError) throw e;
     throw new UsageError(`cannot read the ${what} ${path}: ${(e as NodeJS.ErrnoException).code === "ENOENT" ? "no such file" : (e as Error).message}`);
   }
   try {

@@ -1,13 +1,16 @@
-import { spawnSync } from "node:child_process";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { execFileSync, spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
 
 // The analyse CLI contract from the engine issue: one JSON object on stdout and exit 0; any bad
 // input exits 2 with exactly one `error: …` line on stderr, nothing on stdout, no stack trace
 // (common practice for batch tools: exit status and a single parseable line).
 const ROOT = join(__dirname, "..", "..");
+// Each case starts the CLI as a child process (and the first builds its bundle): on a busy shared
+// machine that can take far longer than vitest's default 30 s. A harness limit, not a speed check.
+vi.setConfig({ testTimeout: 180_000 });
 const LOG = "sample-data/logs/marlin-kestrel-comma.csv";
 const CAR = "sample-data/cars/marlin-sr2.json";
 const MAP = "sample-data/logs/marlin-kestrel-comma.map.json";
@@ -16,6 +19,12 @@ const dir = mkdtempSync(join(tmpdir(), "rakeline-cli-"));
 function cli(args: string[]) {
   const r = spawnSync("npm", ["run", "--silent", "analyse", "--", ...args], { cwd: ROOT, encoding: "utf8" });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function fifo(): string {
+  const p = join(dir, "map.fifo");
+  if (!existsSync(p)) execFileSync("mkfifo", [p]);
+  return p;
 }
 
 function file(name: string, content: string | Buffer): string {
@@ -98,6 +107,9 @@ describe("analyse CLI: bad input exits 2 with one error line", () => {
     ["non-numeric temperature", () => [LOG, "--car", CAR, "--map", MAP, "--air-temp-c", "warm"], /--air-temp-c/],
     ["only one fuel flag", () => [LOG, "--car", CAR, "--map", MAP, "--fuel-start-kg", "40"], /give both --fuel-start-kg and --fuel-end-kg/],
     ["fuel rising over the stint", () => [LOG, "--car", CAR, "--map", MAP, "--fuel-start-kg", "10", "--fuel-end-kg", "30"], /were the two swapped/],
+    ["car file that is a device (it would never end)", () => [LOG, "--car", "/dev/zero", "--map", MAP], /car file \/dev\/zero is not a regular file/],
+    ["channel map that is a FIFO (reading would block)", () => [LOG, "--car", CAR, "--map", fifo()], /channel map .* is not a regular file/],
+    ["car file of 2 MB", () => [LOG, "--car", file("big-car.json", " ".repeat(2 << 20) + "{}"), "--map", MAP], /car file .* is 2\.1 MB; a car file is a small JSON file/],
     ["humidity over 100 %", () => [LOG, "--car", CAR, "--map", MAP, "--humidity-pct", "120"], /relative humidity \(%\) must be a number from 0 to 100, got 120/],
   ];
   it.each(cases)("%s", (_name, args, message) => {
