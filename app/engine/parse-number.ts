@@ -113,7 +113,13 @@ export function scanNumber(buf: Uint8Array, p: number, delim: number, decSep: nu
     return neg ? -v : v;
   }
   if (sig === 0) return neg ? -0 : 0;
-  return slowNumber(buf, start, numEnd, decSep);
+  const v = slowNumber(buf, start, numEnd, decSep);
+  // Past the double range (1e309 reads as Infinity): not a measurement; an unreadable cell.
+  if (v === Infinity || v === -Infinity) {
+    scanResult.status = CELL_BAD;
+    return NaN;
+  }
+  return v;
 }
 
 /** Exact fallback: the cell's text (decimal comma swapped) through Number(). */

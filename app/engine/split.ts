@@ -201,9 +201,11 @@ export function mergeParts(car: CarInput, map: ChannelMap, options: SummaryOptio
   requireEnoughRows(rows);
   const droppedCells: Record<string, number> = {};
   for (const r of results) for (const [column, n] of Object.entries(r.ingest.droppedCells)) droppedCells[column] = (droppedCells[column] ?? 0) + n;
+  const badCells: Record<string, number> = {};
+  for (const r of results) for (const [column, n] of Object.entries(r.ingest.badCells)) badCells[column] = (badCells[column] ?? 0) + n;
   const builder = createSummaryBuilder(car, options);
   builder.absorb(results.map((r) => r.summary));
-  return builder.summarise({ header: plan.header, map, rows, bytes: plan.size, droppedCells });
+  return builder.summarise({ header: plan.header, map, rows, bytes: plan.size, droppedCells, badCells });
 }
 
 /**

@@ -252,6 +252,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const copMm = Number.isFinite(balance) ? copFromFrontAxleMm(s.car.wheelbase_mm, balance) : NaN;
   const dropped = ctx.droppedCells ?? {};
   const totalDropped = Object.values(dropped).reduce((x, y) => x + y, 0);
+  const unreadable = Object.entries(ctx.badCells ?? {}).filter(([, n]) => n > 0);
+  if (unreadable.length) warn("unreadable_cells", `cells that hold no readable number (text, or a value past the number range such as 1e309) were left out as dropouts: ${unreadable.map(([col, n]) => `"${col}" ${n}`).join(", ")}`);
   if (s.rows > 0 && totalDropped > 0.01 * s.rows) warn("dropouts", `${totalDropped} empty or unreadable cells in the mapped columns: those samples are left out`);
   const driftChange = (af: AeroFit | null, side: "front" | "rear") => (af && af.with_drift ? r(af[side].drift_n_per_s * duration, 1) : null);
   const traceFit = fit;

@@ -178,6 +178,8 @@ export interface FinishContext {
   rows?: number;
   bytes?: number;
   droppedCells?: Record<string, number>;
+  /** Per mapped column: cells that hold no readable number (text, or a number past the double range such as 1e309). */
+  badCells?: Record<string, number>;
 }
 
 /** Cautions the product shows with any number that can lead to a setup change (common practice). */

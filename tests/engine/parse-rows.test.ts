@@ -41,13 +41,19 @@ async function parseColumn(cells: string[], decimalComma: boolean) {
   return ingestAllWith(cutAt(bytes, [bytes.length >> 1]), MAP, { blockRows: 64, inspectBytes: 256 });
 }
 
+/** Number(), except that a value past the double range (Infinity) is an unreadable cell (NaN) by design. */
+const finiteNumber = (text: string) => {
+  const v = Number(text);
+  return v === Infinity || v === -Infinity ? NaN : v;
+};
+
 describe("row parser cells equal Number()", () => {
   it("with a decimal point, plain and quoted", async () => {
     await fc.assert(
       fc.asyncProperty(fc.array(cell, { minLength: 1, maxLength: 60 }), async (cells) => {
         const { channels } = await parseColumn(cells, false);
         for (let i = 0; i < 200; i++) {
-          const ref = Number(cells[i % cells.length]);
+          const ref = finiteNumber(cells[i % cells.length]);
           if (!Object.is(channels.damper_fl![i], ref) || !Object.is(channels.damper_rr![i], ref)) return false;
         }
         return true;
@@ -60,7 +66,7 @@ describe("row parser cells equal Number()", () => {
     await fc.assert(
       fc.asyncProperty(fc.array(cell, { minLength: 1, maxLength: 60 }), async (cells) => {
         const { channels } = await parseColumn(cells, true);
-        for (let i = 0; i < 200; i++) if (!Object.is(channels.damper_fl![i], Number(cells[i % cells.length]))) return false;
+        for (let i = 0; i < 200; i++) if (!Object.is(channels.damper_fl![i], finiteNumber(cells[i % cells.length]))) return false;
         return true;
       }),
       { numRuns: 100 },
