@@ -40,6 +40,9 @@ export default [
   ...prefix("dev", [route("mailbox", "routes/dev/mailbox.tsx"), route("mailbox/:id", "routes/dev/message.tsx")]),
 
   // Resource routes.
+  // Health of this process (liveness, and readiness with the database): for the proxy and monitoring.
+  route("healthz", "routes/health/healthz.ts"),
+  route("readyz", "routes/health/readyz.ts"),
   route("api/auth/*", "routes/api/auth.ts"),
   // Garage: car list, CAR.json export (car + one setup version) and import.
   route("api/t/:teamSlug/cars", "routes/api/cars.ts"),
