@@ -1,7 +1,7 @@
 // HAProxy (Debian's package) in front of the app processes and the Galera nodes, for `npm run cluster`.
 //
 // - App frontend: round robin over the app processes, each health-checked on GET /healthz. A process
-//   that dies is taken out after two failed checks; a GET that was in flight on it (the connection
+//   that dies is taken out after three failed checks (new requests that find it gone go to another at once); a GET that was in flight on it (the connection
 //   closed with no answer) is sent again to another process by HAProxy's layer-7 retries. Requests
 //   with a body (uploads) are never retried by the proxy: their client sends them again.
 // - Database frontend: one writer at a time. db1 takes every connection while it is up; db2, then
@@ -59,9 +59,12 @@ backend app_processes
   mode http
   balance roundrobin
   timeout server 10m
-  option httpchk GET ${appCheckPath}
+  option httpchk
+  http-check send meth GET uri ${appCheckPath} ver HTTP/1.1 hdr Host 127.0.0.1
   http-check expect status 200
-  default-server inter 1s fastinter 500ms fall 2 rise 2
+  # A busy process answers its check late, not never: give it 3 s before a check counts as failed.
+  timeout check 3s
+  default-server inter 1s fastinter 500ms fall 3 rise 2
   option redispatch 1
   retry-on conn-failure empty-response response-timeout 500 502 503 504
   # Only requests without a body that change nothing are sent again.
