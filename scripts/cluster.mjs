@@ -88,6 +88,8 @@ function clusterEnv(databaseUrl) {
     SMTP_URL: `smtp://127.0.0.1:${layout.smtpPort}`,
     MAIL_FROM: "Rakeline <no-reply@rakeline.local>",
     MAIL_CATCHER_DIR: layout.mailDir,
+    // The development mailbox (/dev/mailbox) shows the caught mail on this loopback layout; never in production.
+    DEV_MAILBOX: "on",
     // HAProxy adds X-Forwarded-For; the auth rate limiter reads the client's address from it.
     CLIENT_IP_HEADER: "x-forwarded-for",
     AUTH_RATE_LIMIT: process.env.AUTH_RATE_LIMIT || "on",
