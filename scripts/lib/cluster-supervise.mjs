@@ -11,7 +11,7 @@ const MAX_QUICK_RESTARTS = 5;
 const QUICK_WINDOW_MS = 120_000;
 
 /**
- * options: { stateFile, isStopping(), onGiveUp(reason), record(name, pid) (run lock), base: {...} }
+ * options: { stateFile, isStopping(), onGiveUp(reason), record(name, pid, marker) (run lock), base: {...} }
  * supervise(name, role, start, meta) starts a process now and keeps it running.
  * start() resolves with { pid, exited: Promise, stop: async () => void }.
  */
@@ -23,7 +23,7 @@ export function createSupervisor(options) {
     const state = {
       ...base,
       updatedAt: new Date().toISOString(),
-      processes: entries.map(({ name, role, pid, restarts, meta, up }) => ({ name, role, pid, up, restarts, ...meta })),
+      processes: entries.map(({ name, role, pid, restarts, meta: { marker: _marker, ...meta }, up }) => ({ name, role, pid, up, restarts, ...meta })),
     };
     const tmp = `${options.stateFile}.tmp`;
     writeFileSync(tmp, `${JSON.stringify(state, null, 2)}\n`);
@@ -63,7 +63,7 @@ export function createSupervisor(options) {
       entry.pid = entry.handle.pid;
       entry.restarts += 1;
       entry.up = true;
-      options.record?.(entry.name, entry.pid);
+      options.record?.(entry.name, entry.pid, entry.meta.marker);
       info(`${entry.name} is running again (pid ${entry.pid})`);
       writeState();
     }
@@ -74,7 +74,7 @@ export function createSupervisor(options) {
       const handle = await start({ restart: false });
       const entry = { name, role, start, handle, pid: handle.pid, restarts: 0, meta, up: true, stopped: false, recentExits: [] };
       entries.push(entry);
-      options.record?.(name, handle.pid);
+      options.record?.(name, handle.pid, meta.marker);
       writeState();
       entry.watching = keepRunning(entry);
       return entry;

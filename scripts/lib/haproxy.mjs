@@ -62,8 +62,9 @@ backend app_processes
   option httpchk
   http-check send meth GET uri ${appCheckPath} ver HTTP/1.1 hdr Host 127.0.0.1
   http-check expect status 200
-  # A busy process answers its check late, not never: give it 3 s before a check counts as failed.
-  timeout check 3s
+  # A busy process answers its check late, not never: give it 5 s before a check counts as failed
+  # (a dead one refuses the connection at once and is out after three checks, about 2 s).
+  timeout check 5s
   default-server inter 1s fastinter 500ms fall 3 rise 2
   option redispatch 1
   retry-on conn-failure empty-response response-timeout 500 502 503 504
