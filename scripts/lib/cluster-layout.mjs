@@ -1,5 +1,5 @@
 // Where `npm run cluster` puts everything on loopback: one block of ports (4400–4499 by default,
-// RAKELINE_CLUSTER_PORT_BASE moves it) and one folder, .data/cluster/. Read by scripts/cluster.mjs,
+// RAKELINE_CLUSTER_PORT_BASE moves it) and one folder, .data/cluster/ (RAKELINE_CLUSTER_DATA names another). Read by scripts/cluster.mjs,
 // scripts/bench-cluster.ts and the cluster tests; see "Running at scale" in the README.
 import path from "node:path";
 import { dataDir } from "./env.mjs";
@@ -16,13 +16,20 @@ function portBase() {
   return base;
 }
 
+/** The cluster's folder under .data/: `cluster`, or RAKELINE_CLUSTER_DATA (the cluster test stage uses its own). */
+function clusterDir() {
+  const name = process.env.RAKELINE_CLUSTER_DATA || "cluster";
+  if (!/^[a-z0-9-]+$/.test(name)) throw new Error(`RAKELINE_CLUSTER_DATA must be a folder name of lower-case letters, digits and dashes, not "${name}"`);
+  return path.join(dataDir, name);
+}
+
 /**
  * The layout for `apps` app processes and `workers` job workers (the issue asks for at least two of
  * each). Offsets inside the block: +0 app frontend, +1 HAProxy stats, +6 database frontend (the
  * writer), +11… app processes, +21… job workers' health ports, +25 mail catcher, +31…/+41…/+51…/+61…
  * each Galera node's client, group-communication, IST and SST ports, +90 the S3 fake.
  */
-export function clusterLayout({ base = portBase(), dir = path.join(dataDir, "cluster"), apps = 2, workers = 2 } = {}) {
+export function clusterLayout({ base = portBase(), dir = clusterDir(), apps = 2, workers = 2 } = {}) {
   const nodes = [1, 2, 3].map((i) => {
     const datadir = path.join(dir, `db${i}`);
     return {
