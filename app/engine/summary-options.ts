@@ -30,7 +30,9 @@ export const DEFAULT_GATES: SummaryGates = {
   aero_max_spike_mm: 8,
   us_min_speed_kmh: 30,
   us_min_lat_g: 0.2,
-  us_max_lat_fraction_of_peak: 0.85,
+  // Off by default (1 = the band's peak): a driver holds steady arcs near the band's peak, and a
+  // lower cap would throw those away. Set it below 1 to keep to the tyres' linear range.
+  us_max_lat_fraction_of_peak: 1,
   us_max_steer_rate_deg_s: 15,
   us_max_lat_jerk_g_s: 0.5,
   us_max_long_g: 0.1,
