@@ -3,6 +3,7 @@
  * Kept apart from the worker entry so it can be tested without a Worker global, and so nothing here
  * reaches JSX (the dev server's hot-reload preamble breaks a worker that imports it).
  */
+import { transfer } from "comlink";
 import { analyseLog } from "../app/engine/analyse";
 import type { AnalyseOptions } from "../app/engine/analyse";
 import { isEngineError } from "../app/engine/errors";
@@ -14,12 +15,32 @@ import type { LogFileAccess, LogPlan, PartResult, PlanLimits } from "../app/engi
 import type { SessionSummary, StaticSeed } from "../app/engine/summary";
 import type { SummaryOptions } from "../app/engine/summary-options";
 import type { CarInput, ChannelMap, LogHeader } from "../app/engine/types";
+import { previewColumns, type ColumnPreview } from "./column-preview";
+import { checkUnitsOnHead } from "./unit-checks";
 
 /** Bytes read from the start of a file to show its header and propose a Channel map. */
 export const HEAD_SLICE_BYTES = 1 << 18;
 
-/** Bytes read from the start of a file for the sign check (some minutes of running at 100 Hz). */
+/** Bytes read from the start of a file for the sign and unit checks and the previews (some minutes of running at 100 Hz). */
 export const SIGN_CHECK_BYTES = 4 << 20;
+
+/** How often the analysis reports progress (ms): often enough for a smooth bar, rare enough to cost nothing. */
+const PROGRESS_EVERY_MS = 100;
+
+/** Where a whole-file read stands. `rows` counts line ends read so far (header lines included). */
+export interface ReadProgress {
+  bytes: number;
+  totalBytes: number;
+  rows: number;
+  elapsedMs: number;
+}
+
+export interface Inspection {
+  header: LogHeader;
+  suggestion: ReturnType<typeof suggestChannelMap>;
+  /** The numeric columns over the first minutes, as logged; null when no column orders the rows. */
+  preview: ColumnPreview | null;
+}
 
 export type EngineResult<T> = { ok: true; value: T } | { ok: false; code: string; message: string };
 
@@ -43,14 +64,45 @@ function blobAccess(file: Blob): LogFileAccess {
   };
 }
 
+/** Passes a byte stream through, counting its line ends (memchr-fast indexOf; no copy). */
+async function* countingLines(stream: ReadableStream<Uint8Array>, add: (n: number) => void): AsyncGenerator<Uint8Array> {
+  const reader = stream.getReader();
+  let finished = false;
+  try {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) {
+        finished = true;
+        return;
+      }
+      let n = 0;
+      for (let i = value.indexOf(10); i >= 0; i = value.indexOf(10, i + 1)) n++;
+      add(n);
+      yield value;
+    }
+  } finally {
+    if (!finished) await reader.cancel().catch(() => {});
+    reader.releaseLock();
+  }
+}
+
 export const engineApi = {
-  /** Header, units row, preamble metadata and a proposed Channel map, from the first bytes of a file. */
-  async inspect(file: Blob): Promise<EngineResult<{ header: LogHeader; suggestion: ReturnType<typeof suggestChannelMap> }>> {
-    const head = new Uint8Array(await file.slice(0, HEAD_SLICE_BYTES).arrayBuffer());
-    return guarded(() => {
-      const header = inspectLog(head);
-      return { header, suggestion: suggestChannelMap(header) };
+  /**
+   * Header, units row, preamble metadata, a proposed Channel map and every numeric column's preview
+   * over the first minutes (its buffers are transferred, not copied).
+   */
+  async inspect(file: Blob): Promise<EngineResult<Inspection>> {
+    const head = new Uint8Array(await file.slice(0, SIGN_CHECK_BYTES).arrayBuffer());
+    const whole = file.size <= SIGN_CHECK_BYTES;
+    const result = await guarded(() => {
+      const header = inspectLog(head.subarray(0, HEAD_SLICE_BYTES));
+      const suggestion = suggestChannelMap(header);
+      return { header, suggestion, preview: previewColumns(head, whole, suggestion.map.time?.column ?? null) };
     });
+    const buffers = result.ok && result.value.preview
+      ? Object.values(result.value.preview.columns).flatMap((c) => [c.min.buffer as ArrayBuffer, c.max.buffer as ArrayBuffer])
+      : [];
+    return transfer(result, buffers);
   },
 
   /** Proposes `invert` flips for the map as it stands, from the first minutes of the file (see sign-check.ts). */
@@ -59,21 +111,44 @@ export const engineApi = {
     return guarded(() => checkChannelSigns(head, validateChannelMap(map, inspectLog(head.subarray(0, HEAD_SLICE_BYTES)))));
   },
 
-  /** The whole file streamed through the engine; progress in bytes read. */
+  /**
+   * Unit proposals (time base, damper ranges, lateral acceleration, steering size with the car's data)
+   * for the map as it stands, from the first minutes of the file (see unit-checks.ts).
+   */
+  async checkUnits(file: Blob, map: ChannelMap, car?: { steering_ratio: number; wheelbase_mm: number }): Promise<EngineResult<SignCheck[]>> {
+    const head = new Uint8Array(await file.slice(0, SIGN_CHECK_BYTES).arrayBuffer());
+    return guarded(() => checkUnitsOnHead(head, validateChannelMap(map, inspectLog(head.subarray(0, HEAD_SLICE_BYTES))), car));
+  },
+
+  /**
+   * The whole file streamed through the engine (File.stream(), never the whole text), with the same
+   * call as the CLI (analyseLog). Progress: bytes, line ends and elapsed time, every 100 ms and at the end.
+   */
   async analyse(
     file: Blob,
     car: CarInput,
     map: ChannelMap,
     options: Omit<AnalyseOptions, "onProgress"> = {},
-    onProgress?: (bytesRead: number, totalBytes: number) => void | Promise<void>,
+    onProgress?: (p: ReadProgress) => void | Promise<void>,
   ): Promise<EngineResult<SessionSummary>> {
+    const started = performance.now();
+    let rows = 0, lastReport = -Infinity;
+    const report = (bytes: number) => ({ bytes, totalBytes: file.size, rows, elapsedMs: performance.now() - started });
     return guarded(async () => {
       const head = new Uint8Array(await file.slice(0, HEAD_SLICE_BYTES).arrayBuffer());
       const checked = validateChannelMap(map, inspectLog(head));
-      const summary = await analyseLog(file.stream(), car, checked, { ...options, onProgress: (b) => void onProgress?.(b, file.size) });
+      const summary = await analyseLog(countingLines(file.stream(), (n) => (rows += n)), car, checked, {
+        ...options,
+        onProgress: (b) => {
+          const now = performance.now();
+          if (now - lastReport < PROGRESS_EVERY_MS) return;
+          lastReport = now;
+          void onProgress?.(report(b));
+        },
+      });
       // Awaited last call: across a message port it arrives after every earlier one, so the page
       // has seen all progress when the summary lands.
-      await onProgress?.(file.size, file.size);
+      await onProgress?.(report(file.size));
       return summary;
     });
   },

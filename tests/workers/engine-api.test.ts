@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { expose, proxy, wrap } from "comlink";
-import { engineApi, type EngineApi } from "../../workers/engine-api";
+import { engineApi, type EngineApi, type ReadProgress } from "../../workers/engine-api";
 import type { CarInput, ChannelMap } from "../../app/engine/types";
 
 const LOG = "sample-data/logs/marlin-kestrel-semicolon";
@@ -40,14 +40,19 @@ describe("engine worker API over comlink", () => {
   it("analyses the whole file in the worker, reports progress to the end and recovers the generator's ClA", async () => {
     const { api, close } = connect();
     try {
-      const seen: number[] = [];
-      const res = await api.analyse(new Blob([bytes]), car, map, {}, proxy((b: number) => { seen.push(b); }));
+      const seen: ReadProgress[] = [];
+      const res = await api.analyse(new Blob([bytes]), car, map, {}, proxy((p: ReadProgress) => { seen.push(p); }));
       expect(res.ok).toBe(true);
       if (!res.ok) return;
       // Demo truth, within the tolerance (ClA within 5 %).
       expect(Math.abs(res.value.aero.cla_front_m2! / truth.cla_front_m2 - 1)).toBeLessThan(0.05);
       expect(Math.abs(res.value.aero.cla_rear_m2! / truth.cla_rear_m2_fit - 1)).toBeLessThan(0.05);
-      expect(seen.at(-1)).toBe(bytes.length);
+      // The last report covers the whole file: every byte, and every line end (counted here independently).
+      const last = seen.at(-1)!;
+      expect(last.bytes).toBe(bytes.length);
+      expect(last.totalBytes).toBe(bytes.length);
+      expect(last.rows).toBe(bytes.toString("latin1").split("\n").length - 1);
+      expect(last.elapsedMs).toBeGreaterThan(0);
     } finally {
       close();
     }
