@@ -60,7 +60,7 @@ export const MARLIN_SR2: SimCar = {
   claFrontM2: 0.45, claRearM2: 0.75, claFrontPerMmDrop: 0.004, cdaM2: 0.85,
   powerW: 150_000, muLat: 1.55, muBrake: 1.5, cornerSpeedFactor: 1,
   tyreRateNPerMm: 280, loadSensitivity: 0.15,
-  fuelBurnKgPerS: 0.019, fuelFrontShare: 0.35, fuelTankFromFrontAxleMm: 1350,
+  fuelBurnKgPerS: 0.019, fuelTankFromFrontAxleMm: 1350,
   front: { springNPerMm: 100, motionRatio: 0.95, bumpGapMm: 9, bumpRateNPerMm: 250, rollSpringShare: 0.6, staticRideHeightMm: 45, corneringCoeffPerRad: 12 },
   rear: { springNPerMm: 120, motionRatio: 0.9, bumpGapMm: 14, bumpRateNPerMm: 300, rollSpringShare: 0.6, staticRideHeightMm: 60, corneringCoeffPerRad: 14.5 },
   staticDamperMm: { fl: 31.2, fr: 29.8, rl: 35.5, rr: 36.1 },
@@ -73,7 +73,7 @@ export const VESPER_GT4R: SimCar = {
   claFrontM2: 0.52, claRearM2: 0.78, claFrontPerMmDrop: 0.003, cdaM2: 0.95,
   powerW: 330_000, muLat: 1.45, muBrake: 1.45, cornerSpeedFactor: 0.96,
   tyreRateNPerMm: 320, loadSensitivity: 0.12,
-  fuelBurnKgPerS: 0.028, fuelFrontShare: 0.45, fuelTankFromFrontAxleMm: 1700,
+  fuelBurnKgPerS: 0.028, fuelTankFromFrontAxleMm: 1700,
   front: { springNPerMm: 160, motionRatio: 0.8, bumpGapMm: 12, bumpRateNPerMm: 500, rollSpringShare: 0.55, staticRideHeightMm: 70, corneringCoeffPerRad: 10.5 },
   rear: { springNPerMm: 180, motionRatio: 0.75, bumpGapMm: 25, bumpRateNPerMm: 400, rollSpringShare: 0.55, staticRideHeightMm: 85, corneringCoeffPerRad: 12.5 },
   staticDamperMm: { fl: 42.0, fr: 43.4, rl: 38.9, rr: 38.1 },
@@ -85,7 +85,7 @@ export const VESPER_GT4R: SimCar = {
  * 160+ km/h band). The car file is the same: aero is what the engine measures. The fuel's share on
  * each axle follows from the tank position in the car file.
  */
-export const MARLIN_SR2_SPLITTER: SimCar = { ...MARLIN_SR2, claFrontPerMmDrop: 0.035, fuelFrontShare: undefined };
+export const MARLIN_SR2_SPLITTER: SimCar = { ...MARLIN_SR2, claFrontPerMmDrop: 0.035 };
 
 /** The CAR.json a team would type in the Garage for a simulated car. */
 export function carFile(car: SimCar, withStatic: boolean): CarInput {

@@ -10,6 +10,7 @@
  */
 import { Prng, resonantNoise } from "./prng";
 import { speedProfile } from "./track";
+import { BALANCE_SHIFT_MIN_AERO_S, BAND_BALANCE_MIN_LOAD_SHARE } from "../app/engine/bands";
 import type { TrackLayout } from "./track";
 
 const G = 9.80665;
@@ -24,9 +25,7 @@ export interface SimCar {
   powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
   tyreRateNPerMm: number; loadSensitivity: number;
   fuelBurnKgPerS: number;
-  /** Share of the fuel's weight on the front axle; when absent, from the tank position (lever rule). */
-  fuelFrontShare?: number;
-  /** Centre of the fuel tank behind the front axle, as the car file gives it (mm). */
+  /** Centre of the fuel tank behind the front axle, as the car file gives it (mm): it alone splits the fuel over the axles. */
   fuelTankFromFrontAxleMm: number;
   front: SimAxle; rear: SimAxle;
   staticDamperMm: { fl: number; fr: number; rl: number; rr: number };
@@ -40,9 +39,9 @@ export interface SimOptions {
   paceSpread?: number; paceDrift?: number;
 }
 
-/** The fuel's share on the front axle: given, or 1 − x/L from the tank position (moments about the rear axle). */
+/** The fuel's share on the front axle, 1 − x/L from the tank position (moments about the rear axle; common practice). */
 export function fuelFrontShare(car: SimCar): number {
-  return car.fuelFrontShare ?? 1 - car.fuelTankFromFrontAxleMm / 1000 / car.wheelbaseM;
+  return 1 - car.fuelTankFromFrontAxleMm / 1000 / car.wheelbaseM;
 }
 
 /** Columns in SI/engine units (time s, speed m/s, accel m/s², steer deg, dampers mm, ride height mm, yaw deg/s). */
@@ -64,7 +63,7 @@ export interface SimTruth {
   bands: { min_kmh: number; max_kmh: number; aero_load_front_n: number | null; aero_load_rear_n: number | null; balance_front_pct: number | null; understeer_gradient_deg_per_g: number | null; steady_samples: number; steady_cornering_s: number;
     /** Mean ride-height change from static over the band's running (suspension and tyre, mm). */
     ride_height_change_front_mm: number | null; ride_height_change_rear_mm: number | null }[];
-  /** Balance of the highest band minus the lowest, among bands with a minute of running and 5 % of the weight in aero load. */
+  /** Balance of the highest band minus the lowest, by the engine's rule (BALANCE_SHIFT_RULE in app/engine/bands.ts) applied to the true loads. */
   balance_shift: { low_band_kmh: [number, number]; high_band_kmh: [number, number]; points: number } | null;
 }
 
@@ -264,14 +263,17 @@ function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array
       ride_height_change_front_mm: bn[b] ? r4(bhF[b] / bn[b]) : null,
       ride_height_change_rear_mm: bn[b] ? r4(bhR[b] / bn[b]) : null,
     })),
-    balance_shift: balanceShiftOf(o.bandEdgesKmh, bn, bf, br, o.rateHz),
+    balance_shift: balanceShiftOf(o.bandEdgesKmh, bn, bf, br, o.rateHz, car.massKg),
   };
 }
 
-/** The truth's balance shift: bands holding a minute of running and an aero load of 5 % of a 600 kg car. */
-function balanceShiftOf(edges: number[], bn: Float64Array, bf: Float64Array, br: Float64Array, rateHz: number): SimTruth["balance_shift"] {
+/**
+ * The truth's balance shift by the engine's rule (BALANCE_SHIFT_RULE, app/engine/bands.ts): bands
+ * whose mean aero load is at least 5 % of the car's weight and that hold 20 s of running.
+ */
+function balanceShiftOf(edges: number[], bn: Float64Array, bf: Float64Array, br: Float64Array, rateHz: number, massKg: number): SimTruth["balance_shift"] {
   const ok: number[] = [];
-  for (let b = 0; b < bn.length; b++) if (bn[b] >= 60 * rateHz && (bf[b] + br[b]) / bn[b] > 0.05 * 600 * G) ok.push(b);
+  for (let b = 0; b < bn.length; b++) if (bn[b] >= BALANCE_SHIFT_MIN_AERO_S * rateHz && (bf[b] + br[b]) / bn[b] > BAND_BALANCE_MIN_LOAD_SHARE * massKg * G) ok.push(b);
   if (ok.length < 2) return null;
   const lo = ok[0], hi = ok[ok.length - 1];
   const bal = (b: number) => (100 * bf[b]) / (bf[b] + br[b]);

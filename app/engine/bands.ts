@@ -5,6 +5,19 @@ import { EngineError } from "./errors";
 export const DEFAULT_BAND_EDGES_KMH = [0, 80, 120, 160, 200, 300] as const;
 export const MAX_BANDS = 20;
 
+/**
+ * A band's balance is given when its mean aero load is at least this share of the car's weight
+ * (below it, a few newtons of static-load error swing the split by points).
+ */
+export const BAND_BALANCE_MIN_LOAD_SHARE = 0.05;
+/**
+ * The balance shift is taken between the lowest and the highest band whose balance is given and that
+ * holds at least this much aero running (s): a band crossed only briefly says little.
+ */
+export const BALANCE_SHIFT_MIN_AERO_S = 20;
+/** The balance shift's rule in words (summary field `balance_shift.rule`, methods note). */
+export const BALANCE_SHIFT_RULE = `from the lowest to the highest speed band whose balance is given (aero load at least ${BAND_BALANCE_MIN_LOAD_SHARE * 100} % of the car's weight) and that holds at least ${BALANCE_SHIFT_MIN_AERO_S} s of aero running`;
+
 /** Validate band edges: at least two, finite, ≥ 0, strictly increasing, at most 21 edges. */
 export function validateBandEdges(edges: readonly number[]): number[] {
   if (!Array.isArray(edges) || edges.length < 2) throw new EngineError("bad_options", "speed bands need at least two edges, e.g. 0,80,120");

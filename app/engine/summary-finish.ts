@@ -3,6 +3,7 @@ import { KMH_PER_M_PER_S, STANDARD_GRAVITY_M_PER_S2 } from "./units";
 import { bandAeroLoadN, fitAero, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
 import type { AeroFit } from "./aero";
 import { fuelAxleLoadChangeN } from "./fuel";
+import { BALANCE_SHIFT_MIN_AERO_S, BALANCE_SHIFT_RULE, BAND_BALANCE_MIN_LOAD_SHARE } from "./bands";
 import { chooseAeroModel, rideHeightSensitivity } from "./summary-aero";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm } from "./physics";
 import type { StaticReference, SummaryBuilder } from "./summary";
@@ -169,7 +170,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   if (s.hasBumpStops) flags.push("bump_stops_modelled");
   if (withDrift) flags.push("static_load_drift_modelled");
   const bands: BandSummary[] = [];
-  const bandBalances: { bal: number; ci: [number, number] | null }[] = [];
+  const bandBalances: BandBalance[] = [];
   const rate = Number.isFinite(s.sampleRateHz) && s.sampleRateHz > 0 ? s.sampleRateHz : 1;
   const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
   const a = s.aero.bands;
@@ -184,8 +185,8 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
     let bal = NaN;
     if (fit && n === 0 && s.bandRows[b] > 0) warn("band_no_aero_samples", `${label}: none of the ${s.bandRows[b]} samples passed the aero gates (|ax| ≤ ${s.opts.gates.aero_max_long_g} g, steady dampers, above ${s.opts.gates.aero_min_speed_kmh} km/h)`);
     if (fit && n > 0) {
-      if (loadF + loadR > 0.05 * weightN) bal = (100 * loadF) / (loadF + loadR);
-      else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under 5 % of the car's weight, too small to split between the axles`);
+      if (loadF + loadR > BAND_BALANCE_MIN_LOAD_SHARE * weightN) bal = (100 * loadF) / (loadF + loadR);
+      else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under ${BAND_BALANCE_MIN_LOAD_SHARE * 100} % of the car's weight, too small to split between the axles`);
     }
     const offRoad = offset.offset_deg === null ? NaN : offset.offset_deg / c.steeringRatio;
     const us = offset.offset_deg === null || understeerUnsound ? null : bandUndersteer(s.us, b, offRoad, s.opts.gates.us_max_lat_fraction_of_peak);
@@ -246,7 +247,7 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
       cop_behind_cog_mm: r(bandCop - cogMm, 1),
       steady_cornering_s: r(Number.isFinite(k) ? steadyS : 0, 2) ?? 0,
     });
-    bandBalances.push({ bal, ci: balCi });
+    bandBalances.push({ bal, ci: balCi, aeroS: n / rate });
   }
 
   const copMm = Number.isFinite(balance) ? copFromFrontAxleMm(s.car.wheelbase_mm, balance) : NaN;
@@ -329,12 +330,15 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   };
 }
 
+interface BandBalance { bal: number; ci: [number, number] | null; aeroS: number }
+
 /**
- * Balance between the lowest and the highest band whose balance could be given (enough aero load):
- * the two bands' balance intervals taken as independent for the interval of the difference.
+ * Balance shift by BALANCE_SHIFT_RULE (bands.ts): from the lowest to the highest band whose balance
+ * is given and that holds enough aero running; the two bands' balance intervals taken as independent
+ * for the interval of the difference.
  */
-function balanceShift(bands: BandSummary[], bb: { bal: number; ci: [number, number] | null }[], wheelbaseMm: number): SessionSummary["aero"]["balance_shift"] {
-  const ok = bb.map((x, i) => (Number.isFinite(x.bal) ? i : -1)).filter((i) => i >= 0);
+function balanceShift(bands: BandSummary[], bb: BandBalance[], wheelbaseMm: number): SessionSummary["aero"]["balance_shift"] {
+  const ok = bb.map((x, i) => (Number.isFinite(x.bal) && x.aeroS >= BALANCE_SHIFT_MIN_AERO_S ? i : -1)).filter((i) => i >= 0);
   if (ok.length < 2) return null;
   const lo = ok[0], hi = ok[ok.length - 1];
   const points = bb[hi].bal - bb[lo].bal;
@@ -344,6 +348,7 @@ function balanceShift(bands: BandSummary[], bb: { bal: number; ci: [number, numb
   // CoP = L·(1 − balance): a forward shift of balance by p points moves the CoP forward by L·p/100.
   const mm = (wheelbaseMm * points) / 100;
   return {
+    rule: BALANCE_SHIFT_RULE,
     low_band_kmh: [bands[lo].min_kmh, bands[lo].max_kmh],
     high_band_kmh: [bands[hi].min_kmh, bands[hi].max_kmh],
     points: r(points, 2)!,

@@ -55,11 +55,16 @@ describe.each(DIALECTS)("ride-height-sensitive aero, %s", (_name, spec) => {
         checked++;
       });
       expect(checked).toBeGreaterThanOrEqual(3);
+      // One rule for both (BALANCE_SHIFT_RULE, app/engine/bands.ts): the truth applies it to the true
+      // loads, the engine to its estimates; both must pick the same bands.
       const shift = s.aero.balance_shift!;
-      const lo = s.bands.findIndex((b) => b.min_kmh === shift.low_band_kmh[0]), hi = s.bands.findIndex((b) => b.min_kmh === shift.high_band_kmh[0]);
-      const truthShift = truth.bands[hi].balance_front_pct! - truth.bands[lo].balance_front_pct!;
-      expect(truthShift).toBeGreaterThan(2); // the scenario's migration is real
-      expect(Math.abs(shift.points - truthShift)).toBeLessThan(0.75);
+      const truthShift = truth.balance_shift!;
+      expect(shift.low_band_kmh).toEqual(truthShift.low_band_kmh);
+      expect(shift.high_band_kmh).toEqual(truthShift.high_band_kmh);
+      expect(truthShift.points).toBeGreaterThan(2); // the scenario's migration is real
+      expect(Math.abs(shift.points - truthShift.points)).toBeLessThan(0.75);
+      // CoP = L·(1 − balance) (common practice): the CoP moves forward by L·Δbalance/100.
+      expect(shift.cop_shift_mm).toBeCloseTo((2450 * shift.points) / 100, 0);
       expect(s.fuel.source).toBe(fuelGiven ? "given" : "fitted_drift");
     });
 
