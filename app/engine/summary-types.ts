@@ -73,8 +73,8 @@ export type AeroVariationModel = "constant" | "speed_band" | "ride_height";
 
 /** Balance between the lowest and the highest band with enough aero load. */
 export interface BalanceShift {
-  /** Which bands: BALANCE_SHIFT_RULE (bands.ts), in words. */
-  rule: string;
+  /** Which bands: BALANCE_SHIFT_RULE (bands.ts), in words (absent in summaries stored before it was added). */
+  rule?: string;
   low_band_kmh: [number, number];
   high_band_kmh: [number, number];
   /** balance(high) − balance(low), % points; positive = balance moves forward with speed. */
