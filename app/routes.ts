@@ -48,6 +48,9 @@ export default [
   route("api/t/:teamSlug/cars", "routes/api/cars.ts"),
   route("api/t/:teamSlug/cars/import", "routes/api/cars-import.ts"),
   route("api/t/:teamSlug/cars/:carId/setups/:setupId/car.json", "routes/api/cars-export.ts"),
+  // Headless ingest: per-user API tokens scoped to one team.
+  route("api/tokens", "routes/api/tokens.ts"),
+  route("api/tokens/:id", "routes/api/token.ts"),
 
   // Anything else: JSON under /api/, the not-found page elsewhere.
   route("api/*", "routes/api/not-found.ts"),
