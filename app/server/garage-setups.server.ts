@@ -1,7 +1,7 @@
 /**
- * Setup sheets and their versions. The rule: a version referenced by an analysis session is never
- * changed in place. Saving an edit to it writes a new version (number + 1) and leaves it as it was;
- * a version no session uses yet is a draft and may be edited in place.
+ * Setup sheets and their versions. The rule: a stored version is never changed in place. Saving an
+ * edit writes the next version (number + 1) and leaves the one edited as it was, so the history keeps
+ * every value a setup ever had (and a version a session used is exactly what that session ran).
  */
 import { randomUUID } from "node:crypto";
 import { data } from "react-router";
@@ -14,6 +14,7 @@ import { diffSetups, summariseDiff } from "../lib/garage/diff";
 import type { UnitSystem } from "../lib/garage/units";
 import { db } from "./db.server";
 import { getCar } from "./garage-cars.server";
+import { recordAudit } from "./audit.server";
 
 /** The columns a setup form writes (everything but identity, version and authorship). */
 export type SetupValues = Omit<NewSetup, "id" | "sheetId" | "teamId" | "carId" | "version" | "createdBy" | "createdAt" | "updatedAt">;
@@ -134,15 +135,18 @@ export async function createSetupSheet(
   await db.transaction(async (tx) => {
     await tx.insert(setupSheets).values({ id: sheetId, teamId, carId, name: sheetName, createdBy: userId, createdAt: now });
     await tx.insert(setups).values({ ...values, id: setupId, sheetId, teamId, carId, version: 1, createdBy: userId, createdAt: now, updatedAt: now });
+    await recordAudit(tx, { teamId, actorUserId: userId, action: "setup_version_created", subjectType: "setup", subjectId: setupId, detail: { setup: sheetName, version: 1 } });
   });
   return { sheetId, setupId };
 }
 
-export type SaveOutcome = { setupId: string; version: number; newVersion: boolean; reason: "edited-draft" | "used-by-session" | "asked" };
+export type SaveOutcome = { setupId: string; version: number; newVersion: boolean; reason: "saved" | "unchanged" };
 
 /**
- * Saves an edit of version `setupId`. Rows are locked (sheet, then version) so that a session
- * recorded at the same moment cannot slip in between the check and the update.
+ * Saves an edit of version `setupId` as the next version of its sheet: no version is ever changed in
+ * place, so every earlier value stays in the history. A save that changes nothing (no field differs and the
+ * change note is empty) writes nothing. Rows are locked (sheet, then version) so two saves at the same
+ * moment get consecutive numbers. The audit log records the new version in the same transaction.
  */
 export async function saveSetupEdit(input: {
   teamId: string;
@@ -151,21 +155,16 @@ export async function saveSetupEdit(input: {
   setupId: string;
   sheetName: string;
   values: SetupValues;
-  asNewVersion?: boolean;
 }): Promise<SaveOutcome> {
   const current = await getSetup(input.teamId, input.carId, input.setupId);
   return db.transaction(async (tx) => {
     await tx.select({ id: setupSheets.id }).from(setupSheets).where(eq(setupSheets.id, current.sheetId)).for("update");
     await tx.select({ id: setups.id }).from(setups).where(eq(setups.id, current.id)).for("update");
-    const [usage] = await tx.select({ n: count() }).from(analysisSessions).where(eq(analysisSessions.setupId, current.id));
-    const used = Number(usage?.n ?? 0) > 0;
-    if (input.sheetName !== current.sheetName)
-      await tx.update(setupSheets).set({ name: input.sheetName }).where(eq(setupSheets.id, current.sheetId));
+    const renamed = input.sheetName !== current.sheetName;
+    if (renamed) await tx.update(setupSheets).set({ name: input.sheetName }).where(eq(setupSheets.id, current.sheetId));
+    const unchanged = diffSetups(current, { ...current, ...input.values } as Setup, "metric").length === 0 && !input.values.changeNote;
+    if (unchanged) return { setupId: current.id, version: current.version, newVersion: false, reason: "unchanged" as const };
     const now = new Date();
-    if (!used && !input.asNewVersion) {
-      await tx.update(setups).set({ ...input.values, updatedAt: now }).where(eq(setups.id, current.id));
-      return { setupId: current.id, version: current.version, newVersion: false, reason: "edited-draft" as const };
-    }
     const [top] = await tx.select({ v: max(setups.version) }).from(setups).where(eq(setups.sheetId, current.sheetId));
     const version = Number(top?.v ?? 0) + 1;
     const id = randomUUID();
@@ -180,7 +179,15 @@ export async function saveSetupEdit(input: {
       createdAt: now,
       updatedAt: now,
     });
-    return { setupId: id, version, newVersion: true, reason: used ? ("used-by-session" as const) : ("asked" as const) };
+    await recordAudit(tx, {
+      teamId: input.teamId,
+      actorUserId: input.userId,
+      action: "setup_version_created",
+      subjectType: "setup",
+      subjectId: id,
+      detail: { setup: input.sheetName, version, from: current.version, ...(renamed ? { renamedFrom: current.sheetName } : {}) },
+    });
+    return { setupId: id, version, newVersion: true, reason: "saved" as const };
   });
 }
 

@@ -80,6 +80,13 @@ describe("Garage in the browser", () => {
     await page.getByRole("button", { name: "Save as new version" }).click();
     await page.waitForURL(/saved=v2/);
     await page.getByText(/Saved as v2; the version you edited is kept unchanged/).waitFor();
+    // Editing v2 starts with an empty change note: the next version's note is its own (issue 12 item 4).
+    await page.getByRole("link", { name: "Edit" }).click();
+    await page.waitForURL(/\/edit$/);
+    await page.waitForLoadState("networkidle");
+    expect(await page.inputValue("#f-changeNote")).toBe("");
+    await page.goBack();
+    await page.waitForURL(/saved=v2/);
 
     const [download] = await Promise.all([page.waitForEvent("download"), page.getByText("Download CAR.json").click()]);
     const car = JSON.parse(readFileSync((await download.path())!, "utf8"));

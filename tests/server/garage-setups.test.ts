@@ -1,7 +1,8 @@
 // Setup versions against the real MariaDB: a version a session uses is never changed in place.
 import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
+import { auditLog } from "~/db/schema/audit";
 import { db } from "~/server/db.server";
 import { setups } from "~/db/schema/garage";
 import { analysisSessions } from "~/db/schema/sessions";
@@ -41,15 +42,41 @@ function edit(setupId: string, fields: Record<string, string>) {
 }
 
 describe("setup versions", () => {
-  it("an unused draft is edited in place (same id, same version)", async () => {
-    const { setupId } = await freshSetup();
-    const saved = await edit(setupId, form({ rearWingAngleDeg: "10" }));
+  it("every save writes the next version and leaves the one edited exactly as it was (issue 12 item 4)", async () => {
+    const { setupId, sheetId } = await freshSetup();
+    const [before] = await db.select().from(setups).where(eq(setups.id, setupId));
+    const saved = await edit(setupId, form({ rearWingAngleDeg: "10", changeNote: "Two more degrees" }));
     // RFC 9110 §15.4.3: 302 Found to the saved version's page.
     expect(saved.status).toBe(302);
-    expect(saved.location).toBe(`/t/${world.team.slug}/garage/${world.carId}/setups/${setupId}`);
-    const [row] = await db.select().from(setups).where(eq(setups.id, setupId));
-    expect(row.version).toBe(1);
-    expect(row.rearWingAngleDeg).toBe(10);
+    const newId = new URL(saved.location!, "http://x").pathname.split("/").at(-1)!;
+    expect(newId).not.toBe(setupId);
+    const [after] = await db.select().from(setups).where(eq(setups.id, setupId));
+    expect(after).toEqual(before);
+    const next = await getSetup(world.team.id, world.carId, newId);
+    expect(next.version).toBe(2);
+    expect(next.rearWingAngleDeg).toBe(10);
+    expect(next.changeNote).toBe("Two more degrees");
+    // A third save without a note does not inherit the second one's note.
+    const third = await edit(newId, form({ rearWingAngleDeg: "11" }));
+    const thirdId = new URL(third.location!, "http://x").pathname.split("/").at(-1)!;
+    const v3 = await getSetup(world.team.id, world.carId, thirdId);
+    expect(v3.version).toBe(3);
+    expect(v3.changeNote).toBeNull();
+    const history = await setupHistory(world.team.id, sheetId);
+    expect(history.map((h) => h.version)).toEqual([3, 2, 1]);
+    expect(history.map((h) => h.changeNote)).toEqual([null, "Two more degrees", before.changeNote]);
+    const events = await db.select().from(auditLog).where(and(eq(auditLog.teamId, world.team.id), eq(auditLog.subjectId, thirdId)));
+    expect(events.map((e) => [e.action, e.actorUserId, e.detail?.version])).toEqual([["setup_version_created", world.userIds.engineer, 3]]);
+    console.log("tried: three saves of one setup; held: v1 and v2 unchanged, v3 without v2's note, one audit event per version");
+  });
+
+  it("a save that changes nothing writes no version", async () => {
+    const { setupId, sheetId } = await freshSetup();
+    const current = await getSetup(world.team.id, world.carId, setupId);
+    const same = await edit(setupId, form({ rearWingAngleDeg: String(current.rearWingAngleDeg ?? "") }));
+    expect(same.status).toBe(302);
+    expect(same.location).toBe(`/t/${world.team.slug}/garage/${world.carId}/setups/${setupId}?saved=unchanged`);
+    expect((await setupHistory(world.team.id, sheetId)).length).toBe(1);
   });
 
   it("once a session uses a version, an edit writes version 2 and leaves version 1 exactly as it was", async () => {

@@ -105,9 +105,8 @@ export function SetupForm({ draftKey, initial, initialSystem, serverErrors, form
       <FormAlert>{formError}</FormAlert>
       {mode === "edit" && (
         <FormAlert tone="info">
-          {used
-            ? `This version is used by ${used} session${used > 1 ? "s" : ""}, so saving keeps it unchanged and writes a new version.`
-            : "No session uses this version yet: saving changes it in place, or save as a new version to keep it."}
+          Saving writes the next version of this setup; the version you are editing stays as it is in the history
+          {used ? ` (${used} session${used > 1 ? "s" : ""} used it)` : ""}.
         </FormAlert>
       )}
       <div className="mb-4">
@@ -154,13 +153,8 @@ export function SetupForm({ draftKey, initial, initialSystem, serverErrors, form
       {text("changeNote")}
       <div className="flex gap-3">
         <Button name="intent" value="save">
-          {mode === "new" ? "Create setup" : used ? "Save as new version" : "Save"}
+          {mode === "new" ? "Create setup" : "Save as new version"}
         </Button>
-        {mode === "edit" && !used && (
-          <Button name="intent" value="new-version" variant="quiet">
-            Save as new version
-          </Button>
-        )}
       </div>
     </Form>
   );

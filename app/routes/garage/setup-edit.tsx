@@ -33,10 +33,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     setupId,
     sheetName,
     values,
-    asNewVersion: fields.intent === "new-version",
   });
   const to = `/t/${ctx.team.slug}/garage/${carId}/setups/${saved.setupId}`;
-  return redirect(saved.newVersion ? `${to}?saved=v${saved.version}&against=${setupId}` : to);
+  return redirect(saved.newVersion ? `${to}?saved=v${saved.version}&against=${setupId}` : `${to}?saved=unchanged`);
 }
 
 export default function EditSetup({ loaderData, actionData }: Route.ComponentProps) {
@@ -48,7 +47,7 @@ export default function EditSetup({ loaderData, actionData }: Route.ComponentPro
       </h1>
       <SetupForm
         draftKey={`${team.slug}:setup:${setup.id}`}
-        initial={{ ...setup, name: setup.sheetName, changeNote: setup.sessions ? null : setup.changeNote }}
+        initial={{ ...setup, name: setup.sheetName, changeNote: null }}
         initialSystem="metric"
         serverErrors={actionData?.errors}
         formError={actionData?.errors ? "Some values need a look; each is marked below. Nothing was saved." : undefined}

@@ -12,7 +12,7 @@ import { UnitsLink } from "~/components/garage/table";
 import type { Route } from "./+types/setup";
 
 const searchSchema = z.object({
-  saved: z.string().regex(/^v\d+$/).optional().catch(undefined),
+  saved: z.string().regex(/^(v\d+|unchanged)$/).optional().catch(undefined),
   against: z.string().min(1).max(36).optional().catch(undefined),
 });
 
@@ -59,7 +59,7 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
             {setup.sheetName} <span className="num text-ink-soft">v{setup.version}</span>
           </h1>
           <p className="text-sm text-ink-soft">
-            {setup.sessions ? `Used by ${setup.sessions} session${setup.sessions > 1 ? "s" : ""}: locked; an edit makes a new version.` : "Draft: no session uses it yet."}
+            {setup.sessions ? `Used by ${setup.sessions} session${setup.sessions > 1 ? "s" : ""}.` : "No session uses this version yet."} Versions are never changed: an edit saves the next one.
           </p>
         </div>
         <div className="flex flex-wrap items-center gap-2 text-sm">
@@ -75,7 +75,8 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
           )}
         </div>
       </header>
-      {notice.saved && (
+      {notice.saved === "unchanged" && <FormAlert tone="info">Nothing had changed, so no new version was written.</FormAlert>}
+      {notice.saved && notice.saved !== "unchanged" && (
         <FormAlert tone="info">
           Saved as {notice.saved}; the version you edited is kept unchanged.{" "}
           {notice.against && <Link className="underline" to={`${carBase}/setups/${setup.id}/diff?against=${notice.against}`}>See what changed</Link>}

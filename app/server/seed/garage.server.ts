@@ -162,7 +162,7 @@ export async function seedGarage(): Promise<void> {
     let setupId = first.setupId;
     for (const change of demo.versions) {
       values = { ...values, ...change };
-      const saved = await saveSetupEdit({ teamId: team.id, userId: null, carId, setupId, sheetName: demo.sheetName, values, asNewVersion: true });
+      const saved = await saveSetupEdit({ teamId: team.id, userId: null, carId, setupId, sheetName: demo.sheetName, values });
       setupId = saved.setupId;
     }
   }
