@@ -23,6 +23,8 @@ export const CAR_LIMITS = {
   bump_stop_gap_mm: [0, 150, "mm of damper travel from static"],
   bump_stop_rate_n_per_mm: [1, 20_000, "N/mm at the damper"],
   static_damper_mm: [-500, 500, "mm"],
+  bump_table_deflection_mm: [0, 150, "mm from contact"],
+  bump_table_force_n: [0, 200_000, "N at the damper"],
 } as const satisfies Record<string, readonly [number, number, string]>;
 
 const limit = (k: keyof typeof CAR_LIMITS) => ranged(CAR_LIMITS[k][0], CAR_LIMITS[k][1], CAR_LIMITS[k][2]);
@@ -35,7 +37,7 @@ function ranged(lo: number, hi: number, unit: string) {
 }
 
 const tableRow = z.strictObject(
-  { deflection_mm: ranged(0, 150, "mm from contact"), force_n: ranged(0, 200_000, "N at the damper") },
+  { deflection_mm: limit("bump_table_deflection_mm"), force_n: limit("bump_table_force_n") },
   { error: "must be an object { deflection_mm, force_n }" },
 );
 
@@ -97,6 +99,12 @@ export const carSchema = z.strictObject(
     static_damper_mm: z
       .strictObject({ fl: damperReading, fr: damperReading, rl: damperReading, rr: damperReading }, { error: "must be an object { fl, fr, rl, rr } in mm" })
       .optional(),
+    /**
+     * The Garage's own details (class, tracks, corner weights, ride heights, aero, names, notes): the analysis
+     * does not read them, so a Garage export runs in the CLI as it is; the Garage import checks them
+     * (app/lib/garage/car-json-garage.ts).
+     */
+    garage: z.record(z.string(), z.unknown(), { error: "must be an object (the Garage's own details)" }).optional(),
   },
   { error: "must be a JSON object" },
 );

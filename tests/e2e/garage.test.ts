@@ -97,7 +97,9 @@ describe("Garage in the browser", () => {
     expect(car.mass_kg).toBe(620);
     // NIST SP 811: 600 lbf/in × 0.17512683524648 = 105.0761 N/mm
     expect(car.front.spring_rate_n_per_mm).toBeCloseTo(105.0761, 4);
-    expect(Object.keys(car)).toEqual(["name", "wheelbase_mm", "mass_kg", "static_front_weight_pct", "cog_height_mm", "steering_ratio", "front", "rear"]);
+    expect(Object.keys(car)).toEqual(["name", "wheelbase_mm", "mass_kg", "static_front_weight_pct", "cog_height_mm", "steering_ratio", "front", "rear", "garage"]);
+    // The Garage's own fields travel in the garage block (issue 12 item 4): the setup name and the v2 change note.
+    expect(car.garage).toMatchObject({ setup_name: "Kestrel Bank, imperial sheet", rear_wing_angle_deg: 11, change_note: "More rear wing" });
     expect(pageErrors).toEqual([]);
   });
 });

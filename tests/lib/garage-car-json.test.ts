@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { readdirSync, readFileSync } from "node:fs";
 import { validateCar } from "~/engine/car";
 import { carInputToText, fromCarInput, parseCarInputText, toCarInput } from "~/lib/garage/car-json";
+import { fieldErrors, setupFormSchema } from "~/lib/garage/schemas";
 
 // The CAR.json contract (issue #3, app/engine/types.ts CarInput): exactly these keys, in this order.
 const CAR_FILE = `{
@@ -152,5 +153,52 @@ describe("CAR.json import errors", () => {
     const r = parseCarInputText("name: Marlin");
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.errors[0]).toMatch(/^The file is not valid JSON/);
+  });
+});
+
+describe("bump-stop tables the form keeps are tables the car file takes (issue 12 item 4)", () => {
+  const form = (table: string) => ({
+    units: "metric", name: "Bounds", frontSpringRateNPerMm: "100", rearSpringRateNPerMm: "120", frontMotionRatio: "0.9",
+    rearMotionRatio: "0.8", frontBumpStopKind: "none", rearBumpStopKind: "table", rearBumpStopGapMm: "20", rearBumpStopTable: table,
+  });
+  it.each([
+    ["1 1e300\n2 2e300", /force .* is above 200000 N/],
+    ["1e300 100\n2e300 200", /deflection .* past the 150 mm/],
+    ["1e200 1e200\n2e200 2e200", /deflection .* past the 150 mm/],
+  ])("refuses %j with a message that says which row", (table, message) => {
+    const parsed = setupFormSchema("metric").safeParse(form(table));
+    expect(parsed.success).toBe(false);
+    if (parsed.success) return;
+    expect(fieldErrors(parsed.error).rearBumpStopTable).toMatch(message);
+  });
+  it("a table at the bounds exports to a file the engine's schema (the CLI's) reads back unchanged", () => {
+    // 150 mm and 200 000 N are the engine's own CAR_LIMITS for a table row (app/engine/car.ts).
+    const parsed = setupFormSchema("metric").safeParse(form("10 1000\n150 200000"));
+    expect(parsed.success).toBe(true);
+    if (!parsed.success) return;
+    const text = carInputToText(toCarInput(
+      { name: "Bounds", wheelbaseMm: 2450, massKg: 620, staticFrontWeightPct: 44, cogHeightMm: 400, steeringRatio: 12 },
+      { ...parsed.data, rearBumpStopRateNPerMm: null, frontBumpStopGapMm: null, frontBumpStopRateNPerMm: null, frontBumpStopTable: null } as never,
+    ));
+    expect(() => validateCar(JSON.parse(text))).not.toThrow();
+    const back = parseCarInputText(text);
+    expect(back.ok).toBe(true);
+    if (back.ok) expect(fromCarInput(back.car).setup.rearBumpStopTable).toEqual([{ deflectionMm: 10, forceN: 1000 }, { deflectionMm: 150, forceN: 200000 }]);
+  });
+  it("a garage block with an unknown key or a value outside the form's range is refused, naming the key", () => {
+    const file = { ...JSON.parse(CAR_FILE), garage: { track_front_mm: 99999, paint: "blue", weighed_with_driver: "yes" } };
+    const r = parseCarInputText(JSON.stringify(file));
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.errors.some((e) => e.includes('"paint"'))).toBe(true);
+    expect(r.errors.some((e) => e.startsWith("garage.track_front_mm"))).toBe(true);
+    expect(r.errors.some((e) => e.startsWith("garage.weighed_with_driver must be true or false"))).toBe(true);
+  });
+  it("corner weights that disagree with mass_kg are refused", () => {
+    // 150 × 4 = 600 kg against a stated 621.5 kg: more than max(2 kg, 0.5 %) apart (the Garage form's tolerance).
+    const file = { ...JSON.parse(CAR_FILE), garage: { corner_fl_kg: 150, corner_fr_kg: 150, corner_rl_kg: 150, corner_rr_kg: 150 } };
+    const r = parseCarInputText(JSON.stringify(file));
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.errors.join(" ")).toMatch(/add up to 600 kg but mass_kg is 621.5/);
   });
 });

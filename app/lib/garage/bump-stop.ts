@@ -4,6 +4,7 @@
  * The car file carries a table as it is (the engine interpolates it) and, for tools that read one rate,
  * its least-squares rate through zero.
  */
+import { CAR_LIMITS } from "~/engine/car";
 import { NOT_A_NUMBER, fromStored, parseTypedNumber, toStored, type UnitSystem } from "./units";
 
 export interface BumpStopPoint {
@@ -35,6 +36,12 @@ export function bumpStopTableProblem(points: BumpStopPoint[]): string | undefine
   for (let i = 0; i < points.length; i++) {
     const p = points[i];
     if (p.deflectionMm < 0 || p.forceN < 0) return `Bump-stop table row ${i + 1}: deflection and force cannot be negative.`;
+    // The car file's own bounds (the engine's CAR_LIMITS), so every table the form keeps exports to a file the
+    // import and the CLI read back.
+    const [, maxDeflection] = CAR_LIMITS.bump_table_deflection_mm;
+    const [, maxForce] = CAR_LIMITS.bump_table_force_n;
+    if (p.deflectionMm > maxDeflection) return `Bump-stop table row ${i + 1}: deflection ${p.deflectionMm} mm is past the ${maxDeflection} mm a stop can travel.`;
+    if (p.forceN > maxForce) return `Bump-stop table row ${i + 1}: force ${p.forceN} N is above ${maxForce} N at the damper. Check the units of the rows.`;
     if (i > 0 && p.deflectionMm <= points[i - 1].deflectionMm)
       return `Bump-stop table row ${i + 1}: deflections must increase from row to row.`;
     if (i > 0 && p.forceN < points[i - 1].forceN) return `Bump-stop table row ${i + 1}: force must not fall as the stop compresses.`;

@@ -7,6 +7,10 @@ import { carProblems } from "~/engine/car";
 import type { CarInput } from "~/engine/types";
 import { linearRateFromTable, type BumpStopPoint } from "./bump-stop";
 import type { BumpStopKind } from "./schemas";
+import { fromGarageBlock, garageBlockOf, garageBlockProblems, type GarageCarExtras, type GarageSetupExtras } from "./car-json-garage";
+
+/** A car file as the Garage writes it: the analysis' keys plus the optional `garage` block. */
+export type CarFile = CarInput & { garage?: Record<string, unknown> };
 
 /** The stored car fields export needs. */
 export interface CarForExport {
@@ -19,6 +23,11 @@ export interface CarForExport {
   /** Centre of the fuel tank behind the front axle (mm), when the Garage knows it. */
   fuelTankFromFrontAxleMm?: number | null;
 }
+
+/** A stored car as export reads it: the analysis' fields and, when known, the Garage's own. */
+export type GarageCarForExport = CarForExport & Partial<GarageCarExtras>;
+/** A stored setup version as export reads it. */
+export type GarageSetupForExport = SetupForExport & Partial<GarageSetupExtras>;
 
 type AxlePrefix = "front" | "rear";
 /** The stored setup fields export needs. */
@@ -55,7 +64,15 @@ function axleOut(setup: SetupForExport, axle: AxlePrefix): CarInput["front"] {
   return out;
 }
 
-export function toCarInput(car: CarForExport, setup: SetupForExport): CarInput {
+/** The car file of a car and one setup version; the Garage's own fields go in the `garage` block. */
+export function toCarInput(car: GarageCarForExport, setup: GarageSetupForExport): CarFile {
+  const out: CarFile = analysisPart(car, setup);
+  const garage = garageBlockOf(car, setup);
+  if (garage) out.garage = garage;
+  return out;
+}
+
+function analysisPart(car: CarForExport, setup: SetupForExport): CarInput {
   const out: CarInput = {
     name: car.name,
     wheelbase_mm: car.wheelbaseMm,
@@ -85,7 +102,7 @@ export function carInputToText(input: CarInput): string {
   return JSON.stringify(input, null, 2) + "\n";
 }
 
-export type ImportResult = { ok: true; car: CarInput } | { ok: false; errors: string[] };
+export type ImportResult = { ok: true; car: CarFile } | { ok: false; errors: string[] };
 
 /**
  * Parses a CAR.json text with the engine's own schema (app/engine/car.ts carSchema), so the Garage
@@ -101,11 +118,20 @@ export function parseCarInputText(text: string): ImportResult {
   }
   const result = carProblems(json);
   if (!result.ok) return { ok: false, errors: result.problems.map((p) => `${p}.`) };
-  return { ok: true, car: json as CarInput };
+  const file = json as CarFile;
+  if (file.garage) {
+    const problems = garageBlockProblems(file.garage, file);
+    if (problems.length) return { ok: false, errors: problems.map((p) => (p.endsWith(".") ? p : `${p}.`)) };
+  }
+  return { ok: true, car: file };
 }
 
-/** Stored car and setup values from a car file (a stop with a force_table becomes a table stop). */
-export function fromCarInput(input: CarInput): { car: CarForExport; setup: SetupForExport } {
+/**
+ * Stored car and setup values from a car file (a stop with a force_table becomes a table stop); the
+ * `garage` block's fields are null when the file has none.
+ */
+export function fromCarInput(input: CarFile): { car: CarForExport & GarageCarExtras; setup: SetupForExport & GarageSetupExtras } {
+  const garage = fromGarageBlock(input.garage);
   const axle = (a: CarInput["front"]) => {
     const table = a.bump_stop?.force_table;
     return {
@@ -130,8 +156,10 @@ export function fromCarInput(input: CarInput): { car: CarForExport; setup: Setup
       cogHeightMm: input.cog_height_mm,
       steeringRatio: input.steering_ratio,
       fuelTankFromFrontAxleMm: input.fuel_tank_from_front_axle_mm ?? null,
+      ...garage.car,
     },
     setup: {
+      ...garage.setup,
       frontSpringRateNPerMm: f.spring,
       frontMotionRatio: f.mr,
       frontBumpStopKind: f.kind,

@@ -202,7 +202,7 @@ export function setupFormSchema(system: UnitSystem) {
         const table = s[`${axle}BumpStopTable`];
         if (kind === "table" && table) {
           const rate = linearRateFromTable(table);
-          if (rate < 1 || rate > 20000)
+          if (!(rate >= 1 && rate <= 20000))
             ctx.addIssue({ code: "custom", path: [`${axle}BumpStopTable`], message: `${label} bump-stop table fits a rate of ${rate.toFixed(0)} N/mm at the damper; expected 1–20000 N/mm. Check the units of the rows.` });
         }
         if (kind === "table" && table === null)
