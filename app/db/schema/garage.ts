@@ -2,7 +2,8 @@
  * Garage: cars, setup sheets and their versions. Stored units are the engine's: mm, kg, N/mm (at the
  * damper), L, deg. Motion ratio = damper travel / wheel travel. Bump-stop gap = damper travel from
  * static to contact. A setup row is one version; a version referenced by an analysis session is
- * never changed in place (app/server/garage-setups.server.ts enforces this).
+ * never changed in place (app/server/garage-setups.server.ts enforces this), and a version or car a session used is
+ * archived rather than deleted (app/server/garage-delete.server.ts).
  */
 import { boolean, customType, double, index, int, mysqlTable, text, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { organization, user } from "./auth";
@@ -45,6 +46,8 @@ export const cars = mysqlTable(
     massKg: double("mass_kg").notNull(),
     staticFrontWeightPct: double("static_front_weight_pct").notNull(),
     notes: text("notes"),
+    /** Set when a car that sessions used is deleted: it leaves the Garage lists, and its sessions keep it. */
+    archivedAt: timestamp("archived_at", { fsp: 3 }),
     createdBy: varchar("created_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { fsp: 3 }).notNull().defaultNow(),
@@ -111,6 +114,8 @@ export const setups = mysqlTable(
     aeroNotes: text("aero_notes"),
     notes: text("notes"),
     changeNote: varchar("change_note", { length: 200 }),
+    /** Set when a version that sessions used is deleted: it is archived (kept for them), never removed. */
+    archivedAt: timestamp("archived_at", { fsp: 3 }),
     createdBy: varchar("created_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
     createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
     updatedAt: timestamp("updated_at", { fsp: 3 }).notNull().defaultNow(),
