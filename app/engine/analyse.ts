@@ -17,5 +17,5 @@ export async function analyseLog(
   const { onProgress, ...summaryOptions } = options;
   const builder = createSummaryBuilder(car, summaryOptions);
   const result = await ingestLog(source, map, { onBlock: (b) => builder.push(b), onProgress });
-  return builder.finish({ header: result.header, map, rows: result.rows, bytes: result.bytes, droppedCells: result.droppedCells, badCells: result.badCells });
+  return builder.finish({ header: result.header, map, rows: result.rows, bytes: result.bytes, droppedCells: result.droppedCells, badCells: result.badCells, shortRows: result.shortRows });
 }

@@ -48,7 +48,11 @@ export interface IngestResult {
   badCells: Record<string, number>;
   /** Rows dropped because their time cell was empty or not a number. */
   rowsWithoutTime: number;
+  /** Rows left out for having fewer cells than the header, and the times (file units, NaN without one) of the first of them. */
+  shortRows: ShortRows;
 }
+
+export interface ShortRows { count: number; times: number[] }
 
 /**
  * A plain Uint8Array view (no copy) of a chunk, so the hot loop only ever sees one array type:
@@ -206,6 +210,7 @@ export interface IngestPartOptions {
 export interface PartIngest {
   rows: number;
   rowsWithoutTime: number;
+  shortRows: ShortRows;
   droppedCells: Record<string, number>;
   badCells: Record<string, number>;
   bytes: number;
@@ -233,6 +238,8 @@ function cellCounts(sink: Sink, checked: CheckedMap, empty: ArrayLike<number>, b
 interface Counts {
   rows: number;
   rowsWithoutTime: number;
+  shortRows: number;
+  shortTimes: number;
   empty: Float64Array;
   bad: Float64Array;
 }
@@ -251,7 +258,7 @@ export async function ingestPart(
   const checked = validateChannelMap(map, header);
   const sink = createSink(header, checked, 1, opts);
   const parser = sink.parser;
-  const snap = (): Counts => ({ rows: parser.rowsKept, rowsWithoutTime: parser.rowsWithoutTime, empty: parser.emptyCells.slice(), bad: parser.badCells.slice() });
+  const snap = (): Counts => ({ rows: parser.rowsKept, rowsWithoutTime: parser.rowsWithoutTime, shortRows: parser.shortRows, shortTimes: parser.shortRowTimes.length, empty: parser.emptyCells.slice(), bad: parser.badCells.slice() });
   const boundaries = [opts.ownedFrom, opts.ownedTo];
   const taken: Counts[] = [];
   let pos = opts.startOffset;
@@ -302,6 +309,7 @@ export async function ingestPart(
   return {
     rows: b.rows - a.rows,
     rowsWithoutTime: b.rowsWithoutTime - a.rowsWithoutTime,
+    shortRows: { count: b.shortRows - a.shortRows, times: parser.shortRowTimes.slice(a.shortTimes, b.shortTimes) },
     ...cellCounts(sink, checked, b.empty.map((x, i) => x - a.empty[i]), b.bad.map((x, i) => x - a.bad[i])),
     bytes: Math.min(pos, opts.ownedTo) - opts.ownedFrom,
   };
@@ -355,5 +363,5 @@ export async function ingestLog(
   const parser = sink.parser;
   const rows = parser.rowsKept;
   requireEnoughRows(rows);
-  return { header, rows, bytes, ...cellCounts(sink, checked, parser.emptyCells, parser.badCells), rowsWithoutTime: parser.rowsWithoutTime };
+  return { header, rows, bytes, ...cellCounts(sink, checked, parser.emptyCells, parser.badCells), rowsWithoutTime: parser.rowsWithoutTime, shortRows: { count: parser.shortRows, times: parser.shortRowTimes.slice() } };
 }

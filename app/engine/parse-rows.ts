@@ -31,6 +31,9 @@ export interface RowParserConfig {
 const POW10 = new Float64Array(16);
 for (let i = 0, v = 1; i < 16; i++, v *= 10) POW10[i] = v;
 
+/** Short rows whose time is kept for the warning (a part keeps them all up to this, then the merge takes the first few). */
+export const SHORT_ROW_TIMES = 1000;
+
 const fmt = (v: number) => String(Number(v.toPrecision(12)));
 
 export class RowParser {
@@ -50,6 +53,11 @@ export class RowParser {
   readonly badCells: Float64Array;
   /** Quoted data cells met (a part of a log that starts mid-file cannot tell a quoted line break from a row end). */
   quotedCells = 0;
+  /** Rows with fewer cells than the header (left out), and the time of the first SHORT_ROW_TIMES of them (file units; NaN without one). */
+  shortRows = 0;
+  readonly shortRowTimes: number[] = [];
+  /** File column of the time channel. */
+  private readonly timeColumn: number;
   private lastTime = -Infinity;
   private readonly cellBuf = new Uint8Array(256);
   private readonly cfg: RowParserConfig;
@@ -64,6 +72,12 @@ export class RowParser {
     this.emptyCells = new Float64Array(slots);
     this.badCells = new Float64Array(slots);
     this.line = cfg.firstLine;
+    this.timeColumn = cfg.slotOfColumn.indexOf(cfg.timeSlot);
+  }
+
+  private shortRow(t: number): void {
+    this.shortRows++;
+    if (this.shortRowTimes.length < SHORT_ROW_TIMES) this.shortRowTimes.push(t / this.cfg.factor[this.cfg.timeSlot]);
   }
 
   /**
@@ -158,12 +172,15 @@ export class RowParser {
         p++;
         if (j === columns) break;
       }
-      for (; j < columns; j++) {
-        const slot = slotOfColumn[j];
-        if (slot >= 0) {
-          flat[slot * blockRows + row] = NaN;
-          this.pending(slot, CELL_EMPTY);
-        }
+      if (j < columns) {
+        // Fewer cells than the header: a row cut short, or one that lost a delimiter, whose values may
+        // sit in the wrong columns. Left out whole, counted, and named by its time where it has one.
+        while (buf[p] !== LF) p++;
+        p++;
+        this.pendingN = 0;
+        this.shortRow(j > this.timeColumn ? flat[timeBase + row] : NaN);
+        line++;
+        continue;
       }
       while (buf[p] !== LF) p++;
       p++;

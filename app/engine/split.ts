@@ -205,7 +205,9 @@ export function mergeParts(car: CarInput, map: ChannelMap, options: SummaryOptio
   for (const r of results) for (const [column, n] of Object.entries(r.ingest.badCells)) badCells[column] = (badCells[column] ?? 0) + n;
   const builder = createSummaryBuilder(car, options);
   builder.absorb(results.map((r) => r.summary));
-  return builder.summarise({ header: plan.header, map, rows, bytes: plan.size, droppedCells, badCells });
+  const shortRows = { count: 0, times: [] as number[] };
+  for (const r of results) { shortRows.count += r.ingest.shortRows.count; shortRows.times.push(...r.ingest.shortRows.times); }
+  return builder.summarise({ header: plan.header, map, rows, bytes: plan.size, droppedCells, badCells, shortRows });
 }
 
 /**

@@ -29,6 +29,8 @@ const MIN_BAND_BLOCKS = 5;
 /** Samples (speed changing by ≥ 0.05 g above 30 km/h) before the sign checks against dv/dt speak. */
 const MIN_SIGN_SAMPLES = 200;
 const CONTACT_WARN_PCT = 2;
+/** Short rows named by their time in the warning. */
+const SHORT_ROWS_NAMED = 5;
 
 export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSummary {
   const warnings: SummaryWarning[] = [];
@@ -255,6 +257,12 @@ export function buildSummary(s: SummaryBuilder, ctx: FinishContext): SessionSumm
   const totalDropped = Object.values(dropped).reduce((x, y) => x + y, 0);
   const unreadable = Object.entries(ctx.badCells ?? {}).filter(([, n]) => n > 0);
   if (unreadable.length) warn("unreadable_cells", `cells that hold no readable number (text, or a value past the number range such as 1e309) were left out as dropouts: ${unreadable.map(([col, n]) => `"${col}" ${n}`).join(", ")}`);
+  const short = ctx.shortRows;
+  if (short && short.count > 0) {
+    const unit = ctx.map?.time?.unit ?? "";
+    const named = short.times.slice(0, SHORT_ROWS_NAMED).map((t) => (Number.isFinite(t) ? `${Number(t.toPrecision(12))} ${unit}`.trim() : "a row without a time"));
+    warn("short_rows", `${short.count} row${short.count === 1 ? "" : "s"} with fewer cells than the header ${short.count === 1 ? "was" : "were"} left out (a row cut short, or one that lost a delimiter, would put values in the wrong columns): at time ${named.join(", ")}${short.count > named.length ? ", …" : ""}`);
+  }
   if (s.rows > 0 && totalDropped > 0.01 * s.rows) warn("dropouts", `${totalDropped} empty or unreadable cells in the mapped columns: those samples are left out`);
   const driftChange = (af: AeroFit | null, side: "front" | "rear") => (af && af.with_drift ? r(af[side].drift_n_per_s * duration, 1) : null);
   const traceFit = fit;

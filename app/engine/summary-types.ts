@@ -182,6 +182,8 @@ export interface FinishContext {
   droppedCells?: Record<string, number>;
   /** Per mapped column: cells that hold no readable number (text, or a number past the double range such as 1e309). */
   badCells?: Record<string, number>;
+  /** Rows left out for having fewer cells than the header (ingest.ts ShortRows). */
+  shortRows?: { count: number; times: number[] };
 }
 
 /** Cautions the product shows with any number that can lead to a setup change (common practice). */

@@ -32,6 +32,7 @@ const WORDS: Record<string, WarningWords> = {
   air_density_assumed: { title: "Air density assumed", todo: "Enter the air temperature and pressure for the session; ClA scales with the density used.", weight: "figures" },
   dropouts: { title: "Many empty cells", todo: "Check the logger's channels and wiring; the samples with gaps are left out.", weight: "note" },
   unreadable_cells: { title: "Cells that are not numbers", todo: "Those cells were left out; check the export settings of the logger software.", weight: "note" },
+  short_rows: { title: "Rows with missing cells", todo: "Those rows were left out (their values could not be placed in the right columns); check the export, or whether the file was cut short.", weight: "note" },
 };
 
 export function warningWords(w: SummaryWarning): WarningWords {
