@@ -124,6 +124,30 @@ async function provision() {
   return catcherOk ? db : null;
 }
 
+/**
+ * s3rver (a local S3-compatible fake) for the storage tests, in this process. The tests get its address
+ * as S3_TEST_* (the app itself keeps storing on disk unless S3_BUCKET is set).
+ */
+async function startS3Fake() {
+  await assertPortFree("127.0.0.1", instance.s3Port, "Another npm test may be running its S3 fake; stop it first.");
+  rmSync(instance.s3Dir, { recursive: true, force: true });
+  mkdirSync(instance.s3Dir, { recursive: true });
+  const { default: S3rver } = await import("s3rver");
+  const server = new S3rver({ address: "127.0.0.1", port: instance.s3Port, directory: instance.s3Dir, silent: true, configureBuckets: [{ name: instance.s3Bucket }] });
+  await server.run();
+  return {
+    close: () => server.close(),
+    env: {
+      S3_TEST_ENDPOINT: `http://127.0.0.1:${instance.s3Port}`,
+      S3_TEST_BUCKET: instance.s3Bucket,
+      S3_TEST_REGION: "us-east-1",
+      // s3rver's fixed development credentials.
+      S3_TEST_ACCESS_KEY_ID: "S3RVER",
+      S3_TEST_SECRET_ACCESS_KEY: "S3RVER",
+    },
+  };
+}
+
 async function main() {
   lock = await acquireRunLock("test", path.join("scripts", "test.mjs"));
   const started = Date.now();
@@ -156,7 +180,13 @@ async function main() {
       (await node([reactRouter, "typegen"], baseEnv)) && (await node([tsc], baseEnv)));
   }
   if (!e2eOnly) {
-    await stage("Unit and integration tests (vitest run)", () => node(vitestArgs(vitest, "unit-integration", filters), vitestEnv));
+    const s3Ok = await stage(`S3 fake (s3rver on 127.0.0.1:${instance.s3Port}, emptied)`, async () => {
+      const s3 = await startS3Fake();
+      stack.push("S3 fake (test)", s3.close);
+      Object.assign(vitestEnv, s3.env);
+    });
+    if (s3Ok) await stage("Unit and integration tests (vitest run)", () => node(vitestArgs(vitest, "unit-integration", filters), vitestEnv));
+    else skip("Unit and integration tests", "the S3 fake did not start");
   }
   if (full || e2eOnly) {
     const built = await stage("Build (react-router build)", async () => (await buildApp(repoRoot, baseEnv)) === 0);

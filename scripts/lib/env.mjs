@@ -24,6 +24,7 @@ export const instances = {
     database: "rakeline",
     passwordFile: path.join(dataDir, "db-password"),
     mailDir: path.join(dataDir, "mail"),
+    uploadDir: path.join(dataDir, "uploads"),
     smtpPort: 2525,
     appHost: process.env.HOST || "127.0.0.1",
     appPort: Number(process.env.PORT || 3000),
@@ -35,9 +36,14 @@ export const instances = {
     database: "rakeline_test",
     passwordFile: path.join(dataDir, "test-db-password"),
     mailDir: path.join(dataDir, "test-mail"),
+    uploadDir: path.join(dataDir, "test-uploads"),
     smtpPort: 2526 + testPortOffset,
     appHost: "127.0.0.1",
     appPort: 3100 + testPortOffset,
+    // The S3-compatible fake (s3rver) the storage tests run against; its files in s3Dir, emptied each run.
+    s3Port: 3600 + testPortOffset,
+    s3Dir: path.join(dataDir, "test-s3"),
+    s3Bucket: "rakeline-test",
   },
 };
 
@@ -62,6 +68,8 @@ export function developmentSecret(outside = process.env) {
   if (outside.BETTER_AUTH_SECRET) return outside.BETTER_AUTH_SECRET;
   return readOrCreate(path.join(dataDir, "secret"), () => randomHex(32));
 }
+
+const S3_VARIABLES = ["S3_BUCKET", "S3_ENDPOINT", "S3_REGION", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY", "S3_FORCE_PATH_STYLE"];
 
 function loopbackUrlHost(host) {
   return host === "0.0.0.0" || host === "::" ? "127.0.0.1" : host;
@@ -92,5 +100,8 @@ export function appEnvironment(instance, { databaseUrl }) {
     AUTH_RATE_LIMIT: instance.name === "test" ? "off" : outside.AUTH_RATE_LIMIT || "on",
     HOST: instance.appHost,
     PORT: String(instance.appPort),
+    // Raw log files (app/server/storage.server.ts); S3_* variables from outside switch `npm start` to S3.
+    UPLOAD_DIR: outside.UPLOAD_DIR || instance.uploadDir,
+    ...Object.fromEntries(S3_VARIABLES.filter((name) => outside[name]).map((name) => [name, outside[name]])),
   };
 }

@@ -1,0 +1,246 @@
+/**
+ * Raw log files: the local filesystem under UPLOAD_DIR (default .data/uploads), or any S3-compatible
+ * store when S3_BUCKET is set (with S3_ENDPOINT, S3_REGION, S3_ACCESS_KEY_ID, S3_SECRET_ACCESS_KEY and
+ * S3_FORCE_PATH_STYLE=on for a local fake). Files are streamed, never held in memory, and hashed
+ * (SHA-256) while they stream. A file becomes visible only when complete: on disk it is written under
+ * a temporary name and renamed; in S3 a multipart upload is completed (an aborted one leaves nothing).
+ *
+ *   putStream(source, { keyPrefix, maxBytes, checkHead })  → { storage, key, bytes, sha256 }
+ *   getStream(storage, key)                                → a readable stream of the file
+ *   deleteObject(storage, key)                             → removes it (missing is fine)
+ *   withLocalFile(storage, key, fn)                        → fn(path) on a local copy (S3 is spooled to UPLOAD_DIR)
+ */
+import { createHash, randomUUID } from "node:crypto";
+import { createReadStream, createWriteStream } from "node:fs";
+import { mkdir, rename, rm } from "node:fs/promises";
+import path from "node:path";
+import { PassThrough, Readable, Transform, type TransformCallback } from "node:stream";
+import { pipeline } from "node:stream/promises";
+import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, S3Client } from "@aws-sdk/client-s3";
+import { Upload } from "@aws-sdk/lib-storage";
+
+export type StorageKind = "fs" | "s3";
+export type StoredObject = { storage: StorageKind; key: string; bytes: number; sha256: string };
+
+export type StorageConfig =
+  | { kind: "fs"; dir: string }
+  | { kind: "s3"; bucket: string; endpoint?: string; region: string; accessKeyId?: string; secretAccessKey?: string; forcePathStyle: boolean; spoolDir: string };
+
+/** Refusals while a file streams in; the upload route turns them into 413 / 415. */
+export class StorageLimitError extends Error {
+  constructor(
+    readonly status: 413 | 415,
+    message: string,
+  ) {
+    super(message);
+    this.name = "StorageLimitError";
+  }
+}
+
+export function storageConfigFrom(source: Record<string, string | undefined>): StorageConfig {
+  const dir = path.resolve(source.UPLOAD_DIR || ".data/uploads");
+  if (!source.S3_BUCKET) return { kind: "fs", dir };
+  return {
+    kind: "s3",
+    bucket: source.S3_BUCKET,
+    endpoint: source.S3_ENDPOINT || undefined,
+    region: source.S3_REGION || "us-east-1",
+    accessKeyId: source.S3_ACCESS_KEY_ID || undefined,
+    secretAccessKey: source.S3_SECRET_ACCESS_KEY || undefined,
+    forcePathStyle: ["on", "true", "1"].includes((source.S3_FORCE_PATH_STYLE ?? "").toLowerCase()),
+    spoolDir: dir,
+  };
+}
+
+const clients = new Map<string, S3Client>();
+function s3Client(config: Extract<StorageConfig, { kind: "s3" }>): S3Client {
+  const id = JSON.stringify([config.endpoint, config.region, config.accessKeyId, config.forcePathStyle]);
+  let client = clients.get(id);
+  if (!client) {
+    client = new S3Client({
+      region: config.region,
+      endpoint: config.endpoint,
+      forcePathStyle: config.forcePathStyle,
+      credentials: config.accessKeyId && config.secretAccessKey ? { accessKeyId: config.accessKeyId, secretAccessKey: config.secretAccessKey } : undefined,
+    });
+    clients.set(id, client);
+  }
+  return client;
+}
+
+/** Keys are ours (a prefix of ids and a random name): never a user's file name. */
+const KEY = /^[A-Za-z0-9][A-Za-z0-9/_-]{0,250}$/;
+function checkKey(key: string): string {
+  if (!KEY.test(key) || key.includes("..") || key.includes("//")) throw new Error(`storage: bad object key "${key}"`);
+  return key;
+}
+
+export type PutOptions = {
+  /** e.g. "teams/<teamId>"; the object's name is a random id under it. */
+  keyPrefix: string;
+  /** Bytes allowed; one more and the store is abandoned with a 413 refusal. */
+  maxBytes?: number;
+  /** Looks at the first bytes (up to 64 KiB, or all of a smaller file); a returned message refuses the file (415). */
+  checkHead?: (head: Buffer) => string | null;
+};
+
+const HEAD_BYTES = 64 * 1024;
+
+/** Counts, hashes, caps and checks the head of the bytes passing through. */
+class Guard extends Transform {
+  bytes = 0;
+  private readonly hash = createHash("sha256");
+  private head: Buffer[] = [];
+  private headBytes = 0;
+  private checked = false;
+  constructor(private readonly options: PutOptions) {
+    super();
+  }
+  digest(): string {
+    return this.hash.digest("hex");
+  }
+  private check(): Error | null {
+    this.checked = true;
+    const problem = this.options.checkHead?.(Buffer.concat(this.head));
+    this.head = [];
+    return problem ? new StorageLimitError(415, problem) : null;
+  }
+  override _transform(chunk: Buffer, _enc: BufferEncoding, done: TransformCallback): void {
+    this.bytes += chunk.length;
+    if (this.options.maxBytes !== undefined && this.bytes > this.options.maxBytes) {
+      done(new StorageLimitError(413, `The file is larger than the limit of ${formatBytes(this.options.maxBytes)}.`));
+      return;
+    }
+    if (!this.checked) {
+      this.head.push(chunk);
+      this.headBytes += chunk.length;
+      if (this.headBytes >= HEAD_BYTES) {
+        const refused = this.check();
+        if (refused) return done(refused);
+      }
+    }
+    this.hash.update(chunk);
+    done(null, chunk);
+  }
+  override _flush(done: TransformCallback): void {
+    done(this.checked ? null : this.check());
+  }
+}
+
+export function formatBytes(bytes: number): string {
+  if (bytes >= 1024 ** 3) return `${+(bytes / 1024 ** 3).toFixed(2)} GiB`;
+  if (bytes >= 1024 ** 2) return `${+(bytes / 1024 ** 2).toFixed(1)} MiB`;
+  return `${Math.ceil(bytes / 1024)} KiB`;
+}
+
+function toReadable(source: Readable | AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>): Readable {
+  if (source instanceof Readable) return source;
+  if (typeof (source as ReadableStream).getReader === "function") return Readable.fromWeb(source as import("node:stream/web").ReadableStream<Uint8Array>);
+  return Readable.from(source as AsyncIterable<Uint8Array>);
+}
+
+export function createStorage(config: StorageConfig) {
+  async function putStream(source: Readable | AsyncIterable<Uint8Array> | ReadableStream<Uint8Array>, options: PutOptions): Promise<StoredObject> {
+    const key = checkKey(`${options.keyPrefix.replace(/\/+$/, "")}/${randomUUID()}`);
+    const guard = new Guard(options);
+    const input = toReadable(source);
+    if (config.kind === "fs") {
+      const final = path.join(config.dir, key);
+      const tmpDir = path.join(config.dir, ".partial");
+      const tmp = path.join(tmpDir, `${randomUUID()}.part`);
+      await mkdir(tmpDir, { recursive: true });
+      try {
+        await pipeline(input, guard, createWriteStream(tmp, { flags: "wx" }));
+        await mkdir(path.dirname(final), { recursive: true });
+        await rename(tmp, final);
+      } catch (error) {
+        await rm(tmp, { force: true });
+        throw error;
+      }
+      return { storage: "fs", key, bytes: guard.bytes, sha256: guard.digest() };
+    }
+    const body = new PassThrough();
+    const upload = new Upload({
+      client: s3Client(config),
+      params: { Bucket: config.bucket, Key: key, Body: body, ContentType: "text/plain" },
+      queueSize: 2,
+      partSize: 8 * 1024 * 1024,
+      leavePartsOnError: false,
+    });
+    const feeding = pipeline(input, guard, body);
+    const [fed, stored] = await Promise.allSettled([feeding, upload.done().finally(() => body.destroy())]);
+    if (fed.status === "rejected" || stored.status === "rejected") {
+      await upload.abort().catch(() => undefined);
+      // A small file may have been stored in one PUT before the source failed: remove it.
+      await deleteObject("s3", key).catch(() => undefined);
+      // The source's problem (cut off, too large, refused) says more than the store's reaction to it.
+      throw fed.status === "rejected" ? fed.reason : (stored as PromiseRejectedResult).reason;
+    }
+    return { storage: "s3", key, bytes: guard.bytes, sha256: guard.digest() };
+  }
+
+  async function getStream(storage: StorageKind, key: string): Promise<Readable> {
+    checkKey(key);
+    if (storage !== config.kind) throw new Error(`storage: this process stores raw files in ${config.kind}, not ${storage}`);
+    if (config.kind === "fs") {
+      const stream = createReadStream(path.join(config.dir, key), { highWaterMark: 1 << 20 });
+      // Fail here (not on the first read) when the file is missing.
+      await new Promise<void>((resolve, reject) => {
+        stream.once("open", () => resolve());
+        stream.once("error", reject);
+      });
+      return stream;
+    }
+    const answer = await s3Client(config).send(new GetObjectCommand({ Bucket: config.bucket, Key: key }));
+    return answer.Body as Readable;
+  }
+
+  async function deleteObject(storage: StorageKind, key: string): Promise<void> {
+    checkKey(key);
+    if (storage !== config.kind) throw new Error(`storage: this process stores raw files in ${config.kind}, not ${storage}`);
+    if (config.kind === "fs") {
+      await rm(path.join(config.dir, key), { force: true });
+      return;
+    }
+    await s3Client(config).send(new DeleteObjectCommand({ Bucket: config.bucket, Key: key }));
+  }
+
+  /** Runs fn with a path on local disk (the engine's threads read files at offsets); S3 objects are copied to the spool first. */
+  async function withLocalFile<T>(storage: StorageKind, key: string, fn: (filePath: string) => Promise<T>): Promise<T> {
+    checkKey(key);
+    if (config.kind === "fs" && storage === "fs") return fn(path.join(config.dir, key));
+    const spoolDir = path.join(config.kind === "s3" ? config.spoolDir : config.dir, ".spool");
+    await mkdir(spoolDir, { recursive: true });
+    const local = path.join(spoolDir, `${randomUUID()}.csv`);
+    try {
+      await pipeline(await getStream(storage, key), createWriteStream(local, { flags: "wx" }));
+      return await fn(local);
+    } finally {
+      await rm(local, { force: true });
+    }
+  }
+
+  /** For /readyz: the bucket answers (S3), or the folder can be made (fs). */
+  async function ready(): Promise<void> {
+    if (config.kind === "fs") {
+      await mkdir(config.dir, { recursive: true });
+      return;
+    }
+    await s3Client(config).send(new HeadBucketCommand({ Bucket: config.bucket }));
+  }
+
+  return { kind: config.kind, config, putStream, getStream, deleteObject, withLocalFile, ready };
+}
+
+export type Storage = ReturnType<typeof createStorage>;
+
+const globalForStorage = globalThis as unknown as { __rakelineStorage?: Storage };
+/** This process's store, from its environment. */
+export function storage(): Storage {
+  return (globalForStorage.__rakelineStorage ??= createStorage(storageConfigFrom(process.env)));
+}
+
+export const putStream: Storage["putStream"] = (...a) => storage().putStream(...a);
+export const getStream: Storage["getStream"] = (...a) => storage().getStream(...a);
+export const deleteObject: Storage["deleteObject"] = (...a) => storage().deleteObject(...a);
+export const withLocalFile: Storage["withLocalFile"] = (...a) => storage().withLocalFile(...a);
