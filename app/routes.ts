@@ -34,6 +34,9 @@ export default [
       route(":carId/setups/:setupId/edit", "routes/garage/setup-edit.tsx"),
       route(":carId/setups/:setupId/diff", "routes/garage/setup-diff.tsx"),
     ]),
+
+    // Balance report (one session).
+    route("sessions/:sessionId", "routes/sessions/session.tsx"),
   ]),
 
   // Development only (404 when NODE_ENV=production).

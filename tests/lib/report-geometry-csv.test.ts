@@ -76,3 +76,21 @@ describe("CSV", () => {
     expect(csvFileName("///")).toBe("rakeline.csv");
   });
 });
+
+describe("warnings in plain words", () => {
+  it("drops the command-line hints from the engine's messages and groups repeated codes", async () => {
+    const { groupWarnings, withoutCliHints } = await import("~/lib/report/warnings");
+    expect(withoutCliHints("air density 1.2250 kg/m³ uses ISA sea level (15 °C, 1013.25 hPa); give --air-temp-c and --air-pressure-hpa for the session's weather")).toBe(
+      "air density 1.2250 kg/m³ uses ISA sea level (15 °C, 1013.25 hPa)",
+    );
+    expect(withoutCliHints("fuel not given; give the fuel (--fuel-start-kg, --fuel-end-kg) for firmer band balances")).toBe("fuel not given");
+    const groups = groupWarnings([
+      { code: "static_load_drift", message: "front changed" },
+      { code: "air_density_assumed", message: "ISA" },
+      { code: "static_load_drift", message: "rear changed" },
+      { code: "something_new", message: "new" },
+    ]);
+    expect(groups.map((g) => [g.code, g.messages.length])).toEqual([["air_density_assumed", 1], ["static_load_drift", 2], ["something_new", 1]]);
+    expect(groups[2].words.title).toBe("Note from the analysis");
+  });
+});

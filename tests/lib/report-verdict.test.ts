@@ -110,6 +110,11 @@ describe("advice", () => {
     const s = summary([band(80, 120, 38, [37.8, 38.2], 0.8, [0.5, 1.1]), band(160, 200, 38, [37.8, 38.2], 0.9, [0.6, 1.2])], null);
     expect(adviceFor(s)).toEqual([]);
   });
+  it("stays quiet about a clear but tiny gradient change (under our 0.1 deg/g threshold)", () => {
+    const s = summary([band(80, 120, 38, [37.8, 38.2], 0.82, [0.818, 0.822]), band(160, 200, 38, [37.8, 38.2], 0.78, [0.778, 0.782])], null);
+    expect(understeerChangeWithSpeed(s.bands)!.ci95[1]).toBeLessThan(0);
+    expect(adviceFor(s)).toEqual([]);
+  });
   it("warns when the fastest band's CoP is wholly ahead of the CoG", () => {
     const s = summary([band(80, 120, 41, [40.8, 41.2]), band(160, 200, 42, [41.8, 42.2])], null);
     expect(adviceFor(s).map((a) => a.problem)).toEqual(["cop_ahead_of_cog"]);

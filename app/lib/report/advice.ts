@@ -3,7 +3,8 @@
  * (common practice in race-car aero set-up), always shown beside the cautions. A problem is only
  * named when the intervals say so: the high band's understeer gradient must differ clearly from the
  * low band's (95 % intervals combined in quadrature, as compareSessions does), or the high-speed
- * CoP must lie wholly ahead of the CoG.
+ * CoP must lie wholly ahead of the CoG; and the gradient change must be at least
+ * MIN_GRADIENT_CHANGE_DEG_PER_G.
  */
 import type { BandSummary, SessionSummary } from "~/engine/summary-types";
 import { copPlacement, sideOfZero } from "./verdict";
@@ -29,6 +30,13 @@ export const ADVICE_CAUTIONS = [
 
 const half = (ci: [number, number]) => (ci[1] - ci[0]) / 2;
 
+/**
+ * The smallest change of understeer gradient with speed worth a setup change (deg/g). Our own
+ * threshold, not a published one: a stint's intervals can be narrow enough to call a few
+ * hundredths of a degree per g "clear", which no driver feels.
+ */
+export const MIN_GRADIENT_CHANGE_DEG_PER_G = 0.1;
+
 /** The gradient change from the lowest to the highest band that has one, with its 95 % interval. */
 export function understeerChangeWithSpeed(bands: BandSummary[]) {
   const withK = bands.filter((b) => b.understeer_gradient_deg_per_g !== null && b.understeer_ci95_deg_per_g !== null);
@@ -50,8 +58,9 @@ export function adviceFor(s: Pick<SessionSummary, "bands" | "car" | "cop">): Adv
   if (k) {
     const side = sideOfZero(k.ci95);
     const words = `understeer gradient ${k.low.understeer_gradient_deg_per_g!.toFixed(2)} deg/g at ${band(k.low)}, ${k.high.understeer_gradient_deg_per_g!.toFixed(2)} deg/g at ${band(k.high)}`;
-    if (side === "above") out.push({ problem: "high_speed_understeer", evidence: `The car understeers more at high speed: ${words}.`, direction: `High-speed understeer: ${FORWARD}.`, source: "common practice" });
-    if (side === "below") out.push({ problem: "high_speed_oversteer", evidence: `The car understeers less (towards oversteer) at high speed: ${words}.`, direction: `High-speed oversteer: ${REARWARD}.`, source: "common practice" });
+    const large = Math.abs(k.change) >= MIN_GRADIENT_CHANGE_DEG_PER_G;
+    if (side === "above" && large) out.push({ problem: "high_speed_understeer", evidence: `The car understeers more at high speed: ${words}.`, direction: `High-speed understeer: ${FORWARD}.`, source: "common practice" });
+    if (side === "below" && large) out.push({ problem: "high_speed_oversteer", evidence: `The car understeers less (towards oversteer) at high speed: ${words}.`, direction: `High-speed oversteer: ${REARWARD}.`, source: "common practice" });
   }
   const fast = [...s.bands].reverse().find((b) => b.balance_front_pct !== null);
   if (fast) {

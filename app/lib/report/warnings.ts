@@ -51,3 +51,27 @@ const FLAGS: Record<string, string> = {
 export function flagWords(flag: string): string {
   return FLAGS[flag] ?? flag.replaceAll("_", " ");
 }
+
+/**
+ * The engine's message without its command-line hints ("give --air-temp-c …"): on a page the
+ * plain-words line says where to enter the value instead.
+ */
+export function withoutCliHints(message: string): string {
+  return message
+    .split(/;\s+/)
+    .filter((part) => !/(^|\s)--[a-z]/.test(part))
+    .join("; ")
+    .replace(/\s*\((?:[^()]*\s)?--[a-z][^()]*\)/g, "")
+    .trim();
+}
+
+/** Warnings of the same code become one item holding each message. */
+export function groupWarnings(warnings: SummaryWarning[]): { code: string; words: WarningWords; messages: string[] }[] {
+  const groups = new Map<string, { code: string; words: WarningWords; messages: string[] }>();
+  for (const w of warnings) {
+    const g = groups.get(w.code) ?? { code: w.code, words: warningWords(w), messages: [] };
+    g.messages.push(withoutCliHints(w.message));
+    groups.set(w.code, g);
+  }
+  return [...groups.values()].sort((x, y) => (x.words.weight === y.words.weight ? 0 : x.words.weight === "figures" ? -1 : 1));
+}

@@ -1,0 +1,63 @@
+// The Balance report in Chromium, at desk and phone width: the headline figures carry the summary of
+// record's values (data-figure contract), the verdict and the side view are drawn.
+import { mkdirSync } from "node:fs";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO_PASSWORD, seedUsers } from "~/server/seed/users.server";
+import { seedGarage } from "~/server/seed/garage.server";
+import { baseURL, openBrowser, type OpenBrowser } from "./helpers/browser";
+import { demoMarlin, storeDemoSession } from "../server/report-support";
+
+const SHOTS = ".data/screenshots";
+
+describe("Balance report in the browser", () => {
+  let browser: OpenBrowser;
+  const pageErrors: string[] = [];
+  let sessionId: string;
+  let summary: Awaited<ReturnType<typeof storeDemoSession>>["summary"];
+
+  beforeAll(async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    await seedUsers();
+    await seedGarage();
+    const m = await demoMarlin();
+    ({ id: sessionId, summary } = await storeDemoSession("marlin-comma", { teamId: m.team.id, carId: m.car.id, setupId: m.setupIds[0], name: "Kestrel Bank FP1" }));
+    browser = await openBrowser();
+    browser.page.on("pageerror", (e) => pageErrors.push(e.message));
+    const signIn = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "analyst@harrowgate.example", password: DEMO_PASSWORD } });
+    expect(signIn.status()).toBe(200);
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it("shows the headline figures of the summary of record, the verdict and the side view", async () => {
+    const page = browser.page;
+    await page.goto(`/t/harrowgate/sessions/${sessionId}`, { waitUntil: "networkidle" });
+    const value = async (figure: string) => Number(await page.locator(`[data-figure="${figure}"]`).getAttribute("data-value"));
+    expect(await value("cla_total_m2")).toBe(summary.aero.cla_total_m2);
+    expect(await value("cla_front_m2")).toBe(summary.aero.cla_front_m2);
+    expect(await value("cla_rear_m2")).toBe(summary.aero.cla_rear_m2);
+    expect(await value("balance_front_pct")).toBe(summary.aero.balance_front_pct);
+    expect(await page.getByTestId("session-state").first().getAttribute("data-state")).toBe("checked");
+    expect(await page.getByTestId("verdict").innerText()).toMatch(/balance|Balance/);
+    expect(await page.locator('[data-chart="side-view"] [data-symbol="cop"]').count()).toBeGreaterThan(1);
+    await page.screenshot({ path: `${SHOTS}/report-1280.png`, fullPage: true });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.screenshot({ path: `${SHOTS}/report-390-top.png` });
+    await page.screenshot({ path: `${SHOTS}/report-390.png`, fullPage: true });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    expect(pageErrors).toEqual([]);
+  });
+
+  it("prints on one A4 page", async () => {
+    const page = browser.page;
+    await page.goto(`/t/harrowgate/sessions/${sessionId}`, { waitUntil: "networkidle" });
+    await page.emulateMedia({ media: "print" });
+    const pdf = await page.pdf({ format: "A4", printBackground: true, preferCSSPageSize: true, path: `${SHOTS}/report-print.pdf` });
+    await page.emulateMedia({ media: "screen" });
+    // Each page of a PDF is one "/Type /Page" object (ISO 32000-1 §7.7.3.3); "/Type /Pages" is the tree.
+    const pages = pdf.toString("latin1").match(/\/Type\s*\/Page(?!s)/g) ?? [];
+    expect(pages.length).toBe(1);
+  });
+});
