@@ -35,6 +35,8 @@ export default [
       route(":carId/setups/:setupId/diff", "routes/garage/setup-diff.tsx"),
     ]),
 
+    // Drop a log: read in the browser's engine worker, uploaded, stored as a session.
+    route("sessions/new", "routes/sessions/new.tsx"),
     // Balance report (one session).
     route("sessions/:sessionId", "routes/sessions/session.tsx"),
   ]),

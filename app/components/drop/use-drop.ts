@@ -1,0 +1,195 @@
+/**
+ * The Drop a log page's files: Uppy takes the drop and uploads each raw file (@uppy/xhr-upload to
+ * the team's upload route) while an engine worker per file reads its header, previews and checks,
+ * and later the whole file. Everything a file goes through is kept in one DropItem.
+ */
+import Uppy, { type UppyFile } from "@uppy/core";
+import XHRUpload from "@uppy/xhr-upload";
+import { useCallback, useEffect, useRef, useState } from "react";
+import type { SignCheck } from "~/engine/sign-check";
+import type { ChannelMap } from "~/engine/types";
+import { headerSignature } from "~/lib/sessions/logger-profile";
+import { progressProxy, startEngine, type EngineHandle, type ReadProgress } from "./engine-client";
+import type { DraftMap, DropItem, LoggerProfile, UploadAnswer } from "./types";
+
+/** What the upload route takes (it checks the content too); the size cap is the route's own default. */
+export const ACCEPTED_TYPES = [".csv", ".tsv", ".txt"];
+export const MAX_UPLOAD_BYTES = 2 * 1024 ** 3;
+
+type Meta = Record<string, unknown>;
+type Body = Record<string, never>;
+
+/** The `{"error"}` of an answer, or a sentence for the status when there is none. */
+export function answerError(status: number, text: string): string {
+  try {
+    const body = JSON.parse(text) as { error?: unknown };
+    if (typeof body.error === "string" && body.error) return body.error;
+  } catch {
+    // not JSON: fall through to the status
+  }
+  if (status === 0) return "The connection to the server was lost. Check the network and retry.";
+  if (status === 503) return "The server cannot reach its database just now. Nothing was lost: retry in a moment.";
+  if (status === 413) return "The file is larger than this server takes.";
+  return `The server answered ${status}.`;
+}
+
+function newItem(file: UppyFile<Meta, Body>): DropItem {
+  return {
+    id: file.id,
+    name: file.name ?? "log",
+    bytes: file.size ?? 0,
+    step: "map",
+    map: {},
+    mapSource: "",
+    profiles: [],
+    profileName: "",
+    checks: { state: "idle", signs: [], units: [] },
+    upload: { state: "queued", sent: 0, startedAt: null },
+    read: { state: "idle" },
+    store: { state: "idle" },
+  };
+}
+
+export function useDrop(teamSlug: string) {
+  const [uppy, setUppy] = useState<Uppy<Meta, Body> | null>(null);
+  const [items, setItems] = useState<DropItem[]>([]);
+  const [notice, setNotice] = useState<string | null>(null);
+  const engines = useRef(new Map<string, EngineHandle>());
+  const files = useRef(new Map<string, File>());
+
+  const update = useCallback((id: string, change: (item: DropItem) => Partial<DropItem>) => {
+    setItems((all) => all.map((it) => (it.id === id ? { ...it, ...change(it) } : it)));
+  }, []);
+
+  const engineOf = useCallback((id: string): EngineHandle => {
+    let e = engines.current.get(id);
+    if (!e) {
+      e = startEngine();
+      engines.current.set(id, e);
+    }
+    return e;
+  }, []);
+
+  const inspect = useCallback(async (id: string, file: File) => {
+    const res = await engineOf(id).api.inspect(file);
+    if (!res.ok) {
+      update(id, () => ({ inspectError: res.message }));
+      return;
+    }
+    const inspection = res.value;
+    let profiles: LoggerProfile[] = [];
+    try {
+      const signature = headerSignature(inspection.header.columns);
+      const answer = await fetch(`/api/t/${encodeURIComponent(teamSlug)}/logger-profiles?signature=${signature}`, { headers: { accept: "application/json" } });
+      if (answer.ok) profiles = ((await answer.json()) as { profiles: LoggerProfile[] }).profiles;
+    } catch {
+      // Profiles are a convenience: without them the suggester's map is proposed.
+    }
+    const match = profiles.find((p) => p.matches);
+    update(id, () => ({
+      inspection,
+      profiles,
+      map: (match ? match.map : inspection.suggestion.map) as DraftMap,
+      mapSource: match ? `Logger profile "${match.name}", saved for this header` : "proposed from the column names",
+    }));
+  }, [engineOf, teamSlug, update]);
+
+  useEffect(() => {
+    const u = new Uppy<Meta, Body>({
+      autoProceed: true,
+      restrictions: { allowedFileTypes: ACCEPTED_TYPES, maxFileSize: MAX_UPLOAD_BYTES },
+    }).use(XHRUpload, {
+      endpoint: `/api/t/${encodeURIComponent(teamSlug)}/uploads`,
+      fieldName: "file",
+      formData: true,
+      allowedMetaFields: false,
+      limit: 2,
+      // A refused file (too large, wrong type) is refused again; a retry is the engineer's call.
+      shouldRetry: () => false,
+      timeout: 120_000,
+    });
+    u.on("file-added", (file) => {
+      const data = file.data as File;
+      files.current.set(file.id, data);
+      setItems((all) => [...all, newItem(file)]);
+      void inspect(file.id, data).catch((e: unknown) => update(file.id, () => ({ inspectError: String(e) })));
+    });
+    u.on("upload-progress", (file, p) => {
+      if (!file) return;
+      update(file.id, (it) => ({ upload: { ...it.upload, state: "uploading", sent: p.bytesUploaded ?? 0, startedAt: it.upload.startedAt ?? (p.uploadStarted || Date.now()) } }));
+    });
+    u.on("upload-success", (file, response) => {
+      if (!file) return;
+      const answer = response.body as unknown as UploadAnswer;
+      update(file.id, (it) => ({ upload: { ...it.upload, state: "done", sent: it.bytes, answer } }));
+    });
+    u.on("upload-error", (file, error, response) => {
+      if (!file) return;
+      const xhr = response as unknown as XMLHttpRequest | undefined;
+      const message = xhr && typeof xhr.status === "number" ? answerError(xhr.status, xhr.responseText ?? "") : error.message;
+      update(file.id, (it) => ({ upload: { ...it.upload, state: "failed", error: message } }));
+    });
+    u.on("restriction-failed", (file, error) => {
+      setNotice(`${file?.name ?? "That file"}: ${error.message}. Drop a CSV, TSV or TXT export of up to 2 GB.`);
+    });
+    setUppy(u);
+    const running = engines.current;
+    return () => {
+      for (const e of running.values()) e.end();
+      running.clear();
+      u.destroy();
+    };
+  }, [teamSlug, inspect, update]);
+
+  /** Stops the upload and any read, and forgets the file. */
+  const cancel = useCallback((id: string) => {
+    engines.current.get(id)?.end();
+    engines.current.delete(id);
+    files.current.delete(id);
+    if (uppy?.getFile(id)) uppy.removeFile(id);
+    setItems((all) => all.filter((it) => it.id !== id));
+  }, [uppy]);
+
+  const retryUpload = useCallback((id: string) => {
+    update(id, (it) => ({ upload: { ...it.upload, state: "queued", error: undefined, sent: 0, startedAt: null } }));
+    void uppy?.retryUpload(id);
+  }, [uppy, update]);
+
+  /** Sign and unit checks of the map as it stands (complete maps only). */
+  const runChecks = useCallback(async (id: string, map: ChannelMap) => {
+    const file = files.current.get(id);
+    if (!file) return;
+    update(id, (it) => ({ checks: { ...it.checks, state: "running" } }));
+    const api = engineOf(id).api;
+    const [signs, units] = await Promise.all([api.checkSigns(file, map), api.checkUnits(file, map)]);
+    const failed = !signs.ok ? signs : !units.ok ? units : null;
+    update(id, () => ({
+      checks: failed && !failed.ok
+        ? { state: "failed", signs: [], units: [], error: failed.message }
+        : { state: "done", signs: (signs as { value: SignCheck[] }).value, units: (units as { value: SignCheck[] }).value },
+    }));
+  }, [engineOf, update]);
+
+  /** Reads the whole file in the worker; resolves with the summary or null (failed or cancelled). */
+  const readWhole = useCallback(async (id: string, run: (e: EngineHandle, file: File, onProgress: (p: ReadProgress) => void) => Promise<unknown>) => {
+    const file = files.current.get(id);
+    if (!file) return null;
+    update(id, () => ({ read: { state: "reading", progress: { bytes: 0, totalBytes: file.size, rows: 0, elapsedMs: 0 } } }));
+    const progress = progressProxy((p) => update(id, (it) => (it.read.state === "reading" ? { read: { state: "reading", progress: p } } : {})));
+    try {
+      return await run(engineOf(id), file, progress);
+    } catch (e) {
+      // A cancelled read ends its worker: the call then fails here, which is not an error to show.
+      update(id, (it) => (it.read.state === "cancelled" ? {} : { read: { state: "failed", error: e instanceof Error ? e.message : String(e) } }));
+      return null;
+    }
+  }, [engineOf, update]);
+
+  const cancelRead = useCallback((id: string) => {
+    update(id, (it) => ({ read: { ...it.read, state: "cancelled" } }));
+    engines.current.get(id)?.end();
+    engines.current.delete(id);
+  }, [update]);
+
+  return { uppy, items, update, notice, setNotice, cancel, retryUpload, runChecks, readWhole, cancelRead, fileOf: (id: string) => files.current.get(id) };
+}
