@@ -2,7 +2,8 @@
  * Health of one process, for the proxy, the launcher and monitoring (see "Running at scale" in the README):
  * - liveness (`/healthz`): the process runs and its event loop answers; it touches nothing shared, so a
  *   database fail-over never makes every process look dead at once;
- * - readiness (`/readyz`): this process can do its work now: the database answers through its pool.
+ * - readiness (`/readyz`): this process can do its work now: the database answers through its pool and
+ *   the raw-file storage answers (the S3 bucket, or the upload folder on disk).
  * App processes answer both as routes (app/routes/health/); job workers answer the same bodies from a
  * small HTTP listener (`startHealthListener`).
  */
@@ -62,6 +63,22 @@ export function databaseCheck(pool: Pool, timeoutMs = 2000): Check {
       async () => {
         await pool.query("SELECT 1");
         return "the database answers";
+      },
+      timeoutMs,
+    );
+}
+
+/**
+ * The raw-file storage answers: the S3 bucket exists and our credentials reach it (HeadBucket), or the
+ * upload folder can be made. `ready` is the store's own probe (app/server/storage.server.ts).
+ */
+export function storageCheck(store: { kind: string; ready(): Promise<void> }, timeoutMs = 2000): Check {
+  return () =>
+    timedCheck(
+      "storage",
+      async () => {
+        await store.ready();
+        return store.kind === "s3" ? "the S3 bucket answers" : "the upload folder is there";
       },
       timeoutMs,
     );

@@ -2,12 +2,16 @@
 // database answers through the process's pool, and 503 naming the failed check otherwise. The
 // status codes follow the usual liveness/readiness convention (common practice: 200 when
 // healthy, 503 Service Unavailable when not, RFC 9110 §15.6.4).
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { createServer } from "node:net";
+import { tmpdir } from "node:os";
+import path from "node:path";
 import mysql from "mysql2/promise";
 import { afterAll, describe, expect, it } from "vitest";
 import { loader as healthz } from "~/routes/health/healthz";
 import { loader as readyz } from "~/routes/health/readyz";
-import { databaseCheck, readinessResponse, startHealthListener } from "~/server/health.server";
+import { databaseCheck, readinessResponse, startHealthListener, storageCheck } from "~/server/health.server";
+import { createStorage } from "~/server/storage.server";
 
 /** A loopback port with nothing listening on it (taken from the OS, then released). */
 async function closedPort(): Promise<number> {
@@ -33,12 +37,13 @@ describe("app process health routes", () => {
     expect(body.rss_mb).toBeGreaterThan(0);
   });
 
-  it("/readyz is ready when the test database answers", async () => {
+  it("/readyz is ready when the test database and the storage answer", async () => {
     const response = await readyz();
     const body = await response.json();
     expect(response.status).toBe(200);
     expect(body.status).toBe("ready");
     expect(body.checks.database).toMatchObject({ ok: true, detail: "the database answers" });
+    expect(body.checks.storage.ok).toBe(true);
   });
 
   it("readiness is 503 and names the database when nothing answers on its port", async () => {
@@ -52,6 +57,43 @@ describe("app process health routes", () => {
     expect(body.checks.database.ok).toBe(false);
     expect(body.checks.database.detail).toMatch(/^database: /);
     expect(body.checks.database.detail).toMatch(/ECONNREFUSED|did not answer/);
+  });
+});
+
+describe("storage readiness", () => {
+  const scratch = mkdtempSync(path.join(tmpdir(), "rakeline-health-"));
+  afterAll(() => rmSync(scratch, { recursive: true, force: true }));
+
+  it("is ready when the upload folder can be made, and names the storage when it cannot", async () => {
+    const ok = await storageCheck(createStorage({ kind: "fs", dir: path.join(scratch, "uploads") }))();
+    expect(ok).toMatchObject({ ok: true, detail: "the upload folder is there" });
+    // A plain file where the folder should be: mkdir fails with ENOTDIR/EEXIST.
+    const blocker = path.join(scratch, "a-file");
+    writeFileSync(blocker, "x");
+    const response = await readinessResponse("app", { storage: storageCheck(createStorage({ kind: "fs", dir: path.join(blocker, "uploads") })) });
+    expect(response.status).toBe(503);
+    const body = await response.json();
+    expect(body.checks.storage.ok).toBe(false);
+    expect(body.checks.storage.detail).toMatch(/^storage: .*(ENOTDIR|EEXIST)/);
+  });
+
+  it("checks the S3 bucket: ready on the fake's bucket, 503 naming the storage for a bucket that does not exist", async (context) => {
+    if (!process.env.S3_TEST_ENDPOINT) return context.skip();
+    const s3 = (bucket: string) =>
+      createStorage({
+        kind: "s3",
+        bucket,
+        endpoint: process.env.S3_TEST_ENDPOINT,
+        region: process.env.S3_TEST_REGION ?? "us-east-1",
+        accessKeyId: process.env.S3_TEST_ACCESS_KEY_ID,
+        secretAccessKey: process.env.S3_TEST_SECRET_ACCESS_KEY,
+        forcePathStyle: true,
+        spoolDir: scratch,
+      });
+    expect(await storageCheck(s3(process.env.S3_TEST_BUCKET!))()).toMatchObject({ ok: true, detail: "the S3 bucket answers" });
+    const missing = await storageCheck(s3("no-such-bucket-here"))();
+    expect(missing.ok).toBe(false);
+    expect(missing.detail).toMatch(/^storage: /);
   });
 });
 
