@@ -57,6 +57,11 @@ export default [
   route("api/tokens", "routes/api/tokens.ts"),
   route("api/tokens/:id", "routes/api/token.ts"),
 
+  // Data API of the Balance report and Compare (token or cookie; see /api/openapi.json).
+  route("api/sessions/:sessionId", "routes/api/session-summary.ts"),
+  route("api/sessions/:sessionId/bands.csv", "routes/api/session-bands-csv.ts"),
+  route("api/sessions/:sessionId/traces", "routes/api/session-traces.ts"),
+
   // Anything else: JSON under /api/, the not-found page elsewhere.
   route("api/*", "routes/api/not-found.ts"),
   route("*", "routes/home/not-found.tsx"),

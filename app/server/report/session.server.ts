@@ -126,6 +126,24 @@ function baseQuery() {
 
 const NOT_FOUND = "No such session in this team.";
 
+/** Pages get React Router's data() (their error boundary); API routes a JSON body. */
+function notFound(api: boolean | undefined): never {
+  if (api) throw Response.json({ error: NOT_FOUND }, { status: 404 });
+  throw data(NOT_FOUND, { status: 404 });
+}
+
+/** The session's last change (for ETags), or a thrown 404. */
+export async function sessionVersion(teamId: string, sessionId: string, api = true) {
+  const rows = await db
+    .select({ updatedAt: analysisSessions.updatedAt, checkedAt: analysisSessions.checkedAt, status: analysisSessions.status })
+    .from(analysisSessions)
+    .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, sessionId)))
+    .limit(1);
+  if (!rows[0]) notFound(api);
+  const r = rows[0];
+  return `${r.updatedAt.getTime()}:${r.checkedAt?.getTime() ?? ""}:${r.status}`;
+}
+
 /** A summary of record is present once the engine has read the log; until then the page says so. */
 export function summaryOf(value: unknown): SessionSummary | null {
   if (!value || typeof value !== "object") return null;
@@ -134,12 +152,12 @@ export function summaryOf(value: unknown): SessionSummary | null {
 }
 
 /** The session's details and summary of record (no traces). Throws 404 for an unknown or other team's id. */
-export async function getSessionReport(teamId: string, sessionId: string) {
+export async function getSessionReport(teamId: string, sessionId: string, opts: { api?: boolean } = {}) {
   const rows = await baseQuery()
     .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, sessionId)))
     .limit(1);
   const row = rows[0];
-  if (!row) throw data(NOT_FOUND, { status: 404 });
+  if (!row) notFound(opts.api);
   const { summary, ...head } = row;
   return { head: headOf(head as HeadRow), summary: summaryOf(summary) };
 }
@@ -158,12 +176,36 @@ export async function getSessionReports(teamId: string, sessionIds: string[]) {
 }
 
 /** The decimated traces of a session's summary of record, or null. Throws 404 like getSessionReport. */
-export async function getSessionTraces(teamId: string, sessionId: string) {
+export async function getSessionTraces(teamId: string, sessionId: string, opts: { api?: boolean } = {}) {
   const rows = await db
     .select({ traces: analysisSessions.traces, updatedAt: analysisSessions.updatedAt })
     .from(analysisSessions)
     .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, sessionId)))
     .limit(1);
-  if (!rows[0]) throw data(NOT_FOUND, { status: 404 });
+  if (!rows[0]) notFound(opts.api);
   return rows[0];
+}
+
+/** A session's details as the data API gives them (snake_case, like the summary). */
+export function sessionJson(head: SessionHead, url: string) {
+  return {
+    id: head.id,
+    url,
+    name: head.name,
+    date: head.sessionDate,
+    venue: head.venueName,
+    car: { id: head.car.id, name: head.car.name },
+    setup: { id: head.setup.id, sheet: head.setup.sheetName, version: head.setup.version },
+    driver: head.driverName,
+    run: head.runLabel,
+    state: head.status,
+    state_detail: head.statusDetail,
+    checked_at: head.checkedAt ? new Date(head.checkedAt).toISOString() : null,
+    engine_version: head.engineVersion,
+    summary_version: head.summaryVersion,
+    air: { temp_c: head.air.tempC, pressure_hpa: head.air.pressureHpa, humidity_pct: head.air.humidityPct, source: head.air.source },
+    fuel_l: head.fuel.startL === null && head.fuel.endL === null ? null : { start: head.fuel.startL, end: head.fuel.endL },
+    tyre_notes: head.tyreNotes,
+    notes: head.notes,
+  };
 }
