@@ -41,6 +41,7 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   car_created: "added a car",
   car_updated: "changed a car",
   car_deleted: "deleted a car",
+  car_archived: "archived a car (sessions used it)",
   car_imported: "imported a car file",
   setup_version_created: "saved a setup version",
   setup_archived: "archived a setup version",

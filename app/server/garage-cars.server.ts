@@ -4,7 +4,7 @@
 import { randomUUID } from "node:crypto";
 import { data } from "react-router";
 import { z } from "zod";
-import { and, asc, count, desc, eq, like, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, isNull, like, or, sql } from "drizzle-orm";
 import { cars, setupSheets, setups, type Car, type NewCar } from "../db/schema/garage";
 import { user } from "../db/schema/auth";
 import { summariseCornerWeights } from "../lib/garage/corner-weights";
@@ -37,8 +37,9 @@ const SORT_COLUMN = {
   updated: cars.updatedAt,
 } as const;
 
+/** The team's cars that are not archived (an archived car stays only for the sessions that used it). */
 export async function listCars(teamId: string, query: CarListQuery = {}) {
-  const filters = [eq(cars.teamId, teamId)];
+  const filters = [eq(cars.teamId, teamId), isNull(cars.archivedAt)];
   if (query.q) {
     const pattern = `%${query.q.replace(/[\\%_]/g, (c) => "\\" + c)}%`;
     filters.push(or(like(cars.name, pattern), like(cars.category, pattern))!);
@@ -135,16 +136,16 @@ export async function updateCar(teamId: string, carId: string, values: Omit<NewC
 /** A copy of the car with the latest version of each of its setup sheets (as version 1). */
 export async function duplicateCar(teamId: string, userId: string | null, carId: string): Promise<string> {
   const source = await getCar(teamId, carId);
-  const { id: _id, teamId: _t, createdBy: _c, createdAt: _ca, updatedAt: _u, createdByName: _n, ...values } = source;
+  const { id: _id, teamId: _t, archivedAt: _ar, createdBy: _c, createdAt: _ca, updatedAt: _u, createdByName: _n, ...values } = source;
   const newId = await createCar(teamId, userId, { ...values, name: copyName(values.name) });
   const sheets = await db.select().from(setupSheets).where(and(eq(setupSheets.teamId, teamId), eq(setupSheets.carId, carId)));
   for (const sheet of sheets) {
-    const [latest] = await db.select().from(setups).where(eq(setups.sheetId, sheet.id)).orderBy(desc(setups.version)).limit(1);
+    const [latest] = await db.select().from(setups).where(and(eq(setups.sheetId, sheet.id), isNull(setups.archivedAt))).orderBy(desc(setups.version)).limit(1);
     if (!latest) continue;
     const sheetId = randomUUID();
     const now = new Date();
     await db.insert(setupSheets).values({ id: sheetId, teamId, carId: newId, name: sheet.name, createdBy: userId, createdAt: now });
-    const { id: _sid, sheetId: _sh, carId: _car, version: _v, createdBy: _cb, createdAt: _sca, updatedAt: _su, ...setupValues } = latest;
+    const { id: _sid, sheetId: _sh, carId: _car, version: _v, archivedAt: _sar, createdBy: _cb, createdAt: _sca, updatedAt: _su, ...setupValues } = latest;
     await db.insert(setups).values({
       ...setupValues,
       id: randomUUID(),

@@ -5,7 +5,7 @@
  */
 import { randomUUID } from "node:crypto";
 import { data } from "react-router";
-import { and, asc, count, desc, eq, inArray, like, max } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, isNull, like, max } from "drizzle-orm";
 import { setupSheets, setups, type NewSetup, type Setup } from "../db/schema/garage";
 import { analysisSessions } from "../db/schema/sessions";
 import { user } from "../db/schema/auth";
@@ -17,7 +17,7 @@ import { getCar } from "./garage-cars.server";
 import { recordAudit } from "./audit.server";
 
 /** The columns a setup form writes (everything but identity, version and authorship). */
-export type SetupValues = Omit<NewSetup, "id" | "sheetId" | "teamId" | "carId" | "version" | "createdBy" | "createdAt" | "updatedAt">;
+export type SetupValues = Omit<NewSetup, "id" | "sheetId" | "teamId" | "carId" | "version" | "archivedAt" | "createdBy" | "createdAt" | "updatedAt">;
 
 export function setupRowValues(values: SetupFormValues): { sheetName: string; values: SetupValues } {
   const { name, ...rest } = values;
@@ -36,12 +36,12 @@ export function setupRowValues(values: SetupFormValues): { sheetName: string; va
 export const SETUP_SORTS = ["name", "version", "updated"] as const;
 export type SetupSort = (typeof SETUP_SORTS)[number];
 
-/** Setup sheets of a car with their latest version. */
+/** Setup sheets of a car with their latest version that is not archived (a sheet with every version archived is left out). */
 export async function listSetupSheets(teamId: string, carId: string, query: { q?: string; sort?: SetupSort; dir?: "asc" | "desc" } = {}) {
   const latest = db
     .select({ sheetId: setups.sheetId, version: max(setups.version).as("latest_version"), versions: count().as("versions") })
     .from(setups)
-    .where(and(eq(setups.teamId, teamId), eq(setups.carId, carId)))
+    .where(and(eq(setups.teamId, teamId), eq(setups.carId, carId), isNull(setups.archivedAt)))
     .groupBy(setups.sheetId)
     .as("latest");
   const filters = [eq(setupSheets.teamId, teamId), eq(setupSheets.carId, carId)];
@@ -115,6 +115,7 @@ export async function setupHistory(teamId: string, sheetId: string, units: UnitS
     updatedAt: r.setup.updatedAt,
     authorName: r.authorName,
     changeNote: r.setup.changeNote,
+    archived: r.setup.archivedAt !== null,
     sessions: used.get(r.setup.id) ?? 0,
     change: i === 0 ? "first version" : summariseDiff(diffSetups(rows[i - 1].setup, r.setup, units)),
   }));
@@ -157,6 +158,7 @@ export async function saveSetupEdit(input: {
   values: SetupValues;
 }): Promise<SaveOutcome> {
   const current = await getSetup(input.teamId, input.carId, input.setupId);
+  if (current.archivedAt) throw data("This setup version is archived (kept for the sessions that used it) and cannot be edited.", { status: 409 });
   return db.transaction(async (tx) => {
     await tx.select({ id: setupSheets.id }).from(setupSheets).where(eq(setupSheets.id, current.sheetId)).for("update");
     await tx.select({ id: setups.id }).from(setups).where(eq(setups.id, current.id)).for("update");
@@ -202,7 +204,7 @@ export async function duplicateSetup(teamId: string, userId: string | null, carI
 
 /** The form columns of a stored version. */
 export function setupValuesOf(row: Setup & { sheetName?: unknown; authorName?: unknown; sessions?: unknown }): SetupValues {
-  const { id: _i, sheetId: _s, teamId: _t, carId: _c, version: _v, createdBy: _b, createdAt: _a, updatedAt: _u, ...rest } = row;
+  const { id: _i, sheetId: _s, teamId: _t, carId: _c, version: _v, archivedAt: _ar, createdBy: _b, createdAt: _a, updatedAt: _u, ...rest } = row;
   const { sheetName: _n, authorName: _an, sessions: _se, ...values } = rest;
   return values;
 }

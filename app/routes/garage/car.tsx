@@ -10,6 +10,9 @@ import { Caution, EmptyState, FigureList, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
 import { CogDiagram } from "~/components/garage/cog-diagram";
+import { ConfirmDelete } from "~/components/garage/confirm-delete";
+import { FormAlert } from "~/components/ui/form";
+import { deleteCar } from "~/server/garage-delete.server";
 import type { Route } from "./+types/car";
 import { readFormFields } from "~/server/body.server";
 
@@ -21,6 +24,7 @@ const searchSchema = z.object({
 const intentSchema = z.discriminatedUnion("intent", [
   z.object({ intent: z.literal("duplicate-car") }),
   z.object({ intent: z.literal("duplicate-setup"), setupId: z.string().min(1).max(36) }),
+  z.object({ intent: z.literal("delete-car"), confirm: z.literal("yes", { error: "Tick the box to confirm the deletion." }) }),
 ]);
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -38,6 +42,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     units: displayUnits(request),
     canEditCar: can(ctx.role, { car: ["update"] }),
     canCreateSetup: can(ctx.role, { setup: ["create"] }),
+    canDelete: can(ctx.role, { car: ["delete"] }),
+    notice: new URL(request.url).searchParams.has("archived") ? "archived" : new URL(request.url).searchParams.has("deleted") ? "deleted" : null,
   };
 }
 
@@ -45,8 +51,16 @@ export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const { carId } = ids(params, "carId");
   const parsed = intentSchema.safeParse(await readFormFields(request));
-  if (!parsed.success) throw data("Unknown action: duplicate-car or duplicate-setup (with a setupId).", { status: 400 });
+  if (!parsed.success) {
+    const confirmIssue = parsed.error.issues.find((i) => i.path[0] === "confirm");
+    throw data(confirmIssue ? confirmIssue.message : "Unknown action: duplicate-car, duplicate-setup (with a setupId) or delete-car.", { status: 400 });
+  }
   const base = `/t/${ctx.team.slug}/garage`;
+  if (parsed.data.intent === "delete-car") {
+    await requireMember(request, params.teamSlug, { car: ["delete"] });
+    const done = await deleteCar(ctx.team.id, ctx.user.id, carId);
+    return redirect(`${base}?${done.archived ? "archived" : "deleted"}=${encodeURIComponent(carId)}`);
+  }
   if (parsed.data.intent === "duplicate-car") {
     await requireMember(request, params.teamSlug, { car: ["create"] });
     const newId = await duplicateCar(ctx.team.id, ctx.user.id, carId);
@@ -114,7 +128,7 @@ function Figures({ car, units }: { car: Route.ComponentProps["loaderData"]["car"
 }
 
 export default function CarPage({ loaderData }: Route.ComponentProps) {
-  const { car, sheets, team, units, canEditCar, canCreateSetup, query } = loaderData;
+  const { car, sheets, team, units, canEditCar, canCreateSetup, canDelete, query, notice } = loaderData;
   const base = `/t/${team.slug}/garage/${car.id}`;
   const suffix = units === "imperial" ? "?units=imperial" : "";
   return (
@@ -126,9 +140,9 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
           </p>
           <h1 className="text-2xl font-semibold">{car.name}</h1>
         </div>
-        <div className="flex items-center gap-2 text-sm">
+        <div className="flex flex-wrap items-center gap-2 text-sm">
           <UnitsLink system={units} />
-          {canEditCar && (
+          {canEditCar && !car.archivedAt && (
             <>
               <Link to={`${base}/edit`} className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Edit car</Link>
               <Form method="post">
@@ -138,8 +152,22 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
               </Form>
             </>
           )}
+          {canDelete && !car.archivedAt && (
+            <ConfirmDelete
+              label="Delete car"
+              intent="delete-car"
+              consequence="The car and all its setup sheets are deleted for good. If sessions used it, it is archived instead: it leaves the Garage and those sessions keep it."
+            />
+          )}
         </div>
       </header>
+      {notice === "deleted" && <FormAlert tone="info">The setup version was deleted; the others stay.</FormAlert>}
+      {notice === "archived" && <FormAlert tone="info">Sessions used that setup version, so it was archived instead of deleted; they keep it.</FormAlert>}
+      {car.archivedAt && (
+        <FormAlert tone="info">
+          Archived on {new Date(car.archivedAt).toISOString().slice(0, 10)}: sessions used this car, so it is kept for them but no longer listed in the Garage.
+        </FormAlert>
+      )}
       <Panel title="Car and corner weights">
         <Figures car={car} units={units} />
         {!car.weighedWithDriver && car.cornerFlKg !== null && (

@@ -5,6 +5,7 @@ import { displayUnits, searchParamsOf } from "~/server/garage-routes.server";
 import { cogFromFrontAxleMm } from "~/lib/garage/corner-weights";
 import { formatQuantity } from "~/lib/garage/units";
 import { EmptyState } from "~/components/ui/panels";
+import { FormAlert } from "~/components/ui/form";
 import { ErrorView } from "~/components/ui/error-view";
 import { Num, SortHeader, UnitsLink } from "~/components/garage/table";
 import type { Route } from "./+types/cars";
@@ -13,11 +14,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const query = searchParamsOf(request, carListSearchSchema);
   const [cars, categories] = await Promise.all([listCars(ctx.team.id, query), listCategories(ctx.team.id)]);
-  return { cars, categories, query, units: displayUnits(request), canEdit: can(ctx.role, { car: ["create"] }), team: ctx.team };
+  const search = new URL(request.url).searchParams;
+  const notice = search.has("archived") ? "archived" : search.has("deleted") ? "deleted" : null;
+  return { cars, categories, query, notice, units: displayUnits(request), canEdit: can(ctx.role, { car: ["create"] }), team: ctx.team };
 }
 
 export default function Cars({ loaderData }: Route.ComponentProps) {
-  const { cars, categories, query, units, canEdit, team } = loaderData;
+  const { cars, categories, query, notice, units, canEdit, team } = loaderData;
   const base = `/t/${team.slug}/garage`;
   const filtered = Boolean(query.q || query.category);
   return (
@@ -35,6 +38,10 @@ export default function Cars({ loaderData }: Route.ComponentProps) {
           </div>
         )}
       </header>
+      {notice === "deleted" && <FormAlert tone="info">The car was deleted with its setups.</FormAlert>}
+      {notice === "archived" && (
+        <FormAlert tone="info">Sessions used that car, so it was archived instead of deleted: it no longer shows here, and its sessions keep it.</FormAlert>
+      )}
       <Form method="get" className="mb-3 flex flex-wrap items-end gap-3 text-sm">
         <label className="flex flex-col">
           <span className="text-ink-soft">Name or class contains</span>

@@ -1,4 +1,7 @@
-import { Form, Link, redirect } from "react-router";
+import { Form, Link, data, redirect } from "react-router";
+import { readFormFields } from "~/server/body.server";
+import { deleteSetupVersion } from "~/server/garage-delete.server";
+import { ConfirmDelete } from "~/components/garage/confirm-delete";
 import { z } from "zod";
 import { can, requireMember } from "~/server/permissions.server";
 import { getCar } from "~/server/garage-cars.server";
@@ -32,18 +35,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     units,
     canEdit: can(ctx.role, { setup: ["update"] }),
     canCreate: can(ctx.role, { setup: ["create"] }),
+    canDelete: can(ctx.role, { car: ["delete"] }),
   };
 }
 
+const intentSchema = z.object({ intent: z.enum(["duplicate", "delete-setup"]).catch("duplicate"), confirm: z.string().optional() });
+
 export async function action({ request, params }: Route.ActionArgs) {
-  const ctx = await requireMember(request, params.teamSlug, { setup: ["create"] });
+  await requireMember(request, params.teamSlug, { setup: ["read"] });
+  const { intent, confirm } = intentSchema.parse(await readFormFields(request));
   const { carId, setupId } = ids(params, "carId", "setupId");
+  if (intent === "delete-setup") {
+    // Deleting Garage data is the owner's (car: delete), like deleting the car itself.
+    const ctx = await requireMember(request, params.teamSlug, { car: ["delete"] });
+    if (confirm !== "yes") throw data("Tick the box to confirm the deletion.", { status: 400 });
+    const done = await deleteSetupVersion(ctx.team.id, ctx.user.id, carId, setupId);
+    return redirect(`/t/${ctx.team.slug}/garage/${carId}?${done.archived ? "archived" : "deleted"}=${encodeURIComponent(setupId)}`);
+  }
+  const ctx = await requireMember(request, params.teamSlug, { setup: ["create"] });
   const copy = await duplicateSetup(ctx.team.id, ctx.user.id, carId, setupId);
   return redirect(`/t/${ctx.team.slug}/garage/${carId}/setups/${copy.setupId}`);
 }
 
 export default function SetupPage({ loaderData }: Route.ComponentProps) {
-  const { car, setup, history, units, canEdit, canCreate, team, notice } = loaderData;
+  const { car, setup, history, units, canEdit, canCreate, canDelete, team, notice } = loaderData;
   const carBase = `/t/${team.slug}/garage/${car.id}`;
   const exportUrl = `/api/t/${team.slug}/cars/${car.id}/setups/${setup.id}/car.json`;
   const others = history.filter((h) => h.id !== setup.id);
@@ -67,14 +82,28 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
           <a href={exportUrl} download className="rounded border border-accent bg-accent px-3 py-1.5 font-medium text-white hover:bg-accent-strong">
             Download CAR.json
           </a>
-          {canEdit && <Link to={`${carBase}/setups/${setup.id}/edit`} className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Edit</Link>}
+          {canEdit && !setup.archivedAt && <Link to={`${carBase}/setups/${setup.id}/edit`} className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Edit</Link>}
           {canCreate && (
             <Form method="post">
               <button className="rounded border border-rule bg-panel px-3 py-1.5 hover:bg-rule-soft">Duplicate</button>
             </Form>
           )}
+          {canDelete && !setup.archivedAt && (
+            <ConfirmDelete
+              label={`Delete v${setup.version}`}
+              intent="delete-setup"
+              consequence={
+                setup.sessions
+                  ? `Sessions used v${setup.version}, so it is archived, not deleted: they keep it, and the setup list no longer shows it.`
+                  : `v${setup.version} is deleted for good (no session used it). The other versions stay.`
+              }
+            />
+          )}
         </div>
       </header>
+      {setup.archivedAt && (
+        <FormAlert tone="info">Archived on {new Date(setup.archivedAt).toISOString().slice(0, 10)}: kept for the sessions that used it; it cannot be edited.</FormAlert>
+      )}
       {notice.saved === "unchanged" && <FormAlert tone="info">Nothing had changed, so no new version was written.</FormAlert>}
       {notice.saved && notice.saved !== "unchanged" && (
         <FormAlert tone="info">
@@ -120,6 +149,7 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
               <tr key={h.id} className={`border-b border-rule-soft last:border-0 ${h.id === setup.id ? "bg-rule-soft" : ""}`}>
                 <td className="num px-3 py-1.5">
                   <Link to={`${carBase}/setups/${h.id}`} className="text-accent underline">v{h.version}</Link>
+                  {h.archived && <span className="ml-1 text-xs text-ink-soft">archived</span>}
                 </td>
                 <td className="num px-3 py-1.5">{new Date(h.updatedAt).toISOString().slice(0, 16).replace("T", " ")} UTC</td>
                 <td className="px-3 py-1.5">{h.authorName ?? "demo seed"}</td>
