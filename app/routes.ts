@@ -56,6 +56,10 @@ export default [
   // Headless ingest: per-user API tokens scoped to one team.
   route("api/tokens", "routes/api/tokens.ts"),
   route("api/tokens/:id", "routes/api/token.ts"),
+  // Drop a log: the raw file, then the session (details, map, the browser's summary); saved Channel maps.
+  route("api/t/:teamSlug/uploads", "routes/api/uploads.ts"),
+  route("api/t/:teamSlug/sessions", "routes/api/team-sessions.ts"),
+  route("api/t/:teamSlug/logger-profiles", "routes/api/logger-profiles.ts"),
 
   // Data API of the Balance report and Compare (token or cookie; see /api/openapi.json).
   route("api/sessions/:sessionId", "routes/api/session-summary.ts"),

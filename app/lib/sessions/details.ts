@@ -8,7 +8,9 @@
  * are dotted paths ("air.temp_c", "fuel_l.end"); `detailsFieldErrors` gives them flat.
  */
 import { z } from "zod";
+import { isaAtGeopotentialM } from "~/engine/density";
 import { DEFAULT_PETROL_DENSITY_KG_PER_L, fuelMassKg } from "~/engine/fuel";
+import type { SummaryOptions } from "~/engine/summary-options";
 
 /** Plausible ranges, wide enough for any circuit or hill-climb day (common practice). */
 export const DETAIL_LIMITS = {
@@ -155,4 +157,33 @@ export function fuelKgOf(details: Pick<SessionDetails, "fuel_l" | "fuelDensityKg
   if (!details.fuel_l) return undefined;
   const density = details.fuelDensityKgPerL ?? carDensityKgPerL ?? DEFAULT_PETROL_DENSITY_KG_PER_L;
   return { startKg: fuelMassKg(details.fuel_l.start, density), endKg: fuelMassKg(details.fuel_l.end, density) };
+}
+
+/**
+ * The engine's options from the session details, the same in the browser and in the server's re-check:
+ * weather as typed, else ISA at the venue's altitude (ISO 2533:1975, app/engine/density.ts), else the
+ * engine's ISA sea level; fuel in litres → kg with the details' density, else the car's.
+ */
+export function engineOptionsOf(
+  details: Pick<SessionDetails, "air" | "fuel_l" | "fuelDensityKgPerL">,
+  ctx: { venueAltitudeM: number | null; carFuelDensityKgPerL: number | null },
+): SummaryOptions {
+  const options: SummaryOptions = {};
+  if (details.air) {
+    options.airTempC = details.air.temp_c;
+    options.airPressureHpa = details.air.pressure_hpa;
+    if (details.air.humidity_pct !== undefined) options.airHumidityPct = details.air.humidity_pct;
+  } else if (ctx.venueAltitudeM !== null) {
+    const isa = isaAtGeopotentialM(ctx.venueAltitudeM);
+    options.airTempC = isa.temp_k - 273.15;
+    options.airPressureHpa = isa.pressure_pa / 100;
+  }
+  const fuel = fuelKgOf(details, ctx.carFuelDensityKgPerL);
+  if (fuel) options.fuel = fuel;
+  return options;
+}
+
+/** Where the air density came from, as stored with the session. */
+export function airSourceOf(details: Pick<SessionDetails, "air">, venueAltitudeM: number | null): "given" | "venue_altitude" | "isa_sea_level" {
+  return details.air ? "given" : venueAltitudeM !== null ? "venue_altitude" : "isa_sea_level";
 }
