@@ -50,7 +50,7 @@ export function mapOf(log: string): Record<string, unknown> {
 /** A multipart upload as Uppy's xhr-upload sends it (one part "file"). */
 export function uploadRequest(slug: string, jar: CookieJar | null, fileName: string, bytes: Uint8Array, extra: Record<string, string> = {}): Request {
   const form = new FormData();
-  form.set("file", new File([bytes], fileName, { type: "text/csv" }));
+  form.set("file", new File([new Uint8Array(bytes)], fileName, { type: "text/csv" }));
   const headers = new Headers({ origin: appUrl, ...extra });
   if (jar) headers.set("cookie", jar.header());
   return new Request(`${appUrl}/api/t/${slug}/uploads`, { method: "POST", headers, body: form });
