@@ -1,0 +1,472 @@
+// `npm run bench:cluster`: the load and fault run of the scale-out layout (README, "Running at scale").
+// Brings up `npm run cluster` (or uses the one running), signs in as the demo owner and makes an API
+// token, then runs API readers (200 by default) against the seeded data while engineers upload large
+// logs (8 × ~100 MB) through `POST /api/sessions` at once and the job workers re-analyse them. During the
+// wave it kills one app process, the Galera node that takes the writes, and one job worker in the middle
+// of a job. Afterwards it waits for the cluster to heal and checks, and prints: reader throughput and
+// p50/p95/p99 per route, errors, every process's memory, no request lost beyond the retried in-flight
+// ones, every uploaded file present as exactly one session with the server's summary, no job done twice,
+// the three nodes in sync, no orphan object in storage. Exits 1 when a check fails.
+//
+// `--short` (the cluster stage of `npm test`): a few small files and fewer readers, the same three kills
+// and the same checks.
+//
+// Settings (environment): RAKELINE_BENCH_UPLOADS (8), RAKELINE_BENCH_UPLOAD_MB (100), RAKELINE_BENCH_READERS
+// (200), RAKELINE_BENCH_READER_RATE (requests per second per reader; 0 = each reader sends its next request
+// as soon as the last is answered, the default), RAKELINE_BENCH_JOB_TIMEOUT_S (900); the cluster's own
+// (RAKELINE_CLUSTER_PORT_BASE, RAKELINE_CLUSTER_DATA, RAKELINE_CLUSTER_APPS, RAKELINE_CLUSTER_WORKERS).
+import { fork, spawn } from "node:child_process";
+import { createHash } from "node:crypto";
+import { createReadStream, existsSync, mkdirSync, openAsBlob, openSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { pipeline } from "node:stream/promises";
+import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
+import mysql from "mysql2/promise";
+import {
+  compareRowCounts, createMemoryTracker, duplicatedJobs, killOutright, leaseOwnerIs, memoryTable, routeTable, sessionCheck, storageCheck, table, verdictLines,
+} from "./lib/cluster-bench.mjs";
+import { clusterLayout } from "./lib/cluster-layout.mjs";
+import { DB_USER, repoRoot } from "./lib/env.mjs";
+import { nodeStatus, rowCountsPerNode } from "./lib/galera.mjs";
+import { fetchHaproxyStats } from "./lib/haproxy.mjs";
+import { banner, info, isAlive, packageBin, sleep, terminatePid, UserFacingError, watchParent } from "./lib/proc.mjs";
+
+const short = process.argv.includes("--short");
+function setting(name, fallback, min, max) {
+  const raw = process.env[name];
+  const value = raw === undefined || raw === "" ? fallback : Number(raw);
+  if (!Number.isFinite(value) || value < min || value > max) throw new UserFacingError(`${name} must be a number from ${min} to ${max}, not "${raw}"`);
+  return value;
+}
+const config = {
+  uploads: setting("RAKELINE_BENCH_UPLOADS", short ? 3 : 8, 1, 32),
+  uploadMb: setting("RAKELINE_BENCH_UPLOAD_MB", short ? 2 : 100, 1, 2000),
+  readers: setting("RAKELINE_BENCH_READERS", short ? 20 : 200, 1, 2000),
+  readerRate: setting("RAKELINE_BENCH_READER_RATE", 0, 0, 1000),
+  jobTimeoutS: setting("RAKELINE_BENCH_JOB_TIMEOUT_S", short ? 300 : 900, 30, 7200),
+};
+const DEMO = { email: "demo@harrowgate.example", password: "kestrel-bank-2026", team: "harrowgate" };
+const P95_TARGET_MS = 100;
+
+const layout = clusterLayout();
+const appUrl = `http://127.0.0.1:${layout.appFrontPort}`;
+const benchDir = path.join(repoRoot, ".data", "bench");
+const t0 = Date.now();
+const since = () => `${((Date.now() - t0) / 1000).toFixed(1).padStart(6)} s`;
+const events = [];
+function note(what) {
+  events.push({ at: Date.now(), what });
+  info(`[${since()}] ${what}`);
+}
+
+let clusterChild = null;
+let readers = null;
+let pool = null;
+let finishing = false;
+
+async function stopEverything() {
+  if (readers?.connected) readers.kill("SIGTERM");
+  await pool?.end().catch(() => undefined);
+  if (clusterChild && clusterChild.exitCode === null) {
+    info("stopping the cluster this run started");
+    clusterChild.kill("SIGTERM");
+    const done = await Promise.race([new Promise((r) => clusterChild.once("exit", () => r(true))), sleep(240_000).then(() => false)]);
+    if (!done) await terminatePid(clusterChild.pid, { timeoutMs: 10_000 });
+  }
+}
+
+async function finish(code, reason) {
+  if (finishing) return;
+  finishing = true;
+  if (reason) console.error(`[rakeline] ${reason}`);
+  await stopEverything();
+  process.exit(code);
+}
+for (const signal of ["SIGINT", "SIGTERM"]) process.on(signal, () => void finish(130, `${signal} received: stopping`));
+watchParent(() => void finish(143, "the parent process is gone: stopping"));
+
+const readState = () => {
+  try {
+    return JSON.parse(readFileSync(layout.stateFile, "utf8"));
+  } catch {
+    return null;
+  }
+};
+
+/** Use the running cluster, or start `npm run cluster` and wait until it says it is ready. */
+async function ensureCluster() {
+  const state = readState();
+  if (state?.ready && isAlive(state.supervisorPid)) {
+    note(`using the running cluster (supervisor pid ${state.supervisorPid}, ${appUrl})`);
+    return;
+  }
+  mkdirSync(layout.logDir, { recursive: true });
+  const logFile = path.join(layout.logDir, "cluster-for-bench.log");
+  const out = openSync(logFile, "a");
+  note(`starting npm run cluster (output in ${path.relative(repoRoot, logFile)})`);
+  clusterChild = spawn(process.execPath, [path.join(repoRoot, "scripts", "cluster.mjs")], { cwd: repoRoot, stdio: ["ignore", out, out], env: process.env });
+  const deadline = Date.now() + 15 * 60_000;
+  for (;;) {
+    if (clusterChild.exitCode !== null) {
+      const tail = readFileSync(logFile, "utf8").trimEnd().split("\n").slice(-25).join("\n");
+      throw new UserFacingError(`npm run cluster exited (code ${clusterChild.exitCode}) before it was ready:\n${tail}`);
+    }
+    const now = readState();
+    if (now?.ready && now.supervisorPid === clusterChild.pid) break;
+    if (Date.now() > deadline) throw new UserFacingError(`the cluster was not ready within 15 minutes; see ${logFile}`);
+    await sleep(1000);
+  }
+  note("the cluster is ready");
+}
+
+async function signIn() {
+  const response = await fetch(`${appUrl}/api/auth/sign-in/email`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: appUrl },
+    body: JSON.stringify({ email: DEMO.email, password: DEMO.password }),
+  });
+  if (!response.ok) throw new UserFacingError(`signing in as ${DEMO.email} answered ${response.status}: ${(await response.text()).slice(0, 200)} (was the demo seed run?)`);
+  const cookie = response.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+  const made = await fetch(`${appUrl}/api/tokens`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: appUrl, cookie },
+    body: JSON.stringify({ name: `bench-cluster ${new Date().toISOString()}`, team: DEMO.team }),
+  });
+  const body = await made.json().catch(() => ({}));
+  if (made.status !== 201 || !body.token) throw new UserFacingError(`POST /api/tokens answered ${made.status}: ${JSON.stringify(body).slice(0, 200)}`);
+  note(`signed in as ${DEMO.email} and made an API token for team ${DEMO.team}`);
+  return { cookie, token: body.token };
+}
+
+async function getJson(url, headers) {
+  try {
+    const response = await fetch(url, { headers, signal: AbortSignal.timeout(30_000) });
+    return { status: response.status, body: await response.json().catch(() => null) };
+  } catch (error) {
+    return { status: 0, body: null, error: error.message };
+  }
+}
+
+/** The API routes readers use: those of issue 11 that answer 200 here, else the team car list (cookie). */
+async function readerRoutes({ cookie, token }) {
+  const bearer = { authorization: `Bearer ${token}` };
+  const routes = [];
+  const skipped = [];
+  const list = await getJson(`${appUrl}/api/sessions`, bearer);
+  if (list.status === 200 && Array.isArray(list.body?.sessions)) {
+    routes.push({ name: "GET /api/sessions", path: "/api/sessions", headers: bearer });
+    const id = list.body.sessions[0]?.id;
+    if (id) {
+      for (const [name, p] of [["GET /api/sessions/:id", `/api/sessions/${id}`], ["GET /api/sessions/:id/bands.csv", `/api/sessions/${id}/bands.csv`]]) {
+        const probe = await fetch(appUrl + p, { headers: bearer }).catch(() => null);
+        if (probe?.status === 200) routes.push({ name, path: p, headers: bearer });
+        else skipped.push(`${name} (answered ${probe?.status ?? "nothing"})`);
+        await probe?.body?.cancel().catch(() => undefined);
+      }
+    } else skipped.push("GET /api/sessions/:id (the seeded team has no session)");
+  } else skipped.push(`GET /api/sessions (answered ${list.status})`);
+  const cars = await getJson(`${appUrl}/api/cars`, bearer);
+  if (cars.status === 200) routes.push({ name: "GET /api/cars", path: "/api/cars", headers: bearer });
+  else skipped.push(`GET /api/cars (answered ${cars.status})`);
+  if (routes.length === 0) {
+    const teamCars = await getJson(`${appUrl}/api/t/${DEMO.team}/cars`, { cookie });
+    if (teamCars.status !== 200) throw new UserFacingError(`no API route answers readers (GET /api/t/${DEMO.team}/cars answered ${teamCars.status})`);
+    routes.push({ name: `GET /api/t/${DEMO.team}/cars (cookie)`, path: `/api/t/${DEMO.team}/cars`, headers: { cookie } });
+  }
+  for (const s of skipped) note(`reader route left out: ${s}`);
+  return { routes, skipped };
+}
+
+async function makeLogs() {
+  const tsx = packageBin(repoRoot, "tsx", "tsx");
+  const dir = path.join(benchDir, "logs");
+  note(`making ${config.uploads} logs of ~${config.uploadMb} MB with the demo generator (reused when already there)`);
+  const child = spawn(process.execPath, [tsx, path.join(repoRoot, "scripts", "cluster-logs.ts"), "--mb", String(config.uploadMb), "--count", String(config.uploads), "--out", dir], {
+    cwd: repoRoot,
+    stdio: ["ignore", "pipe", "inherit"],
+  });
+  let text = "";
+  child.stdout.on("data", (d) => (text += d));
+  const code = await new Promise((r) => child.once("exit", r));
+  if (code !== 0) throw new UserFacingError(`scripts/cluster-logs.ts failed (exit ${code})`);
+  const made = JSON.parse(text.trim().split("\n").pop());
+  for (const file of made.files) {
+    const hash = createHash("sha256");
+    await pipeline(createReadStream(file.path), hash);
+    file.sha256 = hash.digest("hex");
+    file.name = path.basename(file.path);
+  }
+  return made;
+}
+
+/** One engineer's upload: sent again after a network failure or a 5xx, as a client would (the server finds it again by its SHA-256). */
+async function uploadOne(file, index, made, token) {
+  const attempts = [];
+  const started = Date.now();
+  for (let attempt = 1; attempt <= 8; attempt++) {
+    const at = Date.now();
+    try {
+      const form = new FormData();
+      form.set("meta", JSON.stringify({ car: made.car, map: made.map, run: `Load run ${index + 1}`, date: new Date().toISOString().slice(0, 10) }));
+      form.set("file", await openAsBlob(file.path, { type: "text/csv" }), file.name);
+      const response = await fetch(`${appUrl}/api/sessions`, { method: "POST", headers: { authorization: `Bearer ${token}` }, body: form, signal: AbortSignal.timeout(30 * 60_000) });
+      const body = await response.json().catch(() => ({}));
+      attempts.push({ status: response.status, ms: Date.now() - at, error: body?.error });
+      if (response.status === 201 || response.status === 200) {
+        note(`upload ${file.name}: ${response.status}${body.duplicate ? " (found again by its SHA-256)" : ""} after ${((Date.now() - started) / 1000).toFixed(1)} s, attempt ${attempt}`);
+        return { file: file.name, sha256: file.sha256, bytes: file.bytes, id: body.id, status: response.status, attempts, seconds: (Date.now() - started) / 1000 };
+      }
+      if (response.status < 500 && response.status !== 429) {
+        note(`upload ${file.name}: refused ${response.status}: ${body?.error ?? ""}`);
+        return { file: file.name, sha256: file.sha256, bytes: file.bytes, id: null, status: response.status, attempts, seconds: (Date.now() - started) / 1000, error: body?.error };
+      }
+      note(`upload ${file.name}: ${response.status} (${body?.error ?? "no message"}); sending it again`);
+    } catch (error) {
+      attempts.push({ status: 0, ms: Date.now() - at, error: error.cause?.code ?? error.message });
+      note(`upload ${file.name}: ${error.cause?.code ?? error.message}; sending it again`);
+    }
+    await sleep(2000);
+  }
+  return { file: file.name, sha256: file.sha256, bytes: file.bytes, id: null, status: attempts.at(-1)?.status ?? 0, attempts, seconds: (Date.now() - started) / 1000, error: "gave up after 8 attempts" };
+}
+
+/** A query through the proxy, tried again while the writer fails over. */
+async function query(sql, params = [], { tries = 30 } = {}) {
+  for (let i = 1; ; i++) {
+    try {
+      const [rows] = await pool.query(sql, params);
+      return rows;
+    } catch (error) {
+      if (i >= tries) throw error;
+      await sleep(1000);
+    }
+  }
+}
+
+const processesOf = (role) => (readState()?.processes ?? []).filter((p) => p.role === role);
+
+/** The three kills, in the middle of the wave. Resolves with what was done. */
+async function faults({ wave }) {
+  const done = { app: null, db: null, worker: null };
+  // 1. An app process, while the uploads stream in (their in-flight requests are sent again by the uploader).
+  await sleep(short ? 1500 : 4000);
+  const app = processesOf("app").find((p) => p.up);
+  if (app) {
+    const r = killOutright(app.pid, "serve.mjs");
+    done.app = { name: app.name, pid: app.pid, at: Date.now(), ...r };
+    note(r.killed ? `killed ${app.name} (pid ${app.pid}) with SIGKILL` : `could not kill ${app.name}: ${r.why}`);
+  }
+  // 2. The Galera node that takes the writes (the one HAProxy sends connections to now).
+  await sleep(short ? 1500 : 6000);
+  try {
+    const [[row]] = await pool.query("SELECT @@wsrep_node_name AS name");
+    const node = layout.nodes.find((n) => n.name === row.name);
+    const proc = processesOf("db").find((p) => p.name === row.name);
+    if (node && proc) {
+      const r = killOutright(proc.pid, node.datadir);
+      done.db = { name: node.name, pid: proc.pid, at: Date.now(), ...r };
+      note(r.killed ? `killed the writer node ${node.name} (pid ${proc.pid}) with SIGKILL` : `could not kill ${node.name}: ${r.why}`);
+    }
+  } catch (error) {
+    note(`could not find the writer node: ${error.message}`);
+  }
+  // 3. A job worker in the middle of a job: the first worker seen holding a running job's lease.
+  const workers = processesOf("worker");
+  if (workers.length === 0) {
+    note("no job worker in the cluster: the worker kill is not possible");
+    return done;
+  }
+  while (!wave.over || Date.now() < wave.jobsDeadline) {
+    const rows = await query("SELECT id, lease_owner FROM jobs WHERE status = 'running' AND lease_owner IS NOT NULL ORDER BY id", [], { tries: 3 }).catch(() => []);
+    for (const job of rows) {
+      const worker = processesOf("worker").find((w) => w.up && leaseOwnerIs(job.lease_owner, { label: w.name, pid: w.pid }));
+      if (!worker) continue;
+      const r = killOutright(worker.pid, "cluster-job-worker.ts");
+      done.worker = { name: worker.name, pid: worker.pid, jobId: Number(job.id), leaseOwner: job.lease_owner, at: Date.now(), ...r };
+      note(r.killed ? `killed ${worker.name} (pid ${worker.pid}) in the middle of job ${job.id}` : `could not kill ${worker.name}: ${r.why}`);
+      return done;
+    }
+    if (wave.jobsFinished) break;
+    await sleep(100);
+  }
+  note("no running job could be tied to a worker: the worker kill did not happen");
+  return done;
+}
+
+async function waitForJobs(sessionIds, deadline) {
+  if (sessionIds.length === 0) return [];
+  for (;;) {
+    const rows = await query(`SELECT id, status, attempts, lease_owner, session_id FROM jobs WHERE session_id IN (${sessionIds.map(() => "?").join(",")})`, sessionIds);
+    const open = rows.filter((r) => r.status === "queued" || r.status === "running");
+    if (rows.length > 0 && open.length === 0) return rows;
+    if (Date.now() > deadline) {
+      note(`jobs still open at the deadline: ${open.map((r) => `${r.id} ${r.status}`).join(", ") || "(no job was queued for the uploads)"}`);
+      return rows;
+    }
+    await sleep(1000);
+  }
+}
+
+/** Every process up again, every node in the primary component with 3 members and synced. */
+async function waitForHealing(deadline) {
+  for (;;) {
+    const state = readState();
+    const down = (state?.processes ?? []).filter((p) => !p.up).map((p) => p.name);
+    const statuses = await Promise.all(layout.nodes.map((n) => nodeStatus(n)));
+    const ok = down.length === 0 && statuses.every((s) => s && s.size === 3 && s.state === "Synced" && s.clusterStatus === "Primary");
+    if (ok) return { down, statuses };
+    if (Date.now() > deadline) return { down, statuses };
+    await sleep(1000);
+  }
+}
+
+async function listObjects() {
+  const client = new S3Client({
+    region: "us-east-1",
+    endpoint: `http://127.0.0.1:${layout.s3Port}`,
+    forcePathStyle: true,
+    // s3rver's fixed development credentials.
+    credentials: { accessKeyId: "S3RVER", secretAccessKey: "S3RVER" },
+  });
+  const keys = [];
+  let token;
+  do {
+    const page = await client.send(new ListObjectsV2Command({ Bucket: layout.s3Bucket, ContinuationToken: token }));
+    for (const o of page.Contents ?? []) keys.push(o.Key);
+    token = page.IsTruncated ? page.NextContinuationToken : undefined;
+  } while (token);
+  return keys;
+}
+
+async function main() {
+  banner(`Rakeline: npm run bench:cluster${short ? " --short" : ""}`);
+  info(`${config.uploads} uploads of ~${config.uploadMb} MB, ${config.readers} API readers${config.readerRate ? ` at ${config.readerRate} req/s each` : " (each sends again as soon as answered)"}`);
+  await ensureCluster();
+  const password = readFileSync(layout.passwordFile, "utf8").trim();
+  pool = mysql.createPool({ host: "127.0.0.1", port: layout.dbFrontPort, user: DB_USER, password, database: layout.database, connectionLimit: 4, connectTimeout: 5000 });
+  const auth = await signIn();
+  const { routes, skipped } = await readerRoutes(auth);
+  const made = await makeLogs();
+  const [team] = await query("SELECT id FROM organization WHERE slug = ?", [DEMO.team]);
+  const statsBefore = await fetchHaproxyStats(layout).catch(() => []);
+
+  const memory = createMemoryTracker();
+  const sampleMemory = () => memory.sample([...(readState()?.processes ?? []), { name: "bench (this run)", role: "bench", pid: process.pid }, ...(readers ? [{ name: "readers (autocannon)", role: "bench", pid: readers.pid }] : [])]);
+  const memoryTimer = setInterval(sampleMemory, 1000);
+
+  banner(`Readers (${config.readers} connections over ${routes.length} route(s)) and the upload wave`);
+  readers = fork(path.join(repoRoot, "scripts", "lib", "cluster-readers.mjs"), [], { stdio: ["ignore", "inherit", "inherit", "ipc"] });
+  const readerResult = new Promise((resolve) => readers.on("message", (m) => m.type === "result" && resolve(m.routes)));
+  await new Promise((resolve) => {
+    readers.on("message", (m) => m.type === "started" && resolve());
+    readers.send({ type: "start", baseUrl: appUrl, routes: routes.map(({ name, path: p, headers }) => ({ name, path: p, headers })), connections: config.readers, ratePerConnection: config.readerRate });
+  });
+  note(`readers started on ${routes.map((r) => r.name).join(", ")}`);
+  // A few seconds of readers alone, for a baseline.
+  const baselineFrom = Date.now();
+  await sleep(short ? 3000 : 8000);
+  const waveFrom = Date.now();
+  note(`upload wave: ${made.files.length} files at once`);
+  const wave = { over: false, jobsFinished: false, jobsDeadline: Date.now() + config.jobTimeoutS * 1000 };
+  const faultRun = faults({ wave });
+  const uploads = await Promise.all(made.files.map((file, i) => uploadOne(file, i, made, auth.token)));
+  const uploadsDone = Date.now();
+  wave.over = true;
+  const sessionIds = uploads.filter((u) => u.id).map((u) => u.id);
+  note(`uploads answered: ${uploads.filter((u) => u.id).length} of ${uploads.length}; waiting for the re-analysis jobs`);
+  const jobs = await waitForJobs(sessionIds, wave.jobsDeadline);
+  wave.jobsFinished = true;
+  const jobsDone = Date.now();
+  const kills = await faultRun;
+  note("jobs finished; stopping the readers");
+  readers.send({ type: "stop", windows: { baseline: [baselineFrom, waveFrom], wave: [waveFrom, jobsDone] } });
+  const readerRoutesResult = await readerResult;
+  const statsAfter = await fetchHaproxyStats(layout).catch(() => []);
+
+  banner("Waiting for the cluster to heal (every process up, 3 nodes synced)");
+  const healing = await waitForHealing(Date.now() + 5 * 60_000);
+  note(healing.down.length ? `still down: ${healing.down.join(", ")}` : "every process is up again");
+  sampleMemory();
+  clearInterval(memoryTimer);
+
+  banner("Checks");
+  // Sessions of the uploaded files (by SHA-256), with their summary and the server's analyses.
+  const shas = made.files.map((f) => f.sha256);
+  const sessions = await query(
+    `SELECT s.id, s.raw_sha256 AS rawSha256, s.status, s.summary IS NOT NULL AS hasSummary,
+            (SELECT COUNT(*) FROM session_results r WHERE r.session_id = s.id AND r.origin = 'server') AS serverResults
+       FROM analysis_sessions s WHERE s.team_id = ? AND s.raw_sha256 IN (${shas.map(() => "?").join(",")})`,
+    [team.id, ...shas],
+  );
+  const sessionsJudged = sessionCheck(made.files.map((f) => ({ file: f.name, sha256: f.sha256 })), sessions.map((s) => ({ ...s, hasSummary: Boolean(s.hasSummary), serverResults: Number(s.serverResults) })));
+  const perJob = await query("SELECT job_id AS jobId, COUNT(*) AS results FROM session_results WHERE job_id IS NOT NULL GROUP BY job_id");
+  const doubled = duplicatedJobs(perJob);
+  const killedJob = kills.worker?.jobId ? (await query("SELECT id, status, attempts FROM jobs WHERE id = ?", [kills.worker.jobId]))[0] : null;
+  const killedJobResults = kills.worker?.jobId ? Number(perJob.find((r) => Number(r.jobId) === kills.worker.jobId)?.results ?? 0) : null;
+  const nodeStates = await Promise.all(layout.nodes.map(async (n) => ({ name: n.name, status: await nodeStatus(n) })));
+  const counts = compareRowCounts(await rowCountsPerNode(layout, layout.database));
+  const objects = await listObjects();
+  const referenced = (await query("SELECT storage_key AS k FROM raw_uploads WHERE storage = 's3'")).map((r) => r.k);
+  const storage = storageCheck(objects, referenced);
+  const unattached = await query("SELECT COUNT(*) AS n FROM raw_uploads WHERE team_id = ? AND status = 'stored' AND sha256 IN (" + shas.map(() => "?").join(",") + ")", [team.id, ...shas]);
+
+  // Reader requests: nothing lost (no connection error, timeout or 5xx reached a reader); what the proxy sent again.
+  const lostReads = readerRoutesResult.reduce((n, r) => n + r.errors + r.timeouts + r.serverErrors, 0);
+  const appStat = (stats) => stats.filter((s) => s.proxy === "app_processes" && s.server === "BACKEND")[0] ?? { retries: 0, redispatches: 0 };
+  const retried = appStat(statsAfter).retries - appStat(statsBefore).retries;
+  const redispatched = appStat(statsAfter).redispatches - appStat(statsBefore).redispatches;
+  const writerNow = statsAfter.find((s) => s.proxy === "galera_writer" && s.current > 0)?.server ?? "?";
+  const uploadRetries = uploads.reduce((n, u) => n + u.attempts.length - 1, 0);
+  const waveSeconds = (jobsDone - waveFrom) / 1000;
+  const waveP95 = Math.max(...readerRoutesResult.map((r) => r.windows.wave?.figures.p95 ?? 0));
+
+  banner("Results");
+  console.log(`Wave: ${made.files.length} uploads of ${(made.files[0].bytes / 1e6).toFixed(0)} MB, answered in ${((uploadsDone - waveFrom) / 1000).toFixed(1)} s; jobs finished ${((jobsDone - waveFrom) / 1000).toFixed(1)} s after the wave began`);
+  console.log(`\nReaders during the wave (${waveSeconds.toFixed(0)} s, ${config.readers} connections):`);
+  console.log(routeTable(readerRoutesResult.map((r) => ({ name: r.name, ...r.windows.wave, non2xx: r.non2xx, errors: r.errors, timeouts: r.timeouts }))));
+  console.log(`\nReaders before the wave (baseline, ${((waveFrom - baselineFrom) / 1000).toFixed(0)} s):`);
+  console.log(routeTable(readerRoutesResult.map((r) => ({ name: r.name, ...r.windows.baseline, non2xx: "", errors: "", timeouts: "" }))));
+  console.log("\nStatus codes per route: " + readerRoutesResult.map((r) => `${r.name} ${JSON.stringify(r.statuses)}${Object.keys(r.errorKinds).length ? ` errors ${JSON.stringify(r.errorKinds)}` : ""}`).join("; "));
+  if (skipped.length) console.log(`Routes left out (not answering 200 here): ${skipped.join("; ")}`);
+  console.log(`HAProxy: ${retried} request(s) sent again to another app process, ${redispatched} redispatched; the writer node is now ${writerNow}`);
+  console.log("\nUploads:");
+  console.log(table(["file", "MB", "answer", "attempts", "seconds", "session"], uploads.map((u) => [u.file, (u.bytes / 1e6).toFixed(0), u.status, u.attempts.length, u.seconds.toFixed(1), u.id ?? u.error ?? "–"])));
+  console.log("\nJobs of the uploaded sessions: " + Object.entries(jobs.reduce((m, j) => ((m[j.status] = (m[j.status] ?? 0) + 1), m), {})).map(([s, n]) => `${n} ${s}`).join(", "));
+  console.log("\nFaults:");
+  console.log(`  app process:  ${kills.app?.killed ? `${kills.app.name} (pid ${kills.app.pid}) killed at ${((kills.app.at - waveFrom) / 1000).toFixed(1)} s into the wave` : `not killed (${kills.app?.why ?? "none found"})`}`);
+  console.log(`  writer node:  ${kills.db?.killed ? `${kills.db.name} (pid ${kills.db.pid}) killed at ${((kills.db.at - waveFrom) / 1000).toFixed(1)} s` : `not killed (${kills.db?.why ?? "not found"})`}`);
+  console.log(`  job worker:   ${kills.worker?.killed ? `${kills.worker.name} (pid ${kills.worker.pid}) killed during job ${kills.worker.jobId} at ${((kills.worker.at - waveFrom) / 1000).toFixed(1)} s; that job is now ${killedJob?.status} after ${killedJob?.attempts} attempt(s), with ${killedJobResults} result(s)` : "not killed"}`);
+  console.log("\nMemory (RSS from /proc, sampled every second):");
+  console.log(memoryTable(memory.report()));
+  console.log("\nGalera nodes: " + nodeStates.map((n) => `${n.name} size ${n.status?.size ?? "?"} ${n.status?.state ?? "no answer"}`).join(", ") + `; ${counts.tables} tables compared`);
+
+  const checks = [
+    { check: "every kill happened (app process, writer node, job worker mid-job)", ok: Boolean(kills.app?.killed && kills.db?.killed && kills.worker?.killed) },
+    { check: "no reader request lost (no connection error, timeout or 5xx reached a reader)", ok: lostReads === 0, detail: `${lostReads} lost; ${retried} in-flight sent again by HAProxy` },
+    { check: "every upload answered with a session", ok: uploads.every((u) => u.id), detail: `${uploadRetries} upload attempt(s) sent again by the engineers` },
+    { check: "zero lost sessions", ok: sessionsJudged.lost.length === 0, detail: sessionsJudged.lost.join(", ") },
+    { check: "every uploaded file is exactly one session", ok: sessionsJudged.duplicated.length === 0, detail: sessionsJudged.duplicated.join(", ") },
+    { check: "every session has the server's summary", ok: sessionsJudged.withoutServerSummary.length === 0 && sessionsJudged.rows.every((r) => r.serverSummary), detail: sessionsJudged.withoutServerSummary.join(", ") },
+    { check: "every re-analysis job done", ok: jobs.length > 0 && jobs.every((j) => j.status === "done"), detail: jobs.filter((j) => j.status !== "done").map((j) => `job ${j.id} ${j.status}`).join(", ") },
+    { check: "zero duplicated jobs (at most one result per job)", ok: doubled.length === 0, detail: doubled.map((d) => `job ${d.jobId} wrote ${d.results} results`).join(", ") },
+    { check: "the killed worker's job was redone once", ok: killedJob ? killedJob.status === "done" && killedJobResults === 1 : false, detail: killedJob ? `job ${killedJob.id}: ${killedJob.status}, ${killedJob.attempts} attempts, ${killedJobResults} result(s)` : "no job" },
+    { check: "three nodes back in sync (wsrep_cluster_size 3, Synced)", ok: nodeStates.every((n) => n.status?.size === 3 && n.status.state === "Synced") },
+    { check: "the same row counts on every node", ok: counts.inSync, detail: counts.differences.map((d) => `${d.table} ${JSON.stringify(d.counts)}`).join("; ") + (counts.silent.length ? ` no answer from ${counts.silent.join(", ")}` : "") },
+    { check: "no orphan object in storage (and none missing)", ok: storage.orphans.length === 0 && storage.missing.length === 0, detail: `${storage.objects} objects, ${storage.orphans.length} orphan(s), ${storage.missing.length} missing${storage.orphans.length ? `: ${storage.orphans.slice(0, 5).join(", ")}` : ""}; ${unattached[0]?.n ?? 0} upload(s) of these files left unattached` },
+  ];
+  const verdict = verdictLines(checks);
+  console.log("\nWhat held:");
+  console.log(verdict.text);
+  const targetMet = waveP95 > 0 && waveP95 < P95_TARGET_MS;
+  console.log(`\nTarget (not a pass/fail check): API p95 under ${P95_TARGET_MS} ms during the wave at ${config.readers} readers: ${targetMet ? "met" : "missed"} (worst route p95 ${waveP95.toFixed(1)} ms)`);
+
+  mkdirSync(benchDir, { recursive: true });
+  const reportFile = path.join(benchDir, `cluster-${new Date(t0).toISOString().replace(/[:.]/g, "-")}.json`);
+  writeFileSync(reportFile, `${JSON.stringify({ config, short, routes: readerRoutesResult, uploads, jobs, kills, memory: memory.report(), nodeStates, counts, storage, checks, events }, null, 2)}\n`);
+  console.log(`\nFull figures: ${path.relative(repoRoot, reportFile)}`);
+  return verdict.ok ? 0 : 1;
+}
+
+main()
+  .then((code) => finish(code))
+  .catch((error) => finish(1, `npm run bench:cluster failed: ${error instanceof UserFacingError ? error.message : error.stack}`));
