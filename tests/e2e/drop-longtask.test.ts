@@ -56,7 +56,7 @@ describe("Drop a log stays responsive on a large export", () => {
     await page.getByText("Reading (in this browser)").waitFor({ timeout: 60_000 });
     // The read is over when the status moves past "Reading the whole file…" (to storing, or to the report page).
     await expect
-      .poll(async () => (page.url().includes("/sessions/new") ? await page.locator('[data-testid="file-status"]').first().innerText() : "left the page"), { timeout: 600_000, intervals: [500] })
+      .poll(async () => (page.url().includes("/sessions/new") ? await page.locator('[data-testid="file-status"]').first().innerText() : "left the page"), { timeout: 600_000, interval: 500 })
       .not.toMatch(/Reading/);
     const readS = (Date.now() - readStart) / 1000;
     const tasks = await page.evaluate((t0) => (window as unknown as { __longTasks: { start: number; duration: number }[] }).__longTasks.filter((t) => t.start >= t0), from);
