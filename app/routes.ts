@@ -65,6 +65,8 @@ export default [
   route("api/sessions/:sessionId", "routes/api/session-summary.ts"),
   route("api/sessions/:sessionId/bands.csv", "routes/api/session-bands-csv.ts"),
   route("api/sessions/:sessionId/traces", "routes/api/session-traces.ts"),
+  // Deleting a session (owner; confirm=yes): rows, raw upload and raw file.
+  route("api/t/:teamSlug/sessions/:sessionId/delete", "routes/api/session-delete.ts"),
 
   // Anything else: JSON under /api/, the not-found page elsewhere.
   route("api/*", "routes/api/not-found.ts"),
