@@ -150,7 +150,8 @@ async function waitUntilRouted(timeoutMs = 60_000) {
 }
 
 async function main() {
-  lock = await acquireRunLock("cluster", path.join("scripts", "cluster.mjs"));
+  // One lock per cluster folder: the test stage's cluster (.data/test-cluster) runs beside a developer's.
+  lock = await acquireRunLock(path.basename(layout.dir), path.join("scripts", "cluster.mjs"));
   banner("Rakeline: npm run cluster");
   for (const [port, what] of allPorts()) {
     await assertPortFree("127.0.0.1", port, `It is the ${what}'s port: another cluster may be running (RAKELINE_CLUSTER_PORT_BASE moves the block).`);

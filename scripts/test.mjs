@@ -4,6 +4,8 @@
 import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
 import path from "node:path";
 import { chromiumPackage, ensureDebianPackages, mariadbPackage } from "./lib/apt.mjs";
+import { galeraPackages } from "./lib/galera.mjs";
+import { haproxyPackage } from "./lib/haproxy.mjs";
 import { ensureNodeModules } from "./lib/deps.mjs";
 import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
@@ -202,6 +204,29 @@ async function main() {
         }
       });
     } else skip("Browser tests", "the build failed");
+  }
+
+  // The cluster fault run (README, "Running at scale"): `npm run bench:cluster -- --short` on a fresh
+  // cluster of its own (.data/test-cluster, a port block from the test offset): one kill of each kind,
+  // small files; fails when a session is lost, a job is done twice or another check does not hold.
+  // Full runs, and `npm test -- tests/cluster`; RAKELINE_TEST_CLUSTER=off leaves it out.
+  const clusterFilter = filters.some((f) => f.replace(/\\/g, "/").replace(/\/$/, "").endsWith("tests/cluster"));
+  if ((full || clusterFilter) && process.env.RAKELINE_TEST_CLUSTER !== "off" && !existsSync(path.join(repoRoot, "scripts", "job-worker.ts"))) {
+    skip("Cluster fault run", "there is no job worker yet (scripts/job-worker.ts), so a worker cannot be killed in the middle of a job");
+  } else if ((full || clusterFilter) && process.env.RAKELINE_TEST_CLUSTER !== "off") {
+    const offset = Number(process.env.RAKELINE_TEST_PORT_OFFSET || 0);
+    const clusterBase = 5000 + 100 * Math.round(offset / 10);
+    await stage(`Cluster fault run (bench:cluster --short, ports ${clusterBase}-${clusterBase + 99})`, async () => {
+      await ensureDebianPackages([...galeraPackages, haproxyPackage]);
+      rmSync(path.join(repoRoot, ".data", "test-cluster"), { recursive: true, force: true });
+      const built = existsSync(path.join(repoRoot, "build", "server", "index.js")) && results.some((r) => r.stage.startsWith("Build") && r.status === "passed");
+      return node([path.join(repoRoot, "scripts", "bench-cluster.mjs"), "--short"], {
+        ...baseEnv,
+        RAKELINE_CLUSTER_DATA: "test-cluster",
+        RAKELINE_CLUSTER_PORT_BASE: String(clusterBase),
+        RAKELINE_CLUSTER_SKIP_BUILD: built ? "1" : "0",
+      });
+    });
   }
 
   info(`all stages done in ${((Date.now() - started) / 1000).toFixed(0)} s`);
