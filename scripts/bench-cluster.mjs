@@ -245,52 +245,58 @@ async function query(sql, params = [], { tries = 30 } = {}) {
 
 const processesOf = (role) => (readState()?.processes ?? []).filter((p) => p.role === role);
 
-/** The three kills, in the middle of the wave. Resolves with what was done. */
+/**
+ * The three kills, in the middle of the wave, each on its own clock: an app process and the writer node
+ * at set moments, a job worker as soon as one is seen holding a running job's lease. Resolves with what was done.
+ */
 async function faults({ wave }) {
   const done = { app: null, db: null, worker: null };
-  // 1. An app process, while the uploads stream in (their in-flight requests are sent again by the uploader).
-  await sleep(short ? 1500 : 4000);
+  await Promise.all([killApp(done), killWriter(done), killWorker(done, wave)]);
+  return done;
+}
+
+/** An app process, while the uploads stream in (their in-flight requests are sent again by the uploader). */
+async function killApp(done) {
+  await sleep(short ? 1000 : 4000);
   const app = processesOf("app").find((p) => p.up);
-  if (app) {
-    const r = killOutright(app.pid, "serve.mjs");
-    done.app = { name: app.name, pid: app.pid, at: Date.now(), ...r };
-    note(r.killed ? `killed ${app.name} (pid ${app.pid}) with SIGKILL` : `could not kill ${app.name}: ${r.why}`);
-  }
-  // 2. The Galera node that takes the writes (the one HAProxy sends connections to now).
-  await sleep(short ? 1500 : 6000);
+  if (!app) return note("no app process is up: the app kill did not happen");
+  const r = killOutright(app.pid, "serve.mjs");
+  done.app = { name: app.name, pid: app.pid, at: Date.now(), ...r };
+  note(r.killed ? `killed ${app.name} (pid ${app.pid}) with SIGKILL` : `could not kill ${app.name}: ${r.why}`);
+}
+
+/** The Galera node that takes the writes (the one HAProxy sends connections to now). */
+async function killWriter(done) {
+  await sleep(short ? 2500 : 10_000);
   try {
     const [[row]] = await pool.query("SELECT @@wsrep_node_name AS name");
     const node = layout.nodes.find((n) => n.name === row.name);
     const proc = processesOf("db").find((p) => p.name === row.name);
-    if (node && proc) {
-      const r = killOutright(proc.pid, node.datadir);
-      done.db = { name: node.name, pid: proc.pid, at: Date.now(), ...r };
-      note(r.killed ? `killed the writer node ${node.name} (pid ${proc.pid}) with SIGKILL` : `could not kill ${node.name}: ${r.why}`);
-    }
+    if (!node || !proc) return note(`the writer node ${row.name} is not in the state file: the writer kill did not happen`);
+    const r = killOutright(proc.pid, node.datadir);
+    done.db = { name: node.name, pid: proc.pid, at: Date.now(), ...r };
+    note(r.killed ? `killed the writer node ${node.name} (pid ${proc.pid}) with SIGKILL` : `could not kill ${node.name}: ${r.why}`);
   } catch (error) {
     note(`could not find the writer node: ${error.message}`);
   }
-  // 3. A job worker in the middle of a job: the first worker seen holding a running job's lease.
-  const workers = processesOf("worker");
-  if (workers.length === 0) {
-    note("no job worker in the cluster: the worker kill is not possible");
-    return done;
-  }
-  while (!wave.over || Date.now() < wave.jobsDeadline) {
-    const rows = await query("SELECT id, lease_owner FROM jobs WHERE status = 'running' AND lease_owner IS NOT NULL ORDER BY id", [], { tries: 3 }).catch(() => []);
+}
+
+/** A job worker in the middle of a job: the first worker seen holding a running job's lease. */
+async function killWorker(done, wave) {
+  if (processesOf("worker").length === 0) return note("no job worker in the cluster: the worker kill is not possible");
+  while (!wave.jobsFinished && Date.now() < wave.jobsDeadline) {
+    const rows = await query("SELECT id, lease_owner FROM jobs WHERE status = 'running' AND lease_owner IS NOT NULL ORDER BY id", [], { tries: 1 }).catch(() => []);
     for (const job of rows) {
-      const worker = processesOf("worker").find((w) => w.up && leaseOwnerIs(job.lease_owner, { label: w.name, pid: w.pid }));
+      const worker = processesOf("worker").find((w) => w.up && leaseOwnerIs(job.lease_owner, { pid: w.pid }));
       if (!worker) continue;
       const r = killOutright(worker.pid, "cluster-job-worker.ts");
       done.worker = { name: worker.name, pid: worker.pid, jobId: Number(job.id), leaseOwner: job.lease_owner, at: Date.now(), ...r };
-      note(r.killed ? `killed ${worker.name} (pid ${worker.pid}) in the middle of job ${job.id}` : `could not kill ${worker.name}: ${r.why}`);
-      return done;
+      note(r.killed ? `killed ${worker.name} (pid ${worker.pid}) in the middle of job ${job.id} (lease ${job.lease_owner})` : `could not kill ${worker.name}: ${r.why}`);
+      return;
     }
-    if (wave.jobsFinished) break;
     await sleep(100);
   }
   note("no running job could be tied to a worker: the worker kill did not happen");
-  return done;
 }
 
 async function waitForJobs(sessionIds, deadline) {
