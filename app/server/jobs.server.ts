@@ -40,16 +40,17 @@ export async function enqueueJob(
 
 export type ClaimedJob = Job & { attempt: number };
 
-/** Claims one due job for `owner`, or null when there is none. */
-export async function claimJob(owner: string): Promise<ClaimedJob | null> {
+/** Claims one due job for `owner`, or null when there is none. `teamId` limits it to one team's jobs (tools, tests). */
+export async function claimJob(owner: string, only: { teamId?: string } = {}): Promise<ClaimedJob | null> {
   const lease = leaseSeconds();
+  const team = only.teamId ? sql`AND team_id = ${only.teamId}` : sql``;
   for (;;) {
     const outcome = await db.transaction(async (tx) => {
       const [rows] = (await tx.execute(sql`
         SELECT id, attempts, max_attempts AS maxAttempts, status
         FROM jobs
-        WHERE (status = 'queued' AND run_after <= NOW(3))
-           OR (status = 'running' AND lease_expires_at < NOW(3))
+        WHERE ((status = 'queued' AND run_after <= NOW(3))
+           OR (status = 'running' AND lease_expires_at < NOW(3))) ${team}
         ORDER BY run_after, id
         LIMIT 1
         FOR UPDATE SKIP LOCKED`)) as unknown as [Array<{ id: number; attempts: number; maxAttempts: number; status: string }>];
@@ -112,7 +113,8 @@ export async function completeJob(jobId: number, owner: string, write: (tx: Tx) 
       .for("update");
     if (!row) return false;
     await write(tx);
-    await tx.update(jobs).set({ status: "done", error: null, leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` }).where(eq(jobs.id, jobId));
+    // The lease owner stays on the row: which worker did the job.
+    await tx.update(jobs).set({ status: "done", error: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` }).where(eq(jobs.id, jobId));
     return true;
   });
 }
