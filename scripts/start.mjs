@@ -8,7 +8,7 @@ import { ensureNodeModules } from "./lib/deps.mjs";
 import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
-import { buildApp, serveApp } from "./lib/app-server.mjs";
+import { buildApp, serveApp, startJobWorker } from "./lib/app-server.mjs";
 import { assertPortFree, banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 import { stopAndConfirm } from "./lib/shutdown.mjs";
@@ -103,6 +103,15 @@ async function main() {
   children.push({ name: "app server", pid: server.pid });
   server.exited.then(({ code, signal }) => {
     if (!stopping) void shutdown(1, `the app server exited on its own (code ${code}, signal ${signal}); stopping the rest`);
+  });
+
+  banner("Job worker (scripts/job-worker.ts: the server's re-checks of uploaded logs)");
+  const worker = await startJobWorker(repoRoot, env, { healthPort: instance.workerHealthPort });
+  stack.push("job worker", worker.stop);
+  lock.record("job worker", worker.pid, worker.marker);
+  children.push({ name: "job worker", pid: worker.pid });
+  worker.exited.then(({ code, signal }) => {
+    if (!stopping) void shutdown(1, `the job worker exited on its own (code ${code}, signal ${signal}); stopping the rest`);
   });
 
   banner("Rakeline is running");

@@ -10,7 +10,7 @@ import { ensureNodeModules } from "./lib/deps.mjs";
 import { appEnvironment, instances, repoRoot } from "./lib/env.mjs";
 import { startMariaDB } from "./lib/mariadb.mjs";
 import { applyMigrations } from "./lib/migrate.mjs";
-import { buildApp, serveApp } from "./lib/app-server.mjs";
+import { buildApp, serveApp, startJobWorker } from "./lib/app-server.mjs";
 import { assertPortFree, banner, createStack, info, packageBin, run, UserFacingError, watchParent } from "./lib/proc.mjs";
 import { acquireRunLock } from "./lib/run-lock.mjs";
 
@@ -197,10 +197,14 @@ async function main() {
         const server = await serveApp(repoRoot, appEnv);
         stack.push("app server (test)", server.stop);
         lock.record("app server", server.pid, server.marker);
+        // The server's re-checks of what the browser tests upload.
+        const worker = await startJobWorker(repoRoot, appEnv, { healthPort: instance.workerHealthPort });
+        stack.push("job worker (test)", worker.stop);
+        lock.record("job worker", worker.pid, worker.marker);
         try {
           return await node(vitestArgs(vitest, "browser", ["--config", "vitest.e2e.config.ts", ...filters]), vitestEnv);
         } finally {
-          if (!stopping) await server.stop();
+          if (!stopping) await Promise.all([server.stop(), worker.stop()]);
         }
       });
     } else skip("Browser tests", "the build failed");

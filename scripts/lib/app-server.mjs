@@ -38,3 +38,32 @@ export async function serveApp(root, env) {
     stop: () => terminatePid(service.child.pid, { timeoutMs: 12_000, group: true }),
   };
 }
+
+/** What the job worker's command line contains (for the run lock). */
+export const WORKER_MARKER = "scripts/job-worker.ts";
+
+/**
+ * One job worker process (scripts/job-worker.ts: the server's re-checks of uploaded logs), started with the
+ * app's environment; resolves once its health listener answers. Resolves with { pid, stop, exited, marker }.
+ */
+export async function startJobWorker(root, env, { healthPort }) {
+  await assertPortFree("127.0.0.1", healthPort, "Another job worker may be running; stop it first.");
+  const service = spawnService("job worker", process.execPath, ["--import", "tsx", WORKER_MARKER], {
+    cwd: root,
+    env: { ...process.env, ...env, HEALTH_PORT: String(healthPort), JOB_WORKER_LABEL: "worker" },
+  });
+  try {
+    await waitForHttp(`http://127.0.0.1:${healthPort}/healthz`, { timeoutMs: 60_000, service });
+  } catch (error) {
+    await terminatePid(service.child.pid, { group: true });
+    throw error instanceof UserFacingError ? error : new UserFacingError(error.message);
+  }
+  info(`job worker is up (pid ${service.child.pid}, health on 127.0.0.1:${healthPort})`);
+  return {
+    pid: service.child.pid,
+    exited: service.exited,
+    marker: WORKER_MARKER,
+    // The worker finishes its current job for up to 10 s after SIGTERM; escalate after 15 s.
+    stop: () => terminatePid(service.child.pid, { timeoutMs: 15_000, group: true }),
+  };
+}

@@ -26,6 +26,8 @@ export const instances = {
     mailDir: path.join(dataDir, "mail"),
     uploadDir: path.join(dataDir, "uploads"),
     smtpPort: 2525,
+    // The job worker's /healthz and /readyz (loopback).
+    workerHealthPort: 3010,
     appHost: process.env.HOST || "127.0.0.1",
     appPort: Number(process.env.PORT || 3000),
   },
@@ -42,6 +44,7 @@ export const instances = {
     appPort: 3100 + testPortOffset,
     // The S3-compatible fake (s3rver) the storage tests run against; its files in s3Dir, emptied each run.
     s3Port: 3600 + testPortOffset,
+    workerHealthPort: 3700 + testPortOffset,
     s3Dir: path.join(dataDir, "test-s3"),
     s3Bucket: "rakeline-test",
   },
