@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { jobs } from "~/db/schema/jobs";
 import { analysisSessions, sessionResults } from "~/db/schema/sessions";
 import { db } from "~/server/db.server";
-import { engineOptionsOf } from "~/lib/sessions/details";
+import { engineOptionsOf, type SessionDetails } from "~/lib/sessions/details";
 import { claimJob, completeJob, enqueueJob, failJob, heartbeat } from "~/server/jobs.server";
 import { storeSessionOfRecord } from "~/server/ingest/store.server";
 import { putStream } from "~/server/storage.server";
@@ -64,7 +64,7 @@ function stopWorker(child: ChildProcess): Promise<void> {
 async function browserSession(log: string, carName: "marlin-sr2" | "vesper-gt4r", date: string) {
   const file = `${LOGS}/${log}.csv`;
   const raw = await putStream(Buffer.from(readFileSync(file)) as unknown as AsyncIterable<Uint8Array>, { keyPrefix: `teams/${w.teamId}` });
-  const details = { carId: w.cars[carName].carId, setupId: w.cars[carName].setupId, date, venueName: "Kestrel Bank Raceway" };
+  const details: SessionDetails = { carId: w.cars[carName].carId, setupId: w.cars[carName].setupId, date, venueName: "Kestrel Bank Raceway" };
   const options = engineOptionsOf(details, { venueAltitudeM: null, carFuelDensityKgPerL: 0.745 });
   const summary = await browserSummary(w.teamId, w.cars[carName], file, mapOf(log), options);
   const { traces, ...rest } = summary;
