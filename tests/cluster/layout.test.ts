@@ -2,8 +2,8 @@
 // procedure of the Galera documentation, "Restarting the cluster": the node whose grastate.dat says
 // safe_to_bootstrap: 1, else the highest recovered seqno), the node arguments Galera requires
 // (binlog_format=ROW, innodb_autoinc_lock_mode=2, distinct ports per node), and what HAProxy's
-// configuration routes where (Debian's haproxy validates the same text in the cluster stage,
-// tests/cluster/fault-run.cluster.ts).
+// configuration routes where (Debian's haproxy loads the same text in the cluster fault run, the
+// cluster stage of npm test: scripts/bench-cluster.mjs --short).
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
