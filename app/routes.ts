@@ -60,6 +60,8 @@ export default [
   route("api/t/:teamSlug/uploads", "routes/api/uploads.ts"),
   route("api/t/:teamSlug/sessions", "routes/api/team-sessions.ts"),
   route("api/t/:teamSlug/logger-profiles", "routes/api/logger-profiles.ts"),
+  // Headless ingest (POST, API token) and the session list (GET, token or cookie).
+  route("api/sessions", "routes/api/sessions.ts"),
 
   // Data API of the Balance report and Compare (token or cookie; see /api/openapi.json).
   route("api/sessions/:sessionId", "routes/api/session-summary.ts"),

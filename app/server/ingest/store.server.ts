@@ -37,8 +37,14 @@ export type StoreSessionInput = {
   summary: Omit<SessionSummary, "traces">;
   traces: unknown;
   engineVersion: string;
-  /** Who ran the engine: the browser (re-checked by a job) or the server itself (API, seed: of record at once). */
+  /** Who ran the engine: the browser, or the server itself (API upload, seed). */
   origin: "browser" | "server";
+  /**
+   * Queue the job worker's re-check of the stored file (default: yes for a browser summary). The API
+   * queues it too: its answer comes from a quick run in the request; the worker's threaded run is then
+   * compared with it and becomes the summary of record.
+   */
+  enqueueCheck?: boolean;
   /** Save the map as a Logger profile under this name (the header's columns give its signature). */
   profile?: { name: string; columns: string[] };
   createdAt?: Date;
@@ -85,6 +91,7 @@ export async function storeSessionOfRecord(input: StoreSessionInput): Promise<St
   if (before) return { ok: true, id: before.id, url: sessionUrl(input.teamSlug, before.id), duplicate: true };
   const id = randomUUID();
   const now = input.createdAt ?? new Date();
+  const check = input.enqueueCheck ?? input.origin === "browser";
   try {
     await db.transaction(async (tx) => {
       const { details, teamId } = input;
@@ -122,7 +129,7 @@ export async function storeSessionOfRecord(input: StoreSessionInput): Promise<St
         setupId: setup.id,
         name: sessionName(details, venue?.name ?? null, input.raw.fileName),
         recordedAt: null,
-        status: input.origin === "browser" ? "read" : "checked",
+        status: check ? "read" : "checked",
         summaryVersion: input.summary.summary_version,
         summary: input.summary,
         createdBy: input.userId,
@@ -150,9 +157,14 @@ export async function storeSessionOfRecord(input: StoreSessionInput): Promise<St
         analysisOptions: input.options,
         engineVersion: input.engineVersion,
         traces: input.traces ?? null,
-        browserSummary: input.origin === "browser" ? input.summary : null,
-        statusDetail: input.origin === "browser" ? "Read in the browser; the server's re-check is queued." : "Analysed by the server from the stored file.",
-        checkedAt: input.origin === "server" ? now : null,
+        // The first reading of the file, which the re-check compares with (the browser's, or the API's quick run).
+        browserSummary: check ? input.summary : null,
+        statusDetail: !check
+          ? "Analysed by the server from the stored file."
+          : input.origin === "browser"
+            ? "Read in the browser; the server's re-check is queued."
+            : "Analysed on upload; the job worker's re-check is queued.",
+        checkedAt: check ? null : now,
         updatedAt: now,
       });
       const bands = bandRowsOf(id, input.summary as SessionSummary);
@@ -199,7 +211,7 @@ export async function storeSessionOfRecord(input: StoreSessionInput): Promise<St
         await tx.update(analysisSessions).set({ rawUploadId: uploadId }).where(eq(analysisSessions.id, id));
       }
 
-      if (input.origin === "browser") {
+      if (check) {
         await enqueueJob(tx, { kind: "session_check", teamId, sessionId: id, payload: { reason: "recheck" } });
       }
 
