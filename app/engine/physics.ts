@@ -1,7 +1,8 @@
 /**
  * Per-sample physics (app/engine/README.md §1 conventions): damper travel positive in compression,
  * MR = damper travel / wheel travel, rates and gaps at the damper.
- * Pure scalar functions; the summary's hot loop inlines the same arithmetic.
+ * Pure scalar functions; the summary runs these very functions (summary-loop.ts, summary-bands.ts),
+ * so the tests that check them against textbook formulas check the summary's arithmetic.
  */
 import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
 

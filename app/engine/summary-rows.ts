@@ -82,12 +82,6 @@ export function timeAndBandPass(
   s.rows = rows; s.t0 = t0; s.tLast = tLast; s.blockStart = blockStart; s.blockEnd = blockEnd; s.owned = owned;
 }
 
-/** Yaw-rate sign check: votes of sign(yaw·ay) over clear cornering samples. */
-export interface YawSign {
-  yawSignDot: number;
-  yawSignN: number;
-}
-
 /**
  * Understeer pass: quasi-steady cornering samples per band, in segments (runs of consecutive passing
  * samples); straight-line samples give the steering offset. Closes the accumulator's time block
@@ -97,13 +91,12 @@ export interface YawSign {
 export function understeerPass(
   count: number, flag: Uint8Array, bandOf: Int32Array,
   mV: Float64Array, mAY: Float64Array, mAX: Float64Array, mSTEER: Float64Array, mYAW: Float64Array, sSTEER: Float64Array, sAY: Float64Array,
-  us: UndersteerAccumulator, g: SummaryGates, steeringRatio: number, wheelbaseM: number, blockMinUs: number, yawSign: YawSign,
+  us: UndersteerAccumulator, g: SummaryGates, steeringRatio: number, wheelbaseM: number, blockMinUs: number,
 ): void {
   const usMinV = g.us_min_speed_kmh / KMH_PER_M_PER_S, straightMinV = g.straight_min_speed_kmh / KMH_PER_M_PER_S;
   const straightLat = g.straight_max_lat_g, straightRate = g.straight_max_steer_rate_deg_s, usLat = g.us_min_lat_g, usRate = g.us_max_steer_rate_deg_s;
   const usJerk = g.us_max_lat_jerk_g_s * G, usLongMs2 = g.us_max_long_g * G;
   const ratio = steeringRatio, invRatio = 1 / ratio, geomPerKappa = DEG_PER_RAD * wheelbaseM;
-  let usDot = us.signDot, usNorm = us.signNorm, yawDot = yawSign.yawSignDot, yawN = yawSign.yawSignN;
   for (let j = 0; j < count; j++) {
     const f = flag[j];
     if (f === 0) continue;
@@ -125,11 +118,7 @@ export function understeerPass(
       } else if (((band >= 0 ? 1 : 0) & (absAy >= usLat ? 1 : 0) & (steerRate <= usRate ? 1 : 0) & (Math.abs(sAY[j]) <= usJerk ? 1 : 0) & (Math.abs(mAX[j]) <= usLongMs2 ? 1 : 0)) === 1) {
         const road = steer * invRatio;
         us.addCorner(band, ayG, road - geom);
-        usDot += road * geom;
-        usNorm += geom * geom;
       } else us.endSegment();
     } else us.endSegment();
-    if (yaw === yaw && absAy > 0.3) { yawDot += yaw * ayG > 0 ? 1 : -1; yawN++; }
   }
-  us.signDot = usDot; us.signNorm = usNorm; yawSign.yawSignDot = yawDot; yawSign.yawSignN = yawN;
 }

@@ -43,8 +43,6 @@ export class UndersteerAccumulator {
   offsetN = 0; offsetSum = 0; offsetSumSq = 0;
   offsetBlocks = 0; offsetBlockSum = 0; offsetBlockSumSq = 0;
   private obN = 0; private obSum = 0;
-  /** Sign checks: Σ δ_road·geom and Σ geom² over cornering samples. */
-  signDot = 0; signNorm = 0;
 
   constructor(bandCount: number) {
     this.bandCount = bandCount;

@@ -1,0 +1,187 @@
+/**
+ * Sign evidence: one accumulator and one verdict for the start-of-log check (sign-check.ts) and the
+ * session summary (summary-checks.ts), so the two cannot disagree on the same rows.
+ *
+ * Each test leans on a relation that holds whatever the car (common practice, from the kinematics):
+ * - long_accel: the longitudinal acceleration is the rate of change of speed d = dv/dt (speed is a
+ *   magnitude, so its sign cannot be wrong): the logged channel must rise and fall with d. The same
+ *   sums weigh their sizes (unit-check.ts): a ratio near 9.8, 3.6 or 1.6 is a unit mapped wrongly.
+ * - dampers (compression positive): braking pitches the car nose-down, so front dampers compress and
+ *   rear ones extend as d goes negative, and downforce compresses all four as q grows. Each corner is
+ *   fitted on its own, x = a + b·d + c·q, over near-straight running; a corner is called inverted only
+ *   when the pitch term has the wrong sign and the aero term does not have the right one.
+ * - lat_accel, steer, yaw_rate (left turn positive for all three): in corners they agree in sign.
+ *   With all three logged, the one that disagrees with the other two is the one to invert; with two,
+ *   a disagreement is reported without naming a culprit.
+ *
+ * The sums are plain (Σx, Σxy, …) so a log analysed in parts adds them up. The inputs are the
+ * summary's smoothed channels (summary-options.ts smoothing lengths) in SI units.
+ */
+import { solveNormalEquations } from "./regression";
+import { STANDARD_GRAVITY_M_PER_S2 } from "./units";
+import { longAccelScaleProblem } from "./unit-check";
+import type { ChannelName } from "./types";
+
+const G = STANDARD_GRAVITY_M_PER_S2;
+/** ISA sea-level density: the test needs only the sign and shape of q, not its exact size. */
+const RHO = 1.225;
+/** Speed floor of every test (m/s, 36 km/h). */
+export const SIGN_MIN_SPEED_MS = 10;
+/** Near-straight running (|ay| below, m/s²) for the dampers, and cornering (|ay| at least) for the lateral channels. */
+const STRAIGHT_MS2 = 0.15 * G;
+const CORNER_MS2 = 0.3 * G;
+/** |dv/dt| that counts as braking or accelerating (m/s²). */
+const EVENT_MS2 = 0.15 * G;
+/** Least samples (braking or accelerating, near-straight, or cornering) before a test gives a verdict. */
+const MIN_EVENT_SAMPLES = 200;
+/** Correlation beyond which two channels agree (or, negated, disagree). */
+const AGREE_R = 0.3;
+/** Damper terms: at least 0.05 mm per m/s² of pitch (0.5 mm per g) and t ≥ 5 to count. */
+const MIN_PITCH_MM_PER_MS2 = 0.05;
+const MIN_T = 5;
+
+// Layout of the sums. long_accel against d: n, Σd, Σd², Σa, Σa², Σa·d, events.
+const A_N = 0, A_D = 1, A_DD = 2, A_A = 3, A_AA = 4, A_AD = 5, A_EV = 6;
+// Dampers over near-straight running with all four read: n, Σd, Σq, Σd², Σd·q, Σq², then per corner Σx, Σd·x, Σq·x, Σx².
+const D_N = 7, D_D = 8, D_Q = 9, D_DD = 10, D_DQ = 11, D_QQ = 12, D_CORNER = 13;
+// Lateral pairs over cornering: steer–lat, yaw–lat, steer–yaw; n, Σx, Σy, Σx², Σy², Σx·y each.
+const L_SL = 29, L_YL = 35, L_SY = 41;
+export const SIGN_SUMS = 47;
+
+export type SignSums = Float64Array;
+
+export function createSignSums(): SignSums {
+  return new Float64Array(SIGN_SUMS);
+}
+
+function addPair(s: SignSums, o: number, x: number, y: number): void {
+  s[o]++; s[o + 1] += x; s[o + 2] += y; s[o + 3] += x * x; s[o + 4] += y * y; s[o + 5] += x * y;
+}
+
+/**
+ * One row of smoothed channels (SI: v m/s, d = dv/dt m/s², ax and ay m/s², steer deg, yaw deg/s,
+ * dampers mm; NaN where not logged or dropped out).
+ */
+export function addSignSample(s: SignSums, v: number, d: number, ax: number, ay: number, steer: number, yaw: number, xfl: number, xfr: number, xrl: number, xrr: number): void {
+  if (!(v >= SIGN_MIN_SPEED_MS) || d !== d) return;
+  if (ax === ax) {
+    s[A_N]++; s[A_D] += d; s[A_DD] += d * d; s[A_A] += ax; s[A_AA] += ax * ax; s[A_AD] += ax * d;
+    if (d >= EVENT_MS2 || d <= -EVENT_MS2) s[A_EV]++;
+  }
+  const absAy = ay < 0 ? -ay : ay;
+  if (absAy < STRAIGHT_MS2) {
+    if (xfl !== xfl || xfr !== xfr || xrl !== xrl || xrr !== xrr) return;
+    const q = 0.5 * RHO * v * v;
+    s[D_N]++; s[D_D] += d; s[D_Q] += q; s[D_DD] += d * d; s[D_DQ] += d * q; s[D_QQ] += q * q;
+    let o = D_CORNER;
+    s[o] += xfl; s[o + 1] += d * xfl; s[o + 2] += q * xfl; s[o + 3] += xfl * xfl; o += 4;
+    s[o] += xfr; s[o + 1] += d * xfr; s[o + 2] += q * xfr; s[o + 3] += xfr * xfr; o += 4;
+    s[o] += xrl; s[o + 1] += d * xrl; s[o + 2] += q * xrl; s[o + 3] += xrl * xrl; o += 4;
+    s[o] += xrr; s[o + 1] += d * xrr; s[o + 2] += q * xrr; s[o + 3] += xrr * xrr;
+  } else if (absAy >= CORNER_MS2) {
+    if (steer === steer) addPair(s, L_SL, steer, ay);
+    if (yaw === yaw) addPair(s, L_YL, yaw, ay);
+    if (steer === steer && yaw === yaw) addPair(s, L_SY, steer, yaw);
+  }
+}
+
+/** Pearson correlation of a pair's sums; NaN without spread. */
+function pairCorrelation(s: SignSums, o: number): number {
+  const n = s[o];
+  if (!(n > 2)) return NaN;
+  const cxx = s[o + 3] - (s[o + 1] * s[o + 1]) / n, cyy = s[o + 4] - (s[o + 2] * s[o + 2]) / n, cxy = s[o + 5] - (s[o + 1] * s[o + 2]) / n;
+  return cxx > 0 && cyy > 0 ? cxy / Math.sqrt(cxx * cyy) : NaN;
+}
+
+export interface SignCheck {
+  channel: ChannelName;
+  /** "check_unit": the sign is right but the size says the mapped unit is not the logged one. */
+  verdict: "consistent" | "invert" | "unclear" | "check_unit";
+  detail: string;
+  /** The channels disagree (a flip is needed, though the log may not tell which): figures resting on them are unsound. */
+  conflict?: boolean;
+  /** long_accel: the correlation with dv/dt and the size ratio σ(long_accel)/σ(dv/dt). */
+  correlation?: number;
+  scale?: number;
+  /** check_unit: whether the speed channel (so every q and curvature) is the suspect. */
+  speedSuspect?: boolean;
+}
+
+const DAMPERS = ["damper_fl", "damper_fr", "damper_rl", "damper_rr"] as const;
+
+/**
+ * The verdicts for the channels present. `where` names the stretch of log the sums came from ("at
+ * the start of the log", "in the log") for the messages.
+ */
+export function signVerdicts(s: SignSums, present: (c: ChannelName) => boolean, where: string): SignCheck[] {
+  const out: SignCheck[] = [];
+  if (present("long_accel")) out.push(longAccelVerdict(s, where));
+  DAMPERS.forEach((ch, c) => {
+    if (present(ch)) out.push(damperVerdict(s, ch, c, where));
+  });
+  out.push(...lateralVerdicts(s, present("steer"), present("yaw_rate"), where));
+  return out;
+}
+
+/** long_accel's sign against dv/dt, then its size (unit-check.ts): a unit slip names long_accel or speed. */
+function longAccelVerdict(s: SignSums, where: string): SignCheck {
+  const channel = "long_accel";
+  const n = s[A_N];
+  const varD = s[A_DD] / n - (s[A_D] / n) ** 2, varA = s[A_AA] / n - (s[A_A] / n) ** 2;
+  const r = (s[A_AD] / n - (s[A_A] / n) * (s[A_D] / n)) / Math.sqrt(varD * varA);
+  const scale = Math.sqrt(varA / varD);
+  const base = { correlation: r, scale };
+  if (s[A_EV] < MIN_EVENT_SAMPLES || !Number.isFinite(r)) return { channel, verdict: "unclear", detail: `too little braking or accelerating above 36 km/h ${where} to check the sign`, ...base };
+  if (r <= -AGREE_R) return { channel, verdict: "invert", detail: `reads opposite to the change of speed (correlation ${r.toFixed(2)}): braking must read negative`, conflict: true, ...base };
+  if (r < AGREE_R) return { channel, verdict: "unclear", detail: `barely follows the change of speed (correlation ${r.toFixed(2)}): check the column and its unit`, ...base };
+  const slip = longAccelScaleProblem(scale);
+  if (!slip) return { channel, verdict: "consistent", detail: `follows the change of speed (correlation ${r.toFixed(2)}, size ratio ${scale.toFixed(2)})`, ...base };
+  return { channel: slip.speed ? "speed" : "long_accel", verdict: "check_unit", detail: slip.problem, speedSuspect: slip.speed, ...base };
+}
+
+function damperVerdict(s: SignSums, channel: (typeof DAMPERS)[number], corner: number, where: string): SignCheck {
+  const o = D_CORNER + 4 * corner;
+  const xtx = [s[D_N], s[D_D], s[D_Q], s[D_D], s[D_DD], s[D_DQ], s[D_Q], s[D_DQ], s[D_QQ]];
+  const fit = s[D_N] >= MIN_EVENT_SAMPLES ? solveNormalEquations(xtx, [s[o], s[o + 1], s[o + 2]], s[o + 3], s[D_N], 3) : null;
+  if (!fit) return { channel, verdict: "unclear", detail: `too little near-straight running above 36 km/h ${where} to check the sign` };
+  const front = corner < 2;
+  const b = fit.beta[1], c = fit.beta[2];
+  const tb = b / fit.se[1], tc = c / fit.se[2];
+  // Pitch term in the expected direction: front b < 0 (compresses under braking), rear b > 0.
+  const pitch = front ? -b : b, pitchT = front ? -tb : tb;
+  const pitchRight = pitch >= MIN_PITCH_MM_PER_MS2 && pitchT >= MIN_T, pitchWrong = -pitch >= MIN_PITCH_MM_PER_MS2 && -pitchT >= MIN_T;
+  const aeroRight = tc >= MIN_T, aeroWrong = -tc >= MIN_T;
+  const underBraking = -b * G;
+  const how = `${underBraking > 0 ? "compresses" : "extends"} ${Math.abs(underBraking).toFixed(1)} mm per g of braking`;
+  const rule = front ? "a front damper must compress under braking" : "a rear damper must extend under braking";
+  if (pitchWrong && !aeroRight) return { channel, verdict: "invert", detail: `${how}${aeroWrong ? " and extends as downforce grows" : ""}: ${rule} (compression positive)`, conflict: true };
+  if (pitchRight && !aeroWrong) return { channel, verdict: "consistent", detail: `${how}${aeroRight ? " and compresses as downforce grows" : ""}` };
+  return { channel, verdict: "unclear", detail: `pitch and downforce do not tell a clear sign ${where}` };
+}
+
+function lateralVerdicts(s: SignSums, hasSteer: boolean, hasYaw: boolean, where: string): SignCheck[] {
+  const sign = (o: number) => {
+    const r = pairCorrelation(s, o);
+    return s[o] < MIN_EVENT_SAMPLES || !Number.isFinite(r) ? 0 : r >= AGREE_R ? 1 : r <= -AGREE_R ? -1 : 0;
+  };
+  const few = `too little cornering above 36 km/h ${where} to check the sign`;
+  const names: ChannelName[] = ["lat_accel", ...(hasSteer ? (["steer"] as const) : []), ...(hasYaw ? (["yaw_rate"] as const) : [])];
+  const all = (verdict: SignCheck["verdict"], detail: string, conflict = false) => names.map((channel) => ({ channel, verdict, detail, ...(conflict ? { conflict } : {}) }));
+  if (hasSteer && hasYaw) {
+    const sl = sign(L_SL), yl = sign(L_YL), sy = sign(L_SY);
+    if (sl === 0 || yl === 0 || sy === 0) return all("unclear", few);
+    if (sl > 0 && yl > 0 && sy > 0) return all("consistent", "lat_accel, steer and yaw_rate agree in sign in corners");
+    // Exactly one pair agrees when one channel is flipped: the channel outside that pair is the odd one.
+    const odd: ChannelName | null = sl > 0 && yl < 0 && sy < 0 ? "yaw_rate" : yl > 0 && sl < 0 && sy < 0 ? "steer" : sy > 0 && sl < 0 && yl < 0 ? "lat_accel" : null;
+    if (!odd) return all("unclear", "lat_accel, steer and yaw_rate disagree in sign in corners in a way no single flip explains: check the columns", true);
+    return names.map((channel) => channel === odd
+      ? { channel, verdict: "invert" as const, detail: "has the opposite sign to the other two in corners (left turn positive for all three)", conflict: true }
+      : { channel, verdict: "consistent" as const, detail: `agrees with ${names.filter((n) => n !== odd && n !== channel).join(" and ")} in corners` });
+  }
+  if (!hasSteer && !hasYaw) return [{ channel: "lat_accel", verdict: "unclear", detail: "no steer or yaw_rate channel to check the sign against" }];
+  const other = hasSteer ? "steer" : "yaw_rate";
+  const p = sign(hasSteer ? L_SL : L_YL);
+  if (p === 0) return all("unclear", few);
+  if (p > 0) return all("consistent", `lat_accel and ${other} agree in sign in corners`);
+  return all("unclear", `lat_accel and ${other} have opposite signs in corners: invert one of them (left turn positive for both); the log alone cannot tell which`, true);
+}
