@@ -12,7 +12,7 @@
 import { EngineError } from "./errors";
 import { BlockSmoother } from "./filters";
 import { ingestLog } from "./ingest";
-import { addSignSample, createSignSums, signVerdicts } from "./sign-evidence";
+import { addSignRows, createSignSums, signVerdicts } from "./sign-evidence";
 import type { SignCheck } from "./sign-evidence";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { resolveOptions } from "./summary-options";
@@ -50,10 +50,8 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   const sums = createSignSums();
   const cols: (Float64Array | null)[] = new Array(CHANNELS.length).fill(null);
   const consume = (count: number) => {
-    const m = sm.mean, dv = sm.slope[V];
-    for (let j = 0; j < count; j++) {
-      addSignSample(sums, m[V][j], dv[j], m[AX][j], m[AY][j], m[STEER][j], m[YAW][j], m[D0][j], m[D0 + 1][j], m[D0 + 2][j], m[D0 + 3][j]);
-    }
+    const m = sm.mean;
+    addSignRows(sums, count, null, m[V], sm.slope[V], m[AX], m[AY], m[STEER], m[YAW], m[D0], m[D0 + 1], m[D0 + 2], m[D0 + 3]);
   };
   for (const b of blocks) {
     CHANNELS.forEach((c, k) => (cols[k] = b.channels[c] ?? null));

@@ -59,30 +59,59 @@ function addPair(s: SignSums, o: number, x: number, y: number): void {
 }
 
 /**
- * One row of smoothed channels (SI: v m/s, d = dv/dt m/s², ax and ay m/s², steer deg, yaw deg/s,
- * dampers mm; NaN where not logged or dropped out).
+ * The sign evidence of `count` smoothed rows (SI: v m/s, d = dv/dt m/s², ax and ay m/s², steer deg,
+ * yaw deg/s, dampers mm; NaN where not logged or dropped out). `flag[j] === 0` skips a row (a part's
+ * lead-in or run-out); pass null to take every row. The sums live in locals for the loop and are
+ * written back at the end.
  */
-export function addSignSample(s: SignSums, v: number, d: number, ax: number, ay: number, steer: number, yaw: number, xfl: number, xfr: number, xrl: number, xrr: number): void {
-  if (!(v >= SIGN_MIN_SPEED_MS) || d !== d) return;
-  if (ax === ax) {
-    s[A_N]++; s[A_D] += d; s[A_DD] += d * d; s[A_A] += ax; s[A_AA] += ax * ax; s[A_AD] += ax * d;
-    if (d >= EVENT_MS2 || d <= -EVENT_MS2) s[A_EV]++;
+export function addSignRows(
+  s: SignSums, count: number, flag: Uint8Array | null,
+  mV: Float64Array, sV: Float64Array, mAX: Float64Array, mAY: Float64Array, mSTEER: Float64Array, mYAW: Float64Array,
+  mFL: Float64Array, mFR: Float64Array, mRL: Float64Array, mRR: Float64Array,
+): void {
+  let aN = s[A_N], aD = s[A_D], aDD = s[A_DD], aA = s[A_A], aAA = s[A_AA], aAD = s[A_AD], aEv = s[A_EV];
+  let dN = s[D_N], dD = s[D_D], dQ = s[D_Q], dDD = s[D_DD], dDQ = s[D_DQ], dQQ = s[D_QQ];
+  let c = D_CORNER;
+  let fl0 = s[c], fl1 = s[c + 1], fl2 = s[c + 2], fl3 = s[c + 3]; c += 4;
+  let fr0 = s[c], fr1 = s[c + 1], fr2 = s[c + 2], fr3 = s[c + 3]; c += 4;
+  let rl0 = s[c], rl1 = s[c + 1], rl2 = s[c + 2], rl3 = s[c + 3]; c += 4;
+  let rr0 = s[c], rr1 = s[c + 1], rr2 = s[c + 2], rr3 = s[c + 3];
+  const halfRho = 0.5 * RHO;
+  for (let j = 0; j < count; j++) {
+    if (flag !== null && flag[j] === 0) continue;
+    const v = mV[j], d = sV[j];
+    if (!(v >= SIGN_MIN_SPEED_MS) || d !== d) continue;
+    const ax = mAX[j];
+    if (ax === ax) {
+      aN++; aD += d; aDD += d * d; aA += ax; aAA += ax * ax; aAD += ax * d;
+      if (d >= EVENT_MS2 || d <= -EVENT_MS2) aEv++;
+    }
+    const ay = mAY[j];
+    const absAy = ay < 0 ? -ay : ay;
+    if (absAy < STRAIGHT_MS2) {
+      const xfl = mFL[j], xfr = mFR[j], xrl = mRL[j], xrr = mRR[j];
+      if (xfl !== xfl || xfr !== xfr || xrl !== xrl || xrr !== xrr) continue;
+      const q = halfRho * v * v;
+      dN++; dD += d; dQ += q; dDD += d * d; dDQ += d * q; dQQ += q * q;
+      fl0 += xfl; fl1 += d * xfl; fl2 += q * xfl; fl3 += xfl * xfl;
+      fr0 += xfr; fr1 += d * xfr; fr2 += q * xfr; fr3 += xfr * xfr;
+      rl0 += xrl; rl1 += d * xrl; rl2 += q * xrl; rl3 += xrl * xrl;
+      rr0 += xrr; rr1 += d * xrr; rr2 += q * xrr; rr3 += xrr * xrr;
+    } else if (absAy >= CORNER_MS2) {
+      // Cornering is a minority of rows: the pairs' sums go straight to the array.
+      const steer = mSTEER[j], yaw = mYAW[j];
+      if (steer === steer) addPair(s, L_SL, steer, ay);
+      if (yaw === yaw) addPair(s, L_YL, yaw, ay);
+      if (steer === steer && yaw === yaw) addPair(s, L_SY, steer, yaw);
+    }
   }
-  const absAy = ay < 0 ? -ay : ay;
-  if (absAy < STRAIGHT_MS2) {
-    if (xfl !== xfl || xfr !== xfr || xrl !== xrl || xrr !== xrr) return;
-    const q = 0.5 * RHO * v * v;
-    s[D_N]++; s[D_D] += d; s[D_Q] += q; s[D_DD] += d * d; s[D_DQ] += d * q; s[D_QQ] += q * q;
-    let o = D_CORNER;
-    s[o] += xfl; s[o + 1] += d * xfl; s[o + 2] += q * xfl; s[o + 3] += xfl * xfl; o += 4;
-    s[o] += xfr; s[o + 1] += d * xfr; s[o + 2] += q * xfr; s[o + 3] += xfr * xfr; o += 4;
-    s[o] += xrl; s[o + 1] += d * xrl; s[o + 2] += q * xrl; s[o + 3] += xrl * xrl; o += 4;
-    s[o] += xrr; s[o + 1] += d * xrr; s[o + 2] += q * xrr; s[o + 3] += xrr * xrr;
-  } else if (absAy >= CORNER_MS2) {
-    if (steer === steer) addPair(s, L_SL, steer, ay);
-    if (yaw === yaw) addPair(s, L_YL, yaw, ay);
-    if (steer === steer && yaw === yaw) addPair(s, L_SY, steer, yaw);
-  }
+  s[A_N] = aN; s[A_D] = aD; s[A_DD] = aDD; s[A_A] = aA; s[A_AA] = aAA; s[A_AD] = aAD; s[A_EV] = aEv;
+  s[D_N] = dN; s[D_D] = dD; s[D_Q] = dQ; s[D_DD] = dDD; s[D_DQ] = dDQ; s[D_QQ] = dQQ;
+  c = D_CORNER;
+  s[c] = fl0; s[c + 1] = fl1; s[c + 2] = fl2; s[c + 3] = fl3; c += 4;
+  s[c] = fr0; s[c + 1] = fr1; s[c + 2] = fr2; s[c + 3] = fr3; c += 4;
+  s[c] = rl0; s[c + 1] = rl1; s[c + 2] = rl2; s[c + 3] = rl3; c += 4;
+  s[c] = rr0; s[c + 1] = rr1; s[c + 2] = rr2; s[c + 3] = rr3;
 }
 
 /** Pearson correlation of a pair's sums; NaN without spread. */

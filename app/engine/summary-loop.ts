@@ -1,13 +1,12 @@
 /**
  * The row loop's aero pass (stage 1 of the summary, with summary-rows.ts): per smoothed row, the
  * axle forces from damper travel (springs, bump stops, longitudinal load transfer), the static
- * estimate from slow running, the bump-stop contact histogram, the sign evidence, and the gated aero
+ * estimate from slow running, the bump-stop contact histogram, and the gated aero
  * sums. Plain indexed arithmetic on typed arrays; the per-row path allocates nothing.
  */
 import { BAND_CUR_STRIDE, BAND_STRIDE } from "./aero";
 import type { BlockSmoother } from "./filters";
 import { bumpStopForceN, dynamicPressurePa, frontLoadTransferN, wheelForceChangeN } from "./physics";
-import { addSignSample } from "./sign-evidence";
 import { addStaticSample, CONTACT_BIN_MM, CONTACT_BINS, CONTACT_LO_MM, CONTACT_SLOTS, staticEstimate } from "./static-estimate";
 import type { SummaryState } from "./summary-state";
 import { ROW_VALID } from "./summary-rows";
@@ -43,9 +42,9 @@ export interface RowScratch {
 /** The aero pass over `count` smoothed rows; `blockMin`: samples a time block needs to count. */
 export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: RowScratch, blockMin: number): void {
   const m = sm.mean, sl = sm.slope, ce = sm.centre;
-  const mV = m[V], mAY = m[AY], mAX = m[AX], mSTEER = m[STEER], mYAW = m[YAW];
+  const mV = m[V], mAY = m[AY], mAX = m[AX];
   const mFL = m[DFL], mFR = m[DFR], mRL = m[DRL], mRR = m[DRR], mRHF = m[RHF], mRHR = m[RHR];
-  const sFL = sl[DFL], sFR = sl[DFR], sRL = sl[DRL], sRR = sl[DRR], sV = sl[V];
+  const sFL = sl[DFL], sFR = sl[DFR], sRL = sl[DRL], sRR = sl[DRR];
   const cFL = ce[DFL], cFR = ce[DFR], cRL = ce[DRL], cRR = ce[DRR];
   const g = s.opts.gates;
   const c = s.model;
@@ -54,7 +53,7 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
   const st = c.staticDamperMm;
   const massKg = c.massKg, cogM = c.cogHeightM, wheelbaseM = c.wheelbaseM;
   const ffOut = x.ff, frOut = x.fr, tauBuf = x.tau, bandBuf = x.band, flagBuf = x.flag;
-  const aero = s.aero, est = s.est, sign = s.sign;
+  const aero = s.aero, est = s.est;
   const ksF = c.forcePerMmFront / c.motionRatioFront, ksR = c.forcePerMmRear / c.motionRatioRear;
   const gapF = c.bumpGapFrontMm, gapR = c.bumpGapRearMm, mrF = c.motionRatioFront, mrR = c.motionRatioRear;
   // Bump-stop curves (force at the damper against depth past contact); read only in contact.
@@ -88,7 +87,6 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
     const v = mV[j];
     const ax = mAX[j];
     const xfl = mFL[j], xfr = mFR[j], xrl = mRL[j], xrr = mRR[j];
-    addSignSample(sign, v, sV[j], ax, mAY[j], mSTEER[j], mYAW[j], xfl, xfr, xrl, xrr);
     const dampersOk = xfl === xfl && xfr === xfr && xrl === xrl && xrr === xrr;
     let ff = NaN, fr = NaN;
     if (dampersOk) {

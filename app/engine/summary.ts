@@ -5,7 +5,7 @@
  *
  * The pipeline, in the order a newcomer should read it:
  *   1. row loop: summary.ts (smoothing, per call) → summary-rows.ts (time, bands; understeer samples)
- *      and summary-loop.ts (axle forces, static estimate, sign evidence, aero sums), all writing one
+ *      summary-loop.ts (axle forces, static estimate, aero sums) and sign-evidence.ts, all writing one
  *      plain state record (summary-state.ts);
  *   2. channel checks: summary-checks.ts (signs and units, sign-evidence.ts and unit-check.ts);
  *   3. aero fit: summary-aero.ts (fit, model choice, headline ClA and balance);
@@ -15,6 +15,7 @@
  */
 import { BlockSmoother } from "./filters";
 import { PartUnsafe } from "./errors";
+import { addSignRows } from "./sign-evidence";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { aeroPass, AX, AY, DFL, DFR, DRL, DRR, RHF, RHR, SLOT_CHANNELS, STEER, T, V, YAW } from "./summary-loop";
 import type { RowScratch } from "./summary-loop";
@@ -154,6 +155,7 @@ export class SummaryBuilder {
     if (x.tau.length < count) x = this.scratch = { tau: new Float64Array(count), band: new Int32Array(count), flag: new Uint8Array(count), ff: new Float64Array(count), fr: new Float64Array(count) };
     timeAndBandPass(count, ce[T], m[V], s.opts.blockS, s.edgesMs, s.bandRows, s.bandSpeedSum, s, x.tau, x.band, x.flag);
     aeroPass(s, sm, count, x, this.blockMin);
+    addSignRows(s.sign, count, x.flag, m[V], sl[V], m[AX], m[AY], m[STEER], m[YAW], m[DFL], m[DFR], m[DRL], m[DRR]);
     const part = this.part;
     if (part?.onSeed && !this.seedSent && (s.estN >= s.estMax || s.staticGiven) && (s.refFront === s.refFront || s.staticGiven)) {
       this.seedSent = true;
