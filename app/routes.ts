@@ -35,6 +35,9 @@ export default [
       route(":carId/setups/:setupId/diff", "routes/garage/setup-diff.tsx"),
     ]),
 
+    // Sessions list (sort, filter, pages in the URL) and the team's venues.
+    route("sessions", "routes/sessions/list.tsx"),
+    route("venues", "routes/sessions/venues.tsx"),
     // Drop a log: read in the browser's engine worker, uploaded, stored as a session.
     route("sessions/new", "routes/sessions/new.tsx"),
     // Balance report (one session).

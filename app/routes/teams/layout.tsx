@@ -3,6 +3,7 @@ import { AppShell } from "~/components/ui/shell";
 import { ErrorView } from "~/components/ui/error-view";
 import { listTeamsOf, requireMember } from "~/server/permissions.server";
 import { teamPath } from "~/lib/team-schemas";
+import { can } from "~/lib/access";
 import type { Route } from "./+types/layout";
 
 // The frame of every /t/:teamSlug page. Child loaders run in parallel with this one, so each of
@@ -26,6 +27,7 @@ export default function TeamLayout({ loaderData }: Route.ComponentProps) {
       current={loaderData.team}
       nav={[
         { to: base, label: "Dashboard", end: true },
+        ...(can(loaderData.team.role, { session: ["read"] }) ? [{ to: `${base}/sessions`, label: "Sessions" }] : []),
         { to: `${base}/garage`, label: "Garage" },
         { to: `${base}/settings`, label: "Team" },
       ]}
