@@ -40,9 +40,14 @@ export default [
     route("venues", "routes/sessions/venues.tsx"),
     // Drop a log: read in the browser's engine worker, uploaded, stored as a session.
     route("sessions/new", "routes/sessions/new.tsx"),
+    // The owner's audit log of the team.
+    route("audit", "routes/audit/audit.tsx"),
     // Balance report (one session).
     route("sessions/:sessionId", "routes/sessions/session.tsx"),
   ]),
+
+  // All of a team's data as one archive (owner).
+  route("t/:teamSlug/export.zip", "routes/teams/export.ts"),
 
   // Development only (404 when NODE_ENV=production).
   ...prefix("dev", [route("mailbox", "routes/dev/mailbox.tsx"), route("mailbox/:id", "routes/dev/message.tsx")]),

@@ -52,6 +52,7 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   member_role_changed: "changed a member's role",
   member_removed: "removed a member",
   member_left: "left the team",
+  account_deleted: "deleted their account",
   team_renamed: "renamed the team",
   team_exported: "exported the team's data",
   brief_created: "created a Brief link",

@@ -5,6 +5,7 @@ import { invitation, member, organization, user } from "../db/schema/auth";
 import { isRole, type Role } from "../lib/access";
 import { auth } from "./auth.server";
 import { db } from "./db.server";
+import { recordAudit } from "./audit.server";
 import type { MemberContext } from "./permissions.server";
 
 // Team operations. Callers check the role with requireMember first; better-auth's organization
@@ -78,6 +79,7 @@ export async function renameTeam(request: Request, ctx: MemberContext, name: str
   } catch (error) {
     asFormError(error);
   }
+  await recordAudit(db, { teamId: ctx.team.id, actorUserId: ctx.user.id, action: "team_renamed", subjectType: "team", subjectId: ctx.team.id, detail: { from: ctx.team.name, to: name } });
 }
 
 export async function inviteToTeam(request: Request, ctx: MemberContext, email: string, role: Role): Promise<void> {
@@ -93,6 +95,7 @@ export async function inviteToTeam(request: Request, ctx: MemberContext, email: 
   } catch (error) {
     asFormError(error);
   }
+  await recordAudit(db, { teamId: ctx.team.id, actorUserId: ctx.user.id, action: "member_invited", subjectType: "invitation", subjectId: email, detail: { email, role } });
 }
 
 export async function changeMemberRole(request: Request, ctx: MemberContext, memberId: string, role: Role): Promise<void> {
@@ -106,6 +109,7 @@ export async function changeMemberRole(request: Request, ctx: MemberContext, mem
   } catch (error) {
     asFormError(error);
   }
+  await recordAudit(db, { teamId: ctx.team.id, actorUserId: ctx.user.id, action: "member_role_changed", subjectType: "member", subjectId: target.userId, detail: { role } });
 }
 
 export async function removeFromTeam(request: Request, ctx: MemberContext, memberId: string): Promise<void> {
@@ -116,6 +120,7 @@ export async function removeFromTeam(request: Request, ctx: MemberContext, membe
   } catch (error) {
     asFormError(error);
   }
+  await recordAudit(db, { teamId: ctx.team.id, actorUserId: ctx.user.id, action: "member_removed", subjectType: "member", subjectId: target.userId });
 }
 
 export async function revokeInvitation(request: Request, ctx: MemberContext, invitationId: string): Promise<void> {
@@ -130,6 +135,7 @@ export async function revokeInvitation(request: Request, ctx: MemberContext, inv
   } catch (error) {
     asFormError(error);
   }
+  await recordAudit(db, { teamId: ctx.team.id, actorUserId: ctx.user.id, action: "invitation_revoked", subjectType: "invitation", subjectId: invitationId });
 }
 
 export type InvitationView = {

@@ -1,4 +1,6 @@
-import { data, Form, useNavigation } from "react-router";
+import { data, Form, redirect, useNavigation } from "react-router";
+import { deleteAccount } from "~/server/team-retention.server";
+import { refusalMessage } from "~/server/teams.server";
 import { AppShell } from "~/components/ui/shell";
 import { Button, Field, FormAlert, SelectField } from "~/components/ui/form";
 import { Panel } from "~/components/ui/panels";
@@ -47,6 +49,17 @@ export async function action({ request, context }: Route.ActionArgs) {
     const revoked = await revokeApiToken(user.id, form.tokenId ?? "");
     if (!revoked) return data({ intent: "token-revoke", errors: { form: "No such token of yours (it may be revoked already)." }, done: null }, { status: 404 });
     return { intent: "token-revoke", errors: {}, done: "Token revoked: scripts using it now get 401." };
+  }
+  if (form.intent === "delete-account") {
+    try {
+      await deleteAccount(user.id, form.password ?? "");
+    } catch (error) {
+      const refusal = refusalMessage(error);
+      if (refusal) return data({ intent: "delete-account", errors: { password: refusal }, done: null }, { status: 400 });
+      throw error;
+    }
+    // The account's sign-in sessions went with it, so this browser's cookie no longer signs anyone in.
+    return redirect("/?account=deleted");
   }
   return data({ intent: "", errors: { form: "Unknown request: reload the page and try again." }, done: null }, { status: 400 });
 }
@@ -122,6 +135,18 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
               ))}
             </ul>
           )}
+        </Panel>
+        <Panel title="Delete your account">
+          <Form method="post" className="max-w-md" noValidate>
+            <input type="hidden" name="intent" value="delete-account" />
+            <p className="mb-3 text-sm text-ink-soft">
+              Your name, e-mail, password and API tokens are deleted and you are signed out everywhere. What you made in a team
+              stays with that team (shown as made by a former member). A team you alone belong to is deleted with its data; if
+              you are the only owner of a team with other members, make one of them owner first.
+            </p>
+            <Field label="Your password, to confirm" name="password" type="password" autoComplete="current-password" required error={errorsFor("delete-account").password} />
+            <Button variant="danger">Delete my account</Button>
+          </Form>
         </Panel>
         <Panel title="Sign out">
           <Form method="post" action="/sign-out">

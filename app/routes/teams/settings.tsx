@@ -1,4 +1,5 @@
-import { data, Form, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { deleteTeam, leaveTeam } from "~/server/team-retention.server";
 import { Button, Field, FormAlert, SelectField } from "~/components/ui/form";
 import { Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
@@ -36,6 +37,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       invite: canInvite,
       changeRole: can(ctx.role, NEEDS["change-role"]),
       remove: can(ctx.role, NEEDS["remove-member"]),
+      exportData: can(ctx.role, { team: ["update"] }),
+      audit: can(ctx.role, { team: ["update"] }),
+      deleteTeam: can(ctx.role, { team: ["delete"] }),
     },
   };
 }
@@ -43,6 +47,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const form = await readFormFields(request);
   const intent = String(form.intent ?? "");
+  if (intent === "leave" || intent === "delete-team") return retention(request, params.teamSlug, intent, form);
   const needed = NEEDS[intent as SettingsAction["intent"]];
   // The role is checked before the input, so a refused user learns nothing from validation.
   const ctx = await requireMember(request, params.teamSlug, needed ?? { team: ["update"] });
@@ -78,11 +83,33 @@ async function perform(request: Request, ctx: MemberContext, input: SettingsActi
   }
 }
 
+/** Leaving (any member) and deleting the team (owner, the address typed to confirm); both end on another page. */
+async function retention(request: Request, teamSlug: string, intent: "leave" | "delete-team", form: Record<string, string>) {
+  const ctx = await requireMember(request, teamSlug, intent === "delete-team" ? { team: ["delete"] } : undefined);
+  try {
+    if (intent === "leave") {
+      if (form.confirm !== "yes") return data({ intent, errors: { form: "Tick the box to confirm that you leave the team." }, done: null }, { status: 400 });
+      await leaveTeam(ctx.team.id, ctx.team.name, ctx.user.id, ctx.role);
+      return redirect(`/teams/new?left=${encodeURIComponent(ctx.team.name)}`);
+    }
+    await deleteTeam(ctx.team, form.confirmSlug ?? "");
+    return redirect(`/teams/new?deleted=${encodeURIComponent(ctx.team.name)}`);
+  } catch (error) {
+    const refusal = teams.refusalMessage(error);
+    if (refusal) return data({ intent, errors: { form: refusal }, done: null }, { status: 400 });
+    throw error;
+  }
+}
+
 const roleOptions = ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }));
 const dateFmt = (iso: string) => iso.slice(0, 10);
 
 export default function TeamSettings({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state === "submitting";
+  // Only the form being sent shows "Working…": the intent (and member or invitation) it carries names it.
+  const navigation = useNavigation();
+  const sending = navigation.state === "submitting" ? navigation.formData : undefined;
+  const busyFor = (intent: string, id?: string) =>
+    sending?.get("intent") === intent && (id === undefined || sending.get("memberId") === id || sending.get("invitationId") === id);
   const { team, members, invitations, allowed, me } = loaderData;
   const errorsFor = (intent: string): Record<string, string> => (actionData?.intent === intent ? actionData.errors : {});
   return (
@@ -96,7 +123,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
           <Form method="post" className="flex flex-wrap items-end gap-3" noValidate>
             <input type="hidden" name="intent" value="rename" />
             <Field label="Team name" name="name" defaultValue={team.name} error={errorsFor("rename").name} className="min-w-64 flex-1" />
-            <Button busy={busy} variant="quiet" className="mb-[2px]">Rename</Button>
+            <Button busy={busyFor("rename")} variant="quiet" className="mb-[2px]">Rename</Button>
           </Form>
           <p className="mt-2 text-sm text-ink-faint">The address <span className="num">/t/{team.slug}</span> stays the same, so shared links keep working.</p>
         </Panel>
@@ -128,7 +155,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
                         <select id={`role-${m.memberId}`} name="role" defaultValue={m.role} className="rounded border border-rule bg-panel px-2 py-1">
                           {roleOptions.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}
                         </select>
-                        <Button variant="quiet" busy={busy} className="!px-2 !py-1">Save</Button>
+                        <Button variant="quiet" busy={busyFor("change-role", m.memberId)} className="!px-2 !py-1">Save</Button>
                       </Form>
                     ) : (
                       ROLE_LABELS[m.role]
@@ -141,7 +168,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
                         <Form method="post">
                           <input type="hidden" name="intent" value="remove-member" />
                           <input type="hidden" name="memberId" value={m.memberId} />
-                          <Button variant="danger" busy={busy} className="!px-2 !py-1">Remove</Button>
+                          <Button variant="danger" busy={busyFor("remove-member", m.memberId)} className="!px-2 !py-1">Remove</Button>
                         </Form>
                       )}
                     </td>
@@ -167,7 +194,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
             <input type="hidden" name="intent" value="invite" />
             <Field label="E-mail" name="email" type="email" error={errorsFor("invite").email} className="min-w-64 flex-1" />
             <SelectField label="Role" name="role" options={roleOptions} defaultValue="analyst" error={errorsFor("invite").role} className="w-40" />
-            <Button busy={busy} className="mt-6">Send invitation</Button>
+            <Button busy={busyFor("invite")} className="mt-6">Send invitation</Button>
           </Form>
           <h3 className="mt-4 text-sm font-semibold">Pending invitations</h3>
           {invitations.length === 0 ? (
@@ -180,7 +207,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
                   <Form method="post">
                     <input type="hidden" name="intent" value="revoke-invitation" />
                     <input type="hidden" name="invitationId" value={inv.id} />
-                    <Button variant="danger" busy={busy} className="!px-2 !py-1">Revoke</Button>
+                    <Button variant="danger" busy={busyFor("revoke-invitation", inv.id)} className="!px-2 !py-1">Revoke</Button>
                   </Form>
                 </li>
               ))}
@@ -188,6 +215,47 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
           )}
         </Panel>
       )}
+
+      <Panel title="Your data">
+        <div className="space-y-4 text-sm">
+          {allowed.exportData && (
+            <div>
+              <a href={`/t/${team.slug}/export.zip`} className="inline-block rounded border border-rule bg-panel px-3 py-1.5 font-medium hover:bg-rule-soft">
+                Download all of the team's data (.zip)
+              </a>
+              <p className="mt-1 text-ink-faint">
+                One archive: team.json with the members, cars, setup versions, sessions, results and the audit log, and every
+                session's raw export as it was uploaded.
+              </p>
+            </div>
+          )}
+          {allowed.audit && (
+            <p>
+              <Link to={`/t/${team.slug}/audit`} className="text-accent underline">Audit log</Link>: who changed what in this team, and when.
+            </p>
+          )}
+          <Form method="post" className="space-y-2">
+            <input type="hidden" name="intent" value="leave" />
+            <p>Leave {team.name}: you lose access to its data; what you made stays with the team.</p>
+            <label htmlFor="f-leave-confirm" className="flex items-start gap-2">
+              <input id="f-leave-confirm" type="checkbox" name="confirm" value="yes" required className="mt-1" />
+              <span>Yes, leave this team</span>
+            </label>
+            <Button variant="danger" busy={busyFor("leave")}>Leave team</Button>
+          </Form>
+          {allowed.deleteTeam && (
+            <Form method="post" className="space-y-2 border-t border-rule-soft pt-3">
+              <input type="hidden" name="intent" value="delete-team" />
+              <p>
+                Delete {team.name} with all its cars, setups, sessions, raw files and Brief links, for every member. This cannot
+                be undone: download the archive first.
+              </p>
+              <Field label={`Type the team's address, ${team.slug}, to confirm`} name="confirmSlug" required autoComplete="off" error={errorsFor("delete-team").confirmSlug} className="max-w-sm" />
+              <Button variant="danger" busy={busyFor("delete-team")}>Delete team</Button>
+            </Form>
+          )}
+        </div>
+      </Panel>
     </div>
   );
 }
