@@ -34,6 +34,7 @@ describe("Balance report in the browser", () => {
   it("shows the headline figures of the summary of record, the verdict and the side view", async () => {
     const page = browser.page;
     await page.goto(`/t/harrowgate/sessions/${sessionId}`, { waitUntil: "networkidle" });
+    expect(pageErrors.join("\n")).toBe("");
     const value = async (figure: string) => Number(await page.locator(`[data-figure="${figure}"]`).getAttribute("data-value"));
     expect(await value("cla_total_m2")).toBe(summary.aero.cla_total_m2);
     expect(await value("cla_front_m2")).toBe(summary.aero.cla_front_m2);
@@ -42,12 +43,32 @@ describe("Balance report in the browser", () => {
     expect(await page.getByTestId("session-state").first().getAttribute("data-state")).toBe("checked");
     expect(await page.getByTestId("verdict").innerText()).toMatch(/balance|Balance/);
     expect(await page.locator('[data-chart="side-view"] [data-symbol="cop"]').count()).toBeGreaterThan(1);
+    // Charts: a canvas with something drawn on it in each, and the draw time of the largest.
+    await page.waitForFunction(() => document.querySelectorAll('[data-testid="report-charts"] figure[data-drawn="yes"]').length >= 8, null, { timeout: 15_000 });
+    const charts = await page.$$eval('[data-testid="report-charts"] figure[data-drawn="yes"]', (figs) =>
+      figs.map((f) => {
+        const canvas = f.querySelector("canvas")!;
+        const px = canvas.getContext("2d")!.getImageData(0, 0, canvas.width, canvas.height).data;
+        let inked = 0;
+        for (let i = 3; i < px.length; i += 4) if (px[i] > 0) inked++;
+        return { title: f.getAttribute("data-chart-title"), inked, area: canvas.width * canvas.height, drawMs: Number(f.getAttribute("data-draw-ms")) };
+      }),
+    );
+    for (const c of charts) expect(c.inked, c.title!).toBeGreaterThan(200);
+    const largest = charts.reduce((a, b) => (b.area > a.area ? b : a));
+    console.log(`[report] largest chart "${largest.title}" (${largest.area} px): drawn ${largest.drawMs.toFixed(1)} ms after its data arrived`);
+    // PNG of a chart: a download whose bytes start with the PNG signature (ISO/IEC 15948 §5.2).
+    const [download] = await Promise.all([page.waitForEvent("download"), page.locator('figure[data-chart-title="Balance against speed (95 % whiskers)"] button', { hasText: "Save PNG" }).click()]);
+    expect(download.suggestedFilename()).toMatch(/^balance-.+\.png$/);
+    const { readFileSync } = await import("node:fs");
+    const bytes = readFileSync((await download.path())!);
+    expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
     await page.screenshot({ path: `${SHOTS}/report-1280.png`, fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
     await page.screenshot({ path: `${SHOTS}/report-390-top.png` });
     await page.screenshot({ path: `${SHOTS}/report-390.png`, fullPage: true });
     await page.setViewportSize({ width: 1280, height: 800 });
-    expect(pageErrors).toEqual([]);
+    expect(pageErrors.join("\n")).toBe("");
   });
 
   it("prints on one A4 page", async () => {

@@ -94,3 +94,14 @@ describe("warnings in plain words", () => {
     expect(groups[2].words.title).toBe("Note from the analysis");
   });
 });
+
+describe("chart columns", () => {
+  it("draws the fitted axle load as ½ρv²·ClA: 1.225 kg/m³, 180 km/h (50 m/s), 0.46 m² → 704.375 N", async () => {
+    const { aeroLoadN, rangeWithIntervals } = await import("~/lib/report/chart-data");
+    // q = ½ · 1.225 · 50² = 1531.25 Pa (dynamic pressure, any fluids handbook); × 0.46 m² (computed by hand)
+    expect(aeroLoadN(1.225, 180, 0.46)).toBeCloseTo(704.375, 9);
+    // the range holds the whiskers' ends, padded by 8 % of the span (38 − 36 = 2 → 0.16)
+    expect(rangeWithIntervals([37, null], [[36, 38], null])).toEqual([35.84, 38.16]);
+    expect(rangeWithIntervals([null], [null])).toBeNull();
+  });
+});

@@ -14,6 +14,7 @@ import { ProcessingState, SessionDetails } from "~/components/report/details";
 import type { SessionSummary } from "~/engine/summary-types";
 import type { SessionHead } from "~/server/report/session.server";
 import printCss from "~/components/report/report-print.css?url";
+import { ReportCharts } from "~/components/report/report-charts";
 import type { Route } from "./+types/session";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -94,6 +95,11 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
           <Panel title="Speed bands">
             <BandTable bands={s.bands} id="band-table" />
           </Panel>
+          <div className="report-noprint">
+            <Panel title="Charts">
+              <ReportCharts s={s} sessionId={head.id} teamSlug={team.slug} />
+            </Panel>
+          </div>
           <div className="grid gap-4 lg:grid-cols-2 print:grid-cols-2">
             <Panel title="Warnings and what to do">
               <WarningsList s={s} />
