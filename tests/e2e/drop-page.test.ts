@@ -28,6 +28,7 @@ async function shoot(b: OpenBrowser, name: string) {
 describe("Drop a log in the browser", () => {
   let browser: OpenBrowser;
   const pageErrors: string[] = [];
+  let storedUrl = "";
 
   beforeAll(async () => {
     await seedUsers();
@@ -61,6 +62,7 @@ describe("Drop a log in the browser", () => {
     }
     await page.locator('[data-channel="speed"] canvas').first().waitFor();
     await page.waitForTimeout(800);
+    await page.fill("#map-profile-name", "Marlin data box");
     await shoot(browser, "drop-1-map");
     await page.getByRole("button", { name: "Confirm map" }).click();
     await page.locator("#f-carId").selectOption({ label: "Marlin SR2" });
@@ -103,6 +105,61 @@ describe("Drop a log in the browser", () => {
     expect(await figure("balance_front_pct")).toBe(expected.aero.balance_front_pct);
     expect(["read", "checked"]).toContain(await page.getByTestId("session-state").getAttribute("data-state"));
     await shoot(browser, "drop-3-stored");
+    storedUrl = new URL(page.url()).pathname;
     expect(pageErrors).toEqual([]);
+  });
+
+  it("proposes the saved Logger profile for the same header and offers the stored session for the same file", async () => {
+    expect(storedUrl).not.toBe("");
+    const page = browser.page;
+    await page.goto("/t/harrowgate/sessions/new", { waitUntil: "networkidle" });
+    await page.setInputFiles('[data-testid="drop-input"]', join(ROOT, `${LOG}.csv`));
+    await page.getByText('Logger profile "Marlin data box", saved for this header').waitFor({ timeout: 30_000 });
+    await page.getByText("This file is already stored in this team.").waitFor({ timeout: 30_000 });
+    expect(await page.getByRole("link", { name: "Open the existing session" }).getAttribute("href")).toBe(storedUrl);
+  });
+
+  it("keeps the map and details through a failed upload and a 503, and stores after retries", async () => {
+    const page = browser.page;
+    const log = "sample-data/logs/vesper-kestrel-tab";
+    await page.goto("/t/harrowgate/sessions/new", { waitUntil: "networkidle" });
+    // The first upload and the first store meet a server whose database is down (the contract's 503).
+    let failUpload = true, failStore = true;
+    const down = { status: 503, contentType: "application/json", body: JSON.stringify({ error: "The database is not answering; try again in a minute." }) };
+    await page.route("**/api/t/harrowgate/uploads", (route) => (failUpload ? ((failUpload = false), route.fulfill(down)) : route.continue()));
+    await page.route("**/api/t/harrowgate/sessions", (route) => (failStore ? ((failStore = false), route.fulfill(down)) : route.continue()));
+    await page.setInputFiles('[data-testid="drop-input"]', join(ROOT, `${log}.csv`));
+    await page.getByText("Upload failed: The database is not answering; try again in a minute.").waitFor({ timeout: 30_000 });
+    await page.getByRole("button", { name: "Retry upload" }).click();
+    await page.getByText("Uploaded", { exact: true }).waitFor({ timeout: 30_000 });
+    await expect.poll(() => page.inputValue("#map-time-column"), { timeout: 30_000 }).not.toBe("");
+    await page.getByRole("button", { name: "Confirm map" }).click();
+    await page.locator("#f-carId").selectOption({ label: "Vesper GT4-R" });
+    await page.locator("#f-venueId").selectOption({ label: "Another venue…" });
+    await page.fill("#f-venueName", "Kestrel Bank Raceway");
+    await page.fill("#f-run", "Qualifying sim");
+    await page.getByRole("button", { name: "Read and store the session" }).click();
+    await page.getByText("The session was not stored: The database is not answering; try again in a minute.").waitFor({ timeout: 60_000 });
+    expect(await page.inputValue("#f-run")).toBe("Qualifying sim");
+    await shoot(browser, "drop-4-store-failed");
+    await page.getByRole("button", { name: "Try storing again" }).click();
+    await page.waitForURL(/\/t\/harrowgate\/sessions\/[0-9a-f-]{36}$/, { timeout: 60_000 });
+    expect(new URL(page.url()).pathname).not.toBe(storedUrl);
+  });
+
+  it("says why a file that is not a text export cannot be read, and cancels a file", async () => {
+    const page = browser.page;
+    await page.goto("/t/harrowgate/sessions/new", { waitUntil: "networkidle" });
+    const dir = join(SHOTS, "cli");
+    mkdirSync(dir, { recursive: true });
+    const zip = join(dir, "logger-archive.csv");
+    const bytes = Buffer.alloc(4096);
+    bytes.set([80, 75, 3, 4]); // a ZIP signature (PKWARE APPNOTE) saved with a .csv name
+    writeFileSync(zip, bytes);
+    await page.setInputFiles('[data-testid="drop-input"]', zip);
+    await page.getByText("This file cannot be read: the file is a ZIP archive, not a text export; unpack it and upload the CSV inside.").waitFor({ timeout: 30_000 });
+    await shoot(browser, "drop-5-not-text");
+    await page.getByRole("button", { name: "Cancel this file" }).click();
+    await expect.poll(() => page.locator("[data-file]").count()).toBe(0);
   });
 });

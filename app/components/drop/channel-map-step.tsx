@@ -3,7 +3,7 @@
  * a matching Logger profile or the engine's suggester; each mapped channel shows its first minutes;
  * the engine's sign and unit checks come back as proposals the engineer accepts with one click.
  */
-import { useEffect, useMemo, useState } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { isEngineError } from "~/engine/errors";
 import { validateChannelMap } from "~/engine/mapping";
 import type { SignCheck } from "~/engine/sign-check";
@@ -11,6 +11,7 @@ import { ALL_CHANNELS, REQUIRED_CHANNELS, type ChannelMap, type ChannelName } fr
 import { allowedUnits, canonicalUnit, CHANNEL_KIND, unitFactor } from "~/engine/units";
 import { PreviewChart, type PreviewSeries } from "./preview-chart";
 import type { DraftMap, DropItem } from "./types";
+import type { ColumnPreview } from "../../../workers/column-preview";
 
 export const CHANNEL_LABELS: Record<ChannelName, string> = {
   time: "Time", speed: "Speed", lat_accel: "Lateral acceleration", long_accel: "Longitudinal acceleration",
@@ -30,6 +31,32 @@ export function proposedUnit(channel: ChannelName, detail: string): string | nul
   if (!m) return null;
   const unit = canonicalUnit(m[1]);
   return unitFactor(CHANNEL_KIND[channel], unit) === null ? null : unit;
+}
+
+/** Each mapped channel's preview in the file's units (sign as mapped) against seconds from the start; cached by what shapes it. */
+function previewSeries(map: DraftMap, preview: ColumnPreview | null, cache: Map<string, PreviewSeries>): Partial<Record<ChannelName, PreviewSeries>> {
+  const out: Partial<Record<ChannelName, PreviewSeries>> = {};
+  const t = preview?.columns[preview.timeColumn];
+  if (!preview || !t) return out;
+  const timeFactor = map.time && map.time.column === preview.timeColumn ? unitFactor("time", map.time.unit) : null;
+  for (const channel of ALL_CHANNELS) {
+    const entry = map[channel];
+    const col = entry && preview.columns[entry.column];
+    if (!col) continue;
+    const key = `${entry.column}\u0000${entry.invert ? 1 : 0}\u0000${timeFactor}`;
+    let s = cache.get(key);
+    if (!s) {
+      const t0 = t.min[0];
+      s = {
+        xs: timeFactor !== null ? t.min.map((v) => (v - t0) * timeFactor) : t.min.map((_, i) => i * preview.bucketRows),
+        min: entry.invert ? col.max.map((v) => -v) : col.min,
+        max: entry.invert ? col.min.map((v) => -v) : col.max,
+      };
+      cache.set(key, s);
+    }
+    out[channel] = s;
+  }
+  return out;
 }
 
 function checkMap(map: DraftMap, item: DropItem): { map: ChannelMap | null; problem: string | null } {
@@ -57,6 +84,10 @@ export function ChannelMapStep({ item, onMap, onProfileName, onChecks, onConfirm
   const [tried, setTried] = useState(false);
   const checked = useMemo(() => checkMap(map, item), [map, item.inspection]); // eslint-disable-line react-hooks/exhaustive-deps
   const mapKey = JSON.stringify(checked.map);
+  // Charts redraw only when their own channel's column, unit, sign or the time axis changes (not on
+  // every upload or read progress tick that re-renders the page).
+  const cache = useRef(new Map<string, PreviewSeries>());
+  const series = useMemo(() => previewSeries(map, inspection?.preview ?? null, cache.current), [map, inspection]);
 
   // The checks follow the map: a short pause after the last change, then the worker reads the first minutes again.
   useEffect(() => {
@@ -79,18 +110,6 @@ export function ChannelMapStep({ item, onMap, onProfileName, onChecks, onConfirm
     const kind = CHANNEL_KIND[channel];
     const unit = logged && unitFactor(kind, logged) !== null ? canonicalUnit(logged) : map[channel]?.unit ?? allowedUnits(kind)[0];
     setEntry(channel, { column, unit, ...(map[channel]?.invert ? { invert: true } : {}) });
-  };
-  const timeFactor = map.time && preview && map.time.column === preview.timeColumn ? unitFactor("time", map.time.unit) : null;
-  const seriesOf = (channel: ChannelName): PreviewSeries | null => {
-    const entry = map[channel];
-    const col = entry && preview?.columns[entry.column];
-    const t = preview?.columns[preview.timeColumn];
-    if (!col || !t) return null;
-    const sign = entry.invert ? -1 : 1;
-    const min = sign > 0 ? col.min : col.max.map((v) => -v);
-    const max = sign > 0 ? col.max : col.min.map((v) => -v);
-    const t0 = t.min[0];
-    return { xs: timeFactor !== null ? t.min.map((v) => (v - t0) * timeFactor) : t.min.map((_, i) => i * preview.bucketRows), min, max };
   };
   const proposals = [...item.checks.signs, ...item.checks.units].filter((c) => c.verdict === "invert" || c.verdict === "check_unit");
   const notes = [...header.notes, ...inspection.suggestion.notes];
@@ -137,7 +156,7 @@ export function ChannelMapStep({ item, onMap, onProfileName, onChecks, onConfirm
         {ALL_CHANNELS.map((channel) => {
           const entry = map[channel];
           const required = (REQUIRED_CHANNELS as readonly string[]).includes(channel);
-          const series = seriesOf(channel);
+          const chart = series[channel];
           const verdicts = [...item.checks.signs, ...item.checks.units].filter((c) => c.channel === channel && c.verdict === "consistent");
           const id = `map-${channel}`;
           return (
@@ -165,7 +184,7 @@ export function ChannelMapStep({ item, onMap, onProfileName, onChecks, onConfirm
                 </div>
               </div>
               <div className="min-w-0">
-                {series ? <PreviewChart series={series} colour={colourOf(channel)} label={`${CHANNEL_LABELS[channel]}, first minutes`} /> : entry ? <p className="text-xs text-ink-faint">No preview for this column.</p> : null}
+                {chart ? <PreviewChart series={chart} colour={colourOf(channel)} label={`${CHANNEL_LABELS[channel]}, first minutes`} /> : entry ? <p className="text-xs text-ink-faint">No preview for this column.</p> : null}
                 {verdicts.map((v) => <p key={v.detail} className="text-xs text-ink-faint">Sign check: {v.detail}.</p>)}
               </div>
             </li>

@@ -4,7 +4,7 @@
  * file, then stores the session (the server re-checks it from the raw file).
  */
 import { UppyContextProvider, useDropzone } from "@uppy/react";
-import { useCallback, useEffect, useRef, useState } from "react";
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { useNavigate } from "react-router";
 import type { SessionSummary } from "~/engine/summary";
 import type { CarInput, ChannelMap } from "~/engine/types";
@@ -121,6 +121,16 @@ export function DropPage({ teamSlug, choices }: { teamSlug: string; choices: Dro
     update(item.id, (it) => ({ read: { ...it.read, state: "done" }, store: { state: "waiting" } }));
   };
 
+  // Stable handles for the memoised file view: it renders again when its item or the form changes,
+  // never for a progress tick.
+  const latest = useRef({ submit, store, runChecks: drop.runChecks });
+  latest.current = { submit, store, runChecks: drop.runChecks };
+  const actions = useMemo<Actions>(() => ({
+    submit: (item, map) => latest.current.submit(item, map),
+    store: (item) => latest.current.store(item),
+    runChecks: (id, map) => void latest.current.runChecks(id, map),
+  }), []);
+
   return (
     <div className="space-y-5">
       <div>
@@ -146,11 +156,11 @@ export function DropPage({ teamSlug, choices }: { teamSlug: string; choices: Dro
         <div className="grid gap-5 lg:grid-cols-[18rem_1fr]">
           <ul className="space-y-2" aria-label="Dropped files">
             {items.map((it) => (
-              <FileCard key={it.id} item={it} active={it.id === active?.id} onSelect={() => setActiveId(it.id)} onCancel={() => drop.cancel(it.id)}
+              <FileCard key={it.id} item={it} progress={drop.progress[it.id]} active={it.id === active?.id} onSelect={() => setActiveId(it.id)} onCancel={() => drop.cancel(it.id)}
                 onRetryUpload={() => drop.retryUpload(it.id)} onCancelRead={() => drop.cancelRead(it.id)} />
             ))}
           </ul>
-          {active && <ActiveFile key={active.id} item={active} {...{ choices, draft, flags, errors, base, drop, setDraft, setFlags, submit, store, update }} />}
+          {active && <ActiveFile key={active.id} item={active} {...{ choices, draft, flags, errors, base, actions, setDraft, setFlags, update }} />}
         </div>
       )}
     </div>
@@ -177,6 +187,12 @@ function DropZone() {
   );
 }
 
+interface Actions {
+  submit(item: DropItem, map: ChannelMap): Promise<void>;
+  store(item: DropItem): Promise<void>;
+  runChecks(id: string, map: ChannelMap): void;
+}
+
 type ActiveProps = {
   item: DropItem;
   choices: DropChoices;
@@ -184,15 +200,14 @@ type ActiveProps = {
   flags: { venueOther: boolean; driverOther: boolean };
   errors: Record<string, string>;
   base: string;
-  drop: ReturnType<typeof useDrop>;
+  actions: Actions;
   setDraft: React.Dispatch<React.SetStateAction<DetailsDraft>>;
   setFlags: React.Dispatch<React.SetStateAction<{ venueOther: boolean; driverOther: boolean }>>;
-  submit(item: DropItem, map: ChannelMap): Promise<void>;
-  store(item: DropItem): Promise<void>;
   update: ReturnType<typeof useDrop>["update"];
 };
 
-function ActiveFile({ item, choices, draft, flags, errors, base, drop, setDraft, setFlags, submit, store, update }: ActiveProps) {
+const ActiveFile = memo(function ActiveFile({ item, choices, draft, flags, errors, base, actions, setDraft, setFlags, update }: ActiveProps) {
+  const { submit, store } = actions;
   const steps = ["Channel map", "Session details", "Read and store"];
   const current = item.read.state === "reading" || item.store.state !== "idle" ? 2 : item.step === "details" ? 1 : 0;
   return (
@@ -217,7 +232,7 @@ function ActiveFile({ item, choices, draft, flags, errors, base, drop, setDraft,
             item={item}
             onMap={(map, source) => update(item.id, (it) => ({ map, mapSource: source ?? (it.mapSource.startsWith("changed") ? it.mapSource : "changed by you") }))}
             onProfileName={(profileName) => update(item.id, () => ({ profileName }))}
-            onChecks={(map) => void drop.runChecks(item.id, map)}
+            onChecks={(map) => actions.runChecks(item.id, map)}
             onConfirm={(map) => update(item.id, () => ({ map, step: "details" }))}
           />
         ) : (
@@ -248,4 +263,4 @@ function ActiveFile({ item, choices, draft, flags, errors, base, drop, setDraft,
       </div>
     </section>
   );
-}
+});

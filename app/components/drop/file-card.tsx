@@ -4,7 +4,7 @@
  */
 import type { ReactNode } from "react";
 import { formatBytes, formatDuration, formatRate, timeLeftS } from "./format";
-import type { DropItem } from "./types";
+import type { DropItem, FileProgress } from "./types";
 
 function Bar({ label, done, total, tone, children }: { label: string; done: number; total: number; tone: "read" | "upload"; children: ReactNode }) {
   const pct = total > 0 ? Math.min(100, (done / total) * 100) : 0;
@@ -28,6 +28,7 @@ function left(done: number, total: number, elapsedMs: number): string {
 
 interface Props {
   item: DropItem;
+  progress: FileProgress | undefined;
   active: boolean;
   onSelect(): void;
   onCancel(): void;
@@ -35,13 +36,16 @@ interface Props {
   onCancelRead(): void;
 }
 
-export function FileCard({ item, active, onSelect, onCancel, onRetryUpload, onCancelRead }: Props) {
+export function FileCard({ item, progress, active, onSelect, onCancel, onRetryUpload, onCancelRead }: Props) {
   const { upload, read, store } = item;
-  const uploadElapsed = upload.startedAt ? Date.now() - upload.startedAt : 0;
+  const sent = progress?.sent ?? 0;
+  const reading = progress?.read;
+  const uploadElapsed = progress?.startedAt ? Date.now() - progress.startedAt : 0;
   const stored = store.state === "stored";
   const status = item.inspectError
     ? "Cannot be read"
     : stored ? "Stored"
+    : store.state === "failed" ? "Not stored yet: see the message"
     : store.state === "storing" ? "Storing the session…"
     : store.state === "waiting" ? "Waiting for the upload to finish…"
     : read.state === "reading" ? "Reading the whole file…"
@@ -57,21 +61,21 @@ export function FileCard({ item, active, onSelect, onCancel, onRetryUpload, onCa
       </div>
       <p className="text-sm text-ink-soft" data-testid="file-status">{status}</p>
       <div className="mt-1.5 space-y-1.5">
-        {(read.state === "reading" || read.state === "done") && read.progress && (
-          <Bar label="Reading (in this browser)" done={read.progress.bytes} total={read.progress.totalBytes} tone="read">
-            {formatBytes(read.progress.bytes)} of {formatBytes(read.progress.totalBytes)} · {read.progress.rows.toLocaleString("en")} rows · {formatDuration(read.progress.elapsedMs / 1000)}
-            {read.state === "reading" ? ` · ${formatRate(read.progress.bytes, read.progress.elapsedMs)}${left(read.progress.bytes, read.progress.totalBytes, read.progress.elapsedMs)}` : ""}
+        {(read.state === "reading" || read.state === "done") && reading && (
+          <Bar label="Reading (in this browser)" done={reading.bytes} total={reading.totalBytes} tone="read">
+            {formatBytes(reading.bytes)} of {formatBytes(reading.totalBytes)} · {reading.rows.toLocaleString("en")} rows · {formatDuration(reading.elapsedMs / 1000)}
+            {read.state === "reading" ? ` · ${formatRate(reading.bytes, reading.elapsedMs)}${left(reading.bytes, reading.totalBytes, reading.elapsedMs)}` : ""}
           </Bar>
         )}
         {upload.state !== "failed" && (
-          <Bar label={upload.state === "done" ? "Uploaded" : upload.state === "queued" ? "Upload waiting" : "Uploading"} done={upload.state === "done" ? item.bytes : upload.sent} total={item.bytes} tone="upload">
-            {formatBytes(upload.state === "done" ? item.bytes : upload.sent)} of {formatBytes(item.bytes)}
-            {upload.state === "uploading" ? ` · ${formatRate(upload.sent, uploadElapsed)}${left(upload.sent, item.bytes, uploadElapsed)}` : ""}
+          <Bar label={upload.state === "done" ? "Uploaded" : upload.state === "queued" ? "Upload waiting" : "Uploading"} done={upload.state === "done" ? item.bytes : sent} total={item.bytes} tone="upload">
+            {formatBytes(upload.state === "done" ? item.bytes : sent)} of {formatBytes(item.bytes)}
+            {upload.state === "uploading" ? ` · ${formatRate(sent, uploadElapsed)}${left(sent, item.bytes, uploadElapsed)}` : ""}
           </Bar>
         )}
       </div>
       {item.inspectError && <p role="alert" className="mt-1 text-sm text-danger">This file cannot be read: {item.inspectError}. Nothing was stored from it.</p>}
-      {upload.state === "failed" && <p role="alert" className="mt-1 text-sm text-danger">Upload failed: {upload.error}</p>}
+      {upload.state === "failed" && !item.inspectError && <p role="alert" className="mt-1 text-sm text-danger">Upload failed: {upload.error}</p>}
       {read.state === "failed" && <p role="alert" className="mt-1 text-sm text-danger">Reading failed: {read.error}</p>}
       {read.state === "cancelled" && <p className="mt-1 text-sm text-ink-soft">Reading cancelled. Your map and details are kept.</p>}
       {upload.answer?.duplicate && !stored && (
@@ -85,7 +89,7 @@ export function FileCard({ item, active, onSelect, onCancel, onRetryUpload, onCa
         </p>
       )}
       <div className="mt-2 flex flex-wrap gap-2 text-sm">
-        {upload.state === "failed" && <button type="button" className="rounded border border-rule px-2 py-0.5 hover:bg-rule-soft" onClick={onRetryUpload}>Retry upload</button>}
+        {upload.state === "failed" && upload.retryable && !item.inspectError && <button type="button" className="rounded border border-rule px-2 py-0.5 hover:bg-rule-soft" onClick={onRetryUpload}>Retry upload</button>}
         {read.state === "reading" && <button type="button" className="rounded border border-rule px-2 py-0.5 hover:bg-rule-soft" onClick={onCancelRead}>Stop reading</button>}
         {!stored && store.state !== "storing" && <button type="button" className="rounded border border-rule px-2 py-0.5 text-danger hover:bg-danger-bg" onClick={onCancel}>Cancel this file</button>}
       </div>

@@ -30,7 +30,10 @@ export function PreviewChart({ series, colour, label }: { series: PreviewSeries;
   useEffect(() => {
     let cancelled = false;
     let observer: ResizeObserver | null = null;
-    void import("uplot").then(({ default: UPlot }) => {
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    // Each chart is drawn in a task of its own (a dozen charts in one task would hold the page up).
+    void import("uplot").then(({ default: UPlot }) => (timer = setTimeout(() => create(UPlot), 0)));
+    const create = (UPlot: typeof uPlot) => {
       if (cancelled || !box.current) return;
       const width = Math.max(120, box.current.clientWidth);
       const line = { stroke: colour, width: 1, points: { show: false } };
@@ -55,9 +58,10 @@ export function PreviewChart({ series, colour, label }: { series: PreviewSeries;
         if (box.current && chart.current) chart.current.setSize({ width: Math.max(120, box.current.clientWidth), height: HEIGHT });
       });
       observer.observe(box.current);
-    });
+    };
     return () => {
       cancelled = true;
+      clearTimeout(timer);
       observer?.disconnect();
       chart.current?.destroy();
       chart.current = null;

@@ -19,16 +19,25 @@ export interface UploadAnswer {
 
 export interface UploadState {
   state: "queued" | "uploading" | "done" | "failed";
-  sent: number;
-  startedAt: number | null;
   answer?: UploadAnswer;
   error?: string;
+  /** A lost connection or a server that could not answer (5xx): sending again may work; a refusal will not. */
+  retryable?: boolean;
 }
 
 export interface ReadState {
   state: "idle" | "reading" | "done" | "failed" | "cancelled";
-  progress?: ReadProgress;
   error?: string;
+}
+
+/**
+ * Where a file's upload and read stand, kept apart from DropItem: progress ticks several times a
+ * second and only the file list needs it, so the map and details forms do not render again for it.
+ */
+export interface FileProgress {
+  sent: number;
+  startedAt: number | null;
+  read?: ReadProgress;
 }
 
 export interface StoreState {

@@ -10,7 +10,7 @@ import type { SignCheck } from "~/engine/sign-check";
 import type { ChannelMap } from "~/engine/types";
 import { headerSignature } from "~/lib/sessions/logger-profile";
 import { progressProxy, startEngine, type EngineHandle, type ReadProgress } from "./engine-client";
-import type { DraftMap, DropItem, LoggerProfile, UploadAnswer } from "./types";
+import type { DraftMap, DropItem, FileProgress, LoggerProfile, UploadAnswer } from "./types";
 
 /** What the upload route takes (it checks the content too); the size cap is the route's own default. */
 export const ACCEPTED_TYPES = [".csv", ".tsv", ".txt"];
@@ -44,7 +44,7 @@ function newItem(file: UppyFile<Meta, Body>): DropItem {
     profiles: [],
     profileName: "",
     checks: { state: "idle", signs: [], units: [] },
-    upload: { state: "queued", sent: 0, startedAt: null },
+    upload: { state: "queued" },
     read: { state: "idle" },
     store: { state: "idle" },
   };
@@ -53,12 +53,22 @@ function newItem(file: UppyFile<Meta, Body>): DropItem {
 export function useDrop(teamSlug: string) {
   const [uppy, setUppy] = useState<Uppy<Meta, Body> | null>(null);
   const [items, setItems] = useState<DropItem[]>([]);
+  const [progress, setProgress] = useState<Record<string, FileProgress>>({});
   const [notice, setNotice] = useState<string | null>(null);
   const engines = useRef(new Map<string, EngineHandle>());
   const files = useRef(new Map<string, File>());
 
+  /** Changes one item; an empty change keeps the item as it is (so memoised views skip it). */
   const update = useCallback((id: string, change: (item: DropItem) => Partial<DropItem>) => {
-    setItems((all) => all.map((it) => (it.id === id ? { ...it, ...change(it) } : it)));
+    setItems((all) => all.map((it) => {
+      if (it.id !== id) return it;
+      const patch = change(it);
+      return Object.keys(patch).length ? { ...it, ...patch } : it;
+    }));
+  }, []);
+
+  const tick = useCallback((id: string, change: (p: FileProgress) => FileProgress) => {
+    setProgress((all) => ({ ...all, [id]: change(all[id] ?? { sent: 0, startedAt: null }) }));
   }, []);
 
   const engineOf = useCallback((id: string): EngineHandle => {
@@ -116,18 +126,21 @@ export function useDrop(teamSlug: string) {
     });
     u.on("upload-progress", (file, p) => {
       if (!file) return;
-      update(file.id, (it) => ({ upload: { ...it.upload, state: "uploading", sent: p.bytesUploaded ?? 0, startedAt: it.upload.startedAt ?? (p.uploadStarted || Date.now()) } }));
+      tick(file.id, (x) => ({ ...x, sent: p.bytesUploaded ?? 0, startedAt: x.startedAt ?? (p.uploadStarted || Date.now()) }));
+      update(file.id, (it) => (it.upload.state === "queued" ? { upload: { ...it.upload, state: "uploading" } } : {}));
     });
     u.on("upload-success", (file, response) => {
       if (!file) return;
       const answer = response.body as unknown as UploadAnswer;
-      update(file.id, (it) => ({ upload: { ...it.upload, state: "done", sent: it.bytes, answer } }));
+      tick(file.id, (x) => ({ ...x, sent: file.size ?? x.sent }));
+      update(file.id, (it) => ({ upload: { ...it.upload, state: "done", answer } }));
     });
     u.on("upload-error", (file, error, response) => {
       if (!file) return;
       const xhr = response as unknown as XMLHttpRequest | undefined;
-      const message = xhr && typeof xhr.status === "number" ? answerError(xhr.status, xhr.responseText ?? "") : error.message;
-      update(file.id, (it) => ({ upload: { ...it.upload, state: "failed", error: message } }));
+      const status = xhr && typeof xhr.status === "number" ? xhr.status : 0;
+      const message = xhr && typeof xhr.status === "number" ? answerError(status, xhr.responseText ?? "") : error.message;
+      update(file.id, (it) => ({ upload: { ...it.upload, state: "failed", error: message, retryable: status === 0 || status >= 500 } }));
     });
     u.on("restriction-failed", (file, error) => {
       setNotice(`${file?.name ?? "That file"}: ${error.message}. Drop a CSV, TSV or TXT export of up to 2 GB.`);
@@ -139,7 +152,7 @@ export function useDrop(teamSlug: string) {
       running.clear();
       u.destroy();
     };
-  }, [teamSlug, inspect, update]);
+  }, [teamSlug, inspect, update, tick]);
 
   /** Stops the upload and any read, and forgets the file. */
   const cancel = useCallback((id: string) => {
@@ -151,9 +164,10 @@ export function useDrop(teamSlug: string) {
   }, [uppy]);
 
   const retryUpload = useCallback((id: string) => {
-    update(id, (it) => ({ upload: { ...it.upload, state: "queued", error: undefined, sent: 0, startedAt: null } }));
+    update(id, () => ({ upload: { state: "queued" } }));
+    tick(id, () => ({ sent: 0, startedAt: null }));
     void uppy?.retryUpload(id);
-  }, [uppy, update]);
+  }, [uppy, update, tick]);
 
   /** Sign and unit checks of the map as it stands (complete maps only). */
   const runChecks = useCallback(async (id: string, map: ChannelMap) => {
@@ -174,16 +188,17 @@ export function useDrop(teamSlug: string) {
   const readWhole = useCallback(async (id: string, run: (e: EngineHandle, file: File, onProgress: (p: ReadProgress) => void) => Promise<unknown>) => {
     const file = files.current.get(id);
     if (!file) return null;
-    update(id, () => ({ read: { state: "reading", progress: { bytes: 0, totalBytes: file.size, rows: 0, elapsedMs: 0 } } }));
-    const progress = progressProxy((p) => update(id, (it) => (it.read.state === "reading" ? { read: { state: "reading", progress: p } } : {})));
+    update(id, () => ({ read: { state: "reading" } }));
+    tick(id, (x) => ({ ...x, read: { bytes: 0, totalBytes: file.size, rows: 0, elapsedMs: 0 } }));
+    const onProgress = progressProxy((p) => tick(id, (x) => ({ ...x, read: p })));
     try {
-      return await run(engineOf(id), file, progress);
+      return await run(engineOf(id), file, onProgress);
     } catch (e) {
       // A cancelled read ends its worker: the call then fails here, which is not an error to show.
       update(id, (it) => (it.read.state === "cancelled" ? {} : { read: { state: "failed", error: e instanceof Error ? e.message : String(e) } }));
       return null;
     }
-  }, [engineOf, update]);
+  }, [engineOf, update, tick]);
 
   const cancelRead = useCallback((id: string) => {
     update(id, (it) => ({ read: { ...it.read, state: "cancelled" } }));
@@ -191,5 +206,5 @@ export function useDrop(teamSlug: string) {
     engines.current.delete(id);
   }, [update]);
 
-  return { uppy, items, update, notice, setNotice, cancel, retryUpload, runChecks, readWhole, cancelRead, fileOf: (id: string) => files.current.get(id) };
+  return { uppy, items, progress, update, notice, setNotice, cancel, retryUpload, runChecks, readWhole, cancelRead, fileOf: (id: string) => files.current.get(id) };
 }
