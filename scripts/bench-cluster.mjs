@@ -17,7 +17,7 @@
 // (RAKELINE_CLUSTER_PORT_BASE, RAKELINE_CLUSTER_DATA, RAKELINE_CLUSTER_APPS, RAKELINE_CLUSTER_WORKERS).
 import { fork, spawn } from "node:child_process";
 import { createHash } from "node:crypto";
-import { createReadStream, existsSync, mkdirSync, openAsBlob, openSync, readFileSync, writeFileSync } from "node:fs";
+import { createReadStream, mkdirSync, openAsBlob, openSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { pipeline } from "node:stream/promises";
 import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
@@ -180,8 +180,9 @@ async function readerRoutes({ cookie, token }) {
 async function makeLogs() {
   const tsx = packageBin(repoRoot, "tsx", "tsx");
   const dir = path.join(benchDir, "logs");
-  note(`making ${config.uploads} logs of ~${config.uploadMb} MB with the demo generator (reused when already there)`);
-  const child = spawn(process.execPath, [tsx, path.join(repoRoot, "scripts", "cluster-logs.ts"), "--mb", String(config.uploadMb), "--count", String(config.uploads), "--out", dir], {
+  const tag = new Date(t0).toISOString().slice(0, 19);
+  note(`making ${config.uploads} logs of ~${config.uploadMb} MB with the demo generator (the rows are kept for the next run)`);
+  const child = spawn(process.execPath, [tsx, path.join(repoRoot, "scripts", "cluster-logs.ts"), "--mb", String(config.uploadMb), "--count", String(config.uploads), "--tag", tag, "--out", dir], {
     cwd: repoRoot,
     stdio: ["ignore", "pipe", "inherit"],
   });
@@ -190,11 +191,13 @@ async function makeLogs() {
   const code = await new Promise((r) => child.once("exit", r));
   if (code !== 0) throw new UserFacingError(`scripts/cluster-logs.ts failed (exit ${code})`);
   const made = JSON.parse(text.trim().split("\n").pop());
-  for (const file of made.files) {
+  // Each file is its own head followed by the shared rows; its SHA-256 is taken over both, as the server does.
+  made.files = [];
+  for (const [k, head] of made.heads.entries()) {
     const hash = createHash("sha256");
-    await pipeline(createReadStream(file.path), hash);
-    file.sha256 = hash.digest("hex");
-    file.name = path.basename(file.path);
+    hash.update(head, "utf8");
+    await pipeline(createReadStream(made.rowsFile), hash);
+    made.files.push({ name: `load-${config.uploadMb}mb-${tag.replace(/[^0-9]/g, "")}-${k + 1}.csv`, head, bytes: Buffer.byteLength(head) + made.rowsBytes, sha256: hash.digest("hex") });
   }
   return made;
 }
@@ -208,7 +211,8 @@ async function uploadOne(file, index, made, token) {
     try {
       const form = new FormData();
       form.set("meta", JSON.stringify({ car: made.car, map: made.map, run: `Load run ${index + 1}`, date: new Date().toISOString().slice(0, 10) }));
-      form.set("file", await openAsBlob(file.path, { type: "text/csv" }), file.name);
+      // The head and the rows on disk as one file, streamed (never read whole into memory).
+      form.set("file", new Blob([file.head, await openAsBlob(made.rowsFile)], { type: "text/csv" }), file.name);
       const response = await fetch(`${appUrl}/api/sessions`, { method: "POST", headers: { authorization: `Bearer ${token}` }, body: form, signal: AbortSignal.timeout(30 * 60_000) });
       const body = await response.json().catch(() => ({}));
       attempts.push({ status: response.status, ms: Date.now() - at, error: body?.error });
@@ -338,7 +342,7 @@ async function listObjects() {
   let token;
   do {
     const page = await client.send(new ListObjectsV2Command({ Bucket: layout.s3Bucket, ContinuationToken: token }));
-    for (const o of page.Contents ?? []) keys.push(o.Key);
+    for (const o of page.Contents ?? []) keys.push({ key: o.Key, modified: o.LastModified?.getTime() ?? 0 });
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
   } while (token);
   return keys;
@@ -413,7 +417,10 @@ async function main() {
   const counts = compareRowCounts(await rowCountsPerNode(layout, layout.database));
   const objects = await listObjects();
   const referenced = (await query("SELECT storage_key AS k FROM raw_uploads WHERE storage = 's3'")).map((r) => r.k);
-  const storage = storageCheck(objects, referenced);
+  // Judged on the objects this run wrote; orphans an earlier run left in a kept cluster are counted apart.
+  const storage = storageCheck(objects.filter((o) => o.modified >= t0 - 1000).map((o) => o.key), referenced.filter((k) => objects.some((o) => o.key === k && o.modified >= t0 - 1000)));
+  const olderOrphans = storageCheck(objects.filter((o) => o.modified < t0 - 1000).map((o) => o.key), referenced).orphans.length;
+  const missingAll = storageCheck(objects.map((o) => o.key), referenced).missing;
   const unattached = await query("SELECT COUNT(*) AS n FROM raw_uploads WHERE team_id = ? AND status = 'stored' AND sha256 IN (" + shas.map(() => "?").join(",") + ")", [team.id, ...shas]);
 
   // Reader requests: nothing lost (no connection error, timeout or 5xx reached a reader); what the proxy sent again.
@@ -458,7 +465,7 @@ async function main() {
     { check: "the killed worker's job was redone once", ok: killedJob ? killedJob.status === "done" && killedJobResults === 1 : false, detail: killedJob ? `job ${killedJob.id}: ${killedJob.status}, ${killedJob.attempts} attempts, ${killedJobResults} result(s)` : "no job" },
     { check: "three nodes back in sync (wsrep_cluster_size 3, Synced)", ok: nodeStates.every((n) => n.status?.size === 3 && n.status.state === "Synced") },
     { check: "the same row counts on every node", ok: counts.inSync, detail: counts.differences.map((d) => `${d.table} ${JSON.stringify(d.counts)}`).join("; ") + (counts.silent.length ? ` no answer from ${counts.silent.join(", ")}` : "") },
-    { check: "no orphan object in storage (and none missing)", ok: storage.orphans.length === 0 && storage.missing.length === 0, detail: `${storage.objects} objects, ${storage.orphans.length} orphan(s), ${storage.missing.length} missing${storage.orphans.length ? `: ${storage.orphans.slice(0, 5).join(", ")}` : ""}; ${unattached[0]?.n ?? 0} upload(s) of these files left unattached` },
+    { check: "no orphan object in storage from this run (and no referenced object missing)", ok: storage.orphans.length === 0 && missingAll.length === 0, detail: `${storage.objects} object(s) written in this run, ${storage.orphans.length} orphan(s)${storage.orphans.length ? ` (${storage.orphans.slice(0, 5).join(", ")})` : ""}, ${missingAll.length} missing; ${olderOrphans} orphan(s) from earlier runs; ${unattached[0]?.n ?? 0} upload(s) of these files left unattached` },
   ];
   const verdict = verdictLines(checks);
   console.log("\nWhat held:");

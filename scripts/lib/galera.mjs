@@ -182,6 +182,10 @@ export function nodeArgs(layout, node, { newCluster = false, startPosition = nul
     `--wsrep-sst-receive-address=127.0.0.1:${node.sstPort}`,
     `--wsrep-sst-donor=${donorList(layout, node)}`,
     "--wsrep-slave-threads=2",
+    // While a dead peer is being voted out (a few seconds after a node dies) the writer node's view is
+    // changing and plain reads would be refused ("WSREP has not yet prepared node for application
+    // use"); let SELECTs through meanwhile. Writes still wait for a primary component.
+    "--wsrep-dirty-reads=ON",
     ...(newCluster ? ["--wsrep-new-cluster"] : []),
     ...(startPosition ? [`--wsrep-start-position=${startPosition}`] : []),
     ...(recover ? ["--wsrep-recover"] : []),

@@ -5,7 +5,8 @@
 //   closed with no answer) is sent again to another process by HAProxy's layer-7 retries. Requests
 //   with a body (uploads) are never retried by the proxy: their client sends them again.
 // - Database frontend: one writer at a time. db1 takes every connection while it is up; db2, then
-//   db3, are backups. A one-entry stick table keeps the writer where it is once it has moved, so a
+//   db3, are backups. The first refused connection marks a dead node down (live traffic is observed),
+//   so the next connection already goes to the next node. A one-entry stick table keeps the writer where it is once it has moved, so a
 //   node that comes back (and may still be catching up) does not take the writes back; this is the
 //   usual way to avoid Galera's certification conflicts between two writers.
 import { mkdirSync, openSync, writeFileSync } from "node:fs";
@@ -85,7 +86,10 @@ backend galera_writer
   # One entry: every connection goes to the node that took the writes last, while it is up.
   stick-table type integer size 1
   stick on int(1)
-  default-server inter 1s fastinter 500ms fall 2 rise 3 on-marked-down shutdown-sessions
+  default-server inter 1s fastinter 500ms fall 2 rise 3 on-marked-down shutdown-sessions observe layer4 error-limit 1 on-error mark-down
+  # A connection refused by a node that has just died marks it down at once (observe layer4), and is
+  # tried again on the next node instead of failing (redispatch), without waiting for two failed checks.
+  option redispatch
 ${dbServers.join("\n")}
 `;
 }

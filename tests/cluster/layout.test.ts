@@ -66,6 +66,8 @@ describe("Galera node arguments", () => {
       expect(args).toContain("--innodb-autoinc-lock-mode=2");
       expect(args).toContain("--wsrep-on=ON");
       expect(args).toContain("--user=mysql");
+      // Reads pass while a dead peer is voted out (MariaDB's wsrep_dirty_reads, documented for Galera).
+      expect(args).toContain("--wsrep-dirty-reads=ON");
       expect(args).toContain("--wsrep-cluster-address=gcomm://127.0.0.1:4441,127.0.0.1:4442,127.0.0.1:4443");
       expect(args).not.toContain("--wsrep-new-cluster");
     }
@@ -108,6 +110,10 @@ describe("HAProxy configuration", () => {
     ]);
     expect(backend).toContain("stick on int(1)");
     expect(backend).toContain("on-marked-down shutdown-sessions");
+    // A refused connection marks the node down at once and goes to the next one (HAProxy 2.6 manual:
+    // "observe", "on-error", "option redispatch").
+    expect(backend).toContain("observe layer4 error-limit 1 on-error mark-down");
+    expect(backend).toContain("option redispatch");
   });
 
   it("reads the statistics CSV", () => {
