@@ -1,5 +1,6 @@
 import { seedUsers } from "./users.server";
 import { seedGarage } from "./garage.server";
+import { seedSessions } from "./sessions.server";
 
 /**
  * Seeds the invented demo scenario. Idempotent: safe on every start; it only inserts what is
@@ -9,4 +10,6 @@ import { seedGarage } from "./garage.server";
 export async function seedDemo(): Promise<void> {
   await seedUsers();
   await seedGarage();
+  // Demo sessions through the server's ingest code (needs the team, its members and the Garage).
+  await seedSessions();
 }
