@@ -162,4 +162,39 @@ describe("Drop a log in the browser", () => {
     await page.getByRole("button", { name: "Cancel this file" }).click();
     await expect.poll(() => page.locator("[data-file]").count()).toBe(0);
   });
+
+  it("takes several files at once, proposes a sign flip, stores one and moves on to the next", async () => {
+    const page = browser.page;
+    await page.goto("/t/harrowgate/sessions/new", { waitUntil: "networkidle" });
+    const a = "sample-data/logs/marlin-kestrel-semicolon", b = "sample-data/logs/vesper-coldwater-comma";
+    await page.setInputFiles('[data-testid="drop-input"]', [join(ROOT, `${a}.csv`), join(ROOT, `${b}.csv`)]);
+    await expect.poll(() => page.locator("[data-file]").count()).toBe(2);
+    // This log's steering is logged with the other sign (its map.json inverts it); the column names cannot tell,
+    // the sign check on the first minutes can (lat_accel, steer and yaw_rate against each other).
+    const mapA = JSON.parse(readFileSync(join(ROOT, `${a}.map.json`), "utf8")) as ChannelMap;
+    expect(mapA.steer.invert).toBe(true);
+    const flip = page.getByRole("button", { name: "Flip steering-wheel angle" });
+    await flip.waitFor({ timeout: 30_000 });
+    await shoot(browser, "drop-6-proposal");
+    await flip.click();
+    expect(await page.isChecked("#map-steer-invert")).toBe(true);
+    await expect.poll(() => flip.count(), { timeout: 30_000 }).toBe(0);
+    await page.getByRole("button", { name: "Confirm map" }).click();
+    await page.locator("#f-carId").selectOption({ label: "Marlin SR2" });
+    await page.locator("#f-venueId").selectOption({ label: "Another venue…" });
+    await page.fill("#f-venueName", "Kestrel Bank Raceway");
+    await page.fill("#f-run", "Practice 3");
+    await page.getByRole("button", { name: "Read and store the session" }).click();
+    // The other file is still waiting: the page stays, says the first is stored and opens the second.
+    await page.getByRole("link", { name: "Open its Balance report" }).waitFor({ timeout: 60_000 });
+    await expect.poll(() => page.locator('section[aria-label^="Session from"] h2').innerText()).toBe("vesper-coldwater-comma.csv");
+    await expect.poll(() => page.inputValue("#map-time-column"), { timeout: 30_000 }).not.toBe("");
+    await page.getByRole("button", { name: "Confirm map" }).click();
+    // The details typed for the first file are kept for the next one; the car is changed.
+    expect(await page.inputValue("#f-run")).toBe("Practice 3");
+    await page.locator("#f-carId").selectOption({ label: "Vesper GT4-R" });
+    await page.fill("#f-run", "Cold morning");
+    await page.getByRole("button", { name: "Read and store the session" }).click();
+    await page.waitForURL(/\/t\/harrowgate\/sessions\/[0-9a-f-]{36}$/, { timeout: 60_000 });
+  });
 });

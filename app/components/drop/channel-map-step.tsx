@@ -169,7 +169,8 @@ export function ChannelMapStep({ item, onMap, onProfileName, onChecks, onConfirm
                   <option value="">{required ? "Choose a column…" : "Not logged"}</option>
                   {header.numericColumns.map((c) => {
                     const u = header.units[header.columns.indexOf(c)];
-                    return <option key={c} value={c}>{c}{u ? ` [${u}]` : ""}</option>;
+                    // The unit beside the name, unless the name already carries it ("Speed [km/h]").
+                    return <option key={c} value={c}>{c}{u && !c.includes(u) ? ` [${u}]` : ""}</option>;
                   })}
                 </select>
                 <div className="flex items-center gap-3">
