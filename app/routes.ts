@@ -75,6 +75,7 @@ export default [
   route("api/sessions/:sessionId", "routes/api/session-summary.ts"),
   route("api/sessions/:sessionId/bands.csv", "routes/api/session-bands-csv.ts"),
   route("api/sessions/:sessionId/traces", "routes/api/session-traces.ts"),
+  route("api/compare", "routes/api/compare.ts"),
   // Deleting a session (owner; confirm=yes): rows, raw upload and raw file.
   route("api/t/:teamSlug/sessions/:sessionId/delete", "routes/api/session-delete.ts"),
 
