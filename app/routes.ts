@@ -44,6 +44,8 @@ export default [
     route("audit", "routes/audit/audit.tsx"),
     // Balance report (one session).
     route("sessions/:sessionId", "routes/sessions/session.tsx"),
+    // Compare: sessions side by side (?ids=a,b,… and the picker's filters in the URL).
+    route("compare", "routes/compare/compare.tsx"),
   ]),
 
   // All of a team's data as one archive (owner).

@@ -13,6 +13,7 @@ describe("Balance report in the browser", () => {
   let browser: OpenBrowser;
   const pageErrors: string[] = [];
   let sessionId: string;
+  let splitterId: string;
   let summary: Awaited<ReturnType<typeof storeDemoSession>>["summary"];
 
   beforeAll(async () => {
@@ -21,6 +22,7 @@ describe("Balance report in the browser", () => {
     await seedGarage();
     const m = await demoMarlin();
     ({ id: sessionId, summary } = await storeDemoSession("marlin-comma", { teamId: m.team.id, carId: m.car.id, setupId: m.setupIds[0], name: "Kestrel Bank FP1" }));
+    splitterId = (await storeDemoSession("marlin-splitter", { teamId: m.team.id, carId: m.car.id, setupId: m.setupIds[1], name: "Low splitter", sessionDate: "2026-06-02" })).id;
     browser = await openBrowser();
     browser.page.on("pageerror", (e) => pageErrors.push(e.message));
     const signIn = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "analyst@harrowgate.example", password: DEMO_PASSWORD } });
@@ -68,6 +70,27 @@ describe("Balance report in the browser", () => {
     await page.screenshot({ path: `${SHOTS}/report-390-top.png` });
     await page.screenshot({ path: `${SHOTS}/report-390.png`, fullPage: true });
     await page.setViewportSize({ width: 1280, height: 800 });
+    expect(pageErrors.join("\n")).toBe("");
+  });
+
+  it("compares two sessions from different days: deltas flagged clear, setup changes listed, the overlay drawn", async () => {
+    const page = browser.page;
+    await page.goto(`/t/harrowgate/compare?ids=${sessionId},${splitterId}`, { waitUntil: "networkidle" });
+    expect(pageErrors.join("\n")).toBe("");
+    await page.waitForSelector('figure[data-drawn="yes"] canvas');
+    expect(await page.locator('[data-testid="pivot"] td[data-clear="yes"]').count()).toBeGreaterThan(0);
+    expect(await page.getByTestId("setup-changes").innerText()).toMatch(/Rear wing angle/);
+    await page.screenshot({ path: `${SHOTS}/compare-1280.png`, fullPage: true });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.screenshot({ path: `${SHOTS}/compare-390.png`, fullPage: true });
+    await page.setViewportSize({ width: 1280, height: 800 });
+    // The picker: unticking one session and comparing again navigates without a full reload.
+    await page.goto(`/t/harrowgate/compare`, { waitUntil: "networkidle" });
+    await page.locator(`input[name="ids"][value="${sessionId}"]`).check();
+    await page.locator(`input[name="ids"][value="${splitterId}"]`).check();
+    await page.getByRole("button", { name: "Compare selected" }).click();
+    await page.waitForSelector('[data-testid="comparison"]');
+    expect(page.url()).toContain(sessionId);
     expect(pageErrors.join("\n")).toBe("");
   });
 
