@@ -106,9 +106,9 @@ export default function Account({ loaderData, actionData }: Route.ComponentProps
           {teams.length === 0 ? (
             <p className="mb-4 text-sm text-ink-soft">Join or create a team first: a token belongs to one team.</p>
           ) : (
-            <Form method="post" noValidate className="mb-4 grid gap-x-3 sm:grid-cols-[1fr_1fr_auto] sm:items-end">
+            <Form key={newToken ?? "token-form"} method="post" noValidate className="mb-4 grid gap-x-3 sm:grid-cols-[1fr_1fr_auto] sm:items-end">
               <input type="hidden" name="intent" value="token-create" />
-              <Field label="Token name" name="name" placeholder="Pit laptop" maxLength={80} error={errorsFor("token-create").name} />
+              <Field label="Token name" name="name" id="token-name" placeholder="Pit laptop" maxLength={80} error={errorsFor("token-create").name} />
               <SelectField label="Team" name="team" options={teams.map((t) => ({ value: t.slug, label: t.name }))} error={errorsFor("token-create").team} />
               <Button busy={busy} variant="quiet" className="mb-4">Make token</Button>
             </Form>

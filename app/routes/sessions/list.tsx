@@ -7,7 +7,7 @@ import { can, requireMember } from "~/server/permissions.server";
 import { listSessionsPage, sessionPageSchema, teamHasSessions, type SessionRow } from "~/server/sessions/list.server";
 import { EmptyState, Caution } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
-import { Num, SortHeader } from "~/components/garage/table";
+import { SortHeader } from "~/components/garage/table";
 import type { Route } from "./+types/list";
 
 const STATE_WORDS: Record<SessionRow["state"], string> = {
@@ -41,6 +41,10 @@ function duration(s: number | null) {
   if (s === null) return <span className="text-ink-faint">—</span>;
   const m = Math.floor(s / 60);
   return `${m}:${String(Math.round(s % 60)).padStart(2, "0")}`;
+}
+
+function Figure({ children }: { children: React.ReactNode }) {
+  return <td className="num whitespace-nowrap px-3 py-1.5 text-right">{children}</td>;
 }
 
 function StateBadge({ state, detail }: { state: SessionRow["state"]; detail: string | null }) {
@@ -128,7 +132,23 @@ export default function Sessions({ loaderData }: Route.ComponentProps) {
           {rows.length === 0 ? (
             <EmptyState title="No session matches">Widen or clear the filter to see the team's sessions.</EmptyState>
           ) : (
-            <div className="overflow-x-auto rounded border border-rule bg-panel">
+            <>
+            <ul className="space-y-2 sm:hidden" aria-label="Sessions (compact)">
+              {rows.map((r) => (
+                <li key={r.id} className="rounded border border-rule bg-panel px-3 py-2 text-sm">
+                  <div className="flex items-baseline justify-between gap-2">
+                    <Link to={`${base}/sessions/${r.id}`} className="font-medium text-accent underline">
+                      {r.date ?? "no date"} · {r.run ?? "run"}
+                    </Link>
+                    <StateBadge state={r.state} detail={r.statusDetail} />
+                  </div>
+                  <p className="text-ink-soft">{r.venue?.name ?? "no venue"} · {r.driver?.name ?? "no driver"} · {duration(r.durationS)}</p>
+                  <p>{r.car.name} <span className="text-ink-soft">· {r.setup.name} v{r.setup.version}</span></p>
+                  <p className="num">ClA {fmt(r.claTotalM2, 3, " m²")} · balance {fmt(r.balanceFrontPct, 1, " % front")}</p>
+                </li>
+              ))}
+            </ul>
+            <div className="hidden overflow-x-auto rounded border border-rule bg-panel sm:block">
               <table className="w-full text-sm" aria-label="Sessions">
                 <thead className="border-b border-rule bg-rule-soft">
                   <tr>
@@ -155,15 +175,16 @@ export default function Sessions({ loaderData }: Route.ComponentProps) {
                       </td>
                       <td className="px-3 py-1.5">{r.driver?.name ?? <span className="text-ink-faint">—</span>}</td>
                       <td className="px-3 py-1.5">{r.run ?? <span className="text-ink-faint">—</span>}</td>
-                      <Num>{duration(r.durationS)}</Num>
-                      <Num>{fmt(r.claTotalM2, 3, " m²")}</Num>
-                      <Num>{fmt(r.balanceFrontPct, 1, " % front")}</Num>
+                      <Figure>{duration(r.durationS)}</Figure>
+                      <Figure>{fmt(r.claTotalM2, 3, " m²")}</Figure>
+                      <Figure>{fmt(r.balanceFrontPct, 1, " % front")}</Figure>
                       <td className="px-3 py-1.5"><StateBadge state={r.state} detail={r.statusDetail} /></td>
                     </tr>
                   ))}
                 </tbody>
               </table>
             </div>
+            </>
           )}
           <nav aria-label="Pages" className="mt-3 flex items-center gap-3 text-sm">
             {query.page > 1 && <Link to={pageLink(query.page - 1)} className="text-accent underline">← Newer page</Link>}

@@ -88,7 +88,7 @@ export default function Venues({ loaderData, actionData }: Route.ComponentProps)
               <tr>
                 <th scope="col" className="px-3 py-2 text-left font-medium">Venue</th>
                 <th scope="col" className="px-3 py-2 text-right font-medium">Altitude</th>
-                <th scope="col" className="px-3 py-2 text-left font-medium">Notes</th>
+                <th scope="col" className="hidden px-3 py-2 text-left font-medium sm:table-cell">Notes</th>
                 <th scope="col" className="px-3 py-2 text-right font-medium">Sessions</th>
                 {canEdit && <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>}
               </tr>
@@ -98,7 +98,7 @@ export default function Venues({ loaderData, actionData }: Route.ComponentProps)
                 <tr key={v.id} className="border-b border-rule-soft align-top last:border-0">
                   <td className="px-3 py-1.5 font-medium">{v.name}</td>
                   <td className="num px-3 py-1.5 text-right">{v.altitudeM === null ? <span className="text-ink-faint">—</span> : `${Math.round(v.altitudeM)} m`}</td>
-                  <td className="px-3 py-1.5 text-ink-soft">{v.notes ?? ""}</td>
+                  <td className="hidden px-3 py-1.5 text-ink-soft sm:table-cell">{v.notes ?? ""}</td>
                   <td className="num px-3 py-1.5 text-right">{v.sessions}</td>
                   {canEdit && (
                     <td className="px-3 py-1.5 text-right">

@@ -31,8 +31,8 @@ import { deleteObject, getStream, putStream } from "../storage.server";
 import { DEMO_TEAM } from "./users.server";
 
 const VENUES = [
-  { name: KESTREL_BANK.name, altitudeM: 85, notes: "3.1 km circuit: two hairpins, fast sweepers (invented demo venue)" },
-  { name: COLDWATER_RIDGE.name, altitudeM: 420, notes: "1.9 km hill-climb, start line altitude (invented demo venue)" },
+  { name: KESTREL_BANK.name, altitudeM: 85, notes: "3.1 km circuit: two hairpins, fast sweepers" },
+  { name: COLDWATER_RIDGE.name, altitudeM: 420, notes: "1.9 km hill-climb; altitude of the start line" },
 ];
 
 /** The Marlin on setup v2: more rear wing (6° → 9°) and a stiffer rear spring, as the seeded setup sheet says. */
