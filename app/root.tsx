@@ -18,6 +18,9 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <Links />
       </head>
       <body className="min-h-screen antialiased">
+        <a href="#main" className="sr-only z-50 rounded bg-panel px-3 py-2 text-sm text-accent underline focus:not-sr-only focus:absolute focus:top-2 focus:left-2">
+          Skip to the page's content
+        </a>
         {children}
         <ScrollRestoration nonce={nonce} />
         <Scripts nonce={nonce} />

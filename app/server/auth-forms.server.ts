@@ -128,3 +128,11 @@ export async function changePassword(caller: Caller, userId: string, currentPass
 export async function updateName(request: Request, name: string): Promise<void> {
   await auth.api.updateUser({ body: { name }, headers: request.headers });
 }
+
+/** Whether a password-reset token is stored and not expired (better-auth's own lookup, so its storage rules apply). */
+export async function resetTokenIsLive(token: string): Promise<boolean> {
+  if (token.length > 200 || !/^[A-Za-z0-9_-]+$/.test(token)) return false;
+  const context = await auth.$context;
+  const row = await context.internalAdapter.findVerificationValue(`reset-password:${token}`);
+  return Boolean(row && new Date(row.expiresAt).getTime() > Date.now());
+}

@@ -2,13 +2,14 @@ import type { ReactNode } from "react";
 import { Link, useSearchParams } from "react-router";
 
 /** A column header that sorts the table through the URL (?sort=…&dir=…), so the server does the work. */
-export function SortHeader({ column, children, align = "left", defaultSort, defaultDir = "asc" }: {
+export function SortHeader({ column, children, align = "left", defaultSort, defaultDir = "asc", className }: {
   column: string;
   children: ReactNode;
   align?: "left" | "right";
   defaultSort: string;
   /** The order the server uses when the URL names none. */
   defaultDir?: "asc" | "desc";
+  className?: string;
 }) {
   const [params] = useSearchParams();
   const current = params.get("sort") ?? defaultSort;
@@ -19,7 +20,7 @@ export function SortHeader({ column, children, align = "left", defaultSort, defa
   next.set("dir", current === column && dir === "asc" ? "desc" : "asc");
   const active = current === column;
   return (
-    <th scope="col" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : "none"} className={`px-3 py-2 font-medium ${align === "right" ? "text-right" : "text-left"}`}>
+    <th scope="col" aria-sort={active ? (dir === "asc" ? "ascending" : "descending") : "none"} className={`px-3 py-2 font-medium ${align === "right" ? "text-right" : "text-left"} ${className ?? ""}`}>
       <Link to={`?${next}`} className="hover:text-accent" preventScrollReset>
         {children}
         <span aria-hidden className="ml-1 text-ink-faint">
@@ -30,8 +31,8 @@ export function SortHeader({ column, children, align = "left", defaultSort, defa
   );
 }
 
-export function Num({ children }: { children: ReactNode }) {
-  return <td className="num px-3 py-1.5 text-right">{children}</td>;
+export function Num({ children, className }: { children: ReactNode; className?: string }) {
+  return <td className={`num px-3 py-1.5 text-right ${className ?? ""}`}>{children}</td>;
 }
 
 export function UnitsLink({ system }: { system: "metric" | "imperial" }) {

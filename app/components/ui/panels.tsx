@@ -66,7 +66,7 @@ export function Caution({ compact }: { compact?: boolean }) {
 /** A small centred card for the sign-in family of pages. */
 export function AuthCard({ title, children, footer }: { title: string; children: ReactNode; footer?: ReactNode }) {
   return (
-    <main className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-4 py-10">
+    <main id="main" tabIndex={-1} className="mx-auto flex min-h-screen max-w-md flex-col justify-center px-4 py-10">
       <div className="mb-6 text-lg">
         <Wordmark />
       </div>

@@ -45,7 +45,7 @@ export function AppShell({ user, teams, current, nav, children }: ShellProps) {
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-6xl px-4 py-6">{children}</main>
+      <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-6">{children}</main>
     </div>
   );
 }

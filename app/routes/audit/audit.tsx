@@ -69,7 +69,7 @@ export default function AuditLog({ loaderData }: Route.ComponentProps) {
         {entries.length === 0 ? (
           <EmptyState title="Nothing recorded yet">Changes to the team's data appear here as they happen.</EmptyState>
         ) : (
-          <div className="overflow-x-auto">
+          <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Audit entries">
             <table className="w-full text-sm">
               <thead className="border-b border-rule text-left">
                 <tr>

@@ -2,13 +2,15 @@ import { data, Form, Link, useNavigation } from "react-router";
 import { AuthCard } from "~/components/ui/panels";
 import { Button, Field, FormAlert } from "~/components/ui/form";
 import { fieldErrors, PASSWORD_MIN, resetPasswordSchema } from "~/lib/auth-schemas";
-import { resetPassword } from "~/server/auth-forms.server";
+import { resetPassword, resetTokenIsLive } from "~/server/auth-forms.server";
 import { readFormFields } from "~/server/body.server";
 import { useFormCheck } from "~/components/ui/use-form-check";
 import type { Route } from "./+types/reset-password";
 
-export function loader({ request }: Route.LoaderArgs) {
-  return { token: new URL(request.url).searchParams.get("token") ?? "" };
+export async function loader({ request }: Route.LoaderArgs) {
+  const token = new URL(request.url).searchParams.get("token") ?? "";
+  // Say at once when a link is dead (used, replaced by a newer one, or expired), not after the user typed twice.
+  return { token, valid: token ? await resetTokenIsLive(token) : false };
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -23,6 +25,16 @@ export async function action({ request, context }: Route.ActionArgs) {
 export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
   const { errors, onSubmit } = useFormCheck(resetPasswordSchema, actionData?.errors as Record<string, string> | undefined);
+  if (loaderData.token && !loaderData.valid && !actionData) {
+    return (
+      <AuthCard title="This reset link no longer works">
+        <p className="text-ink-soft">
+          It has been used, a newer link replaced it, or it expired. Request a new link; it arrives by e-mail within a minute.
+        </p>
+        <Link to="/forgot-password" className="mt-4 inline-block text-accent underline">Request a new link</Link>
+      </AuthCard>
+    );
+  }
   if (!loaderData.token) {
     return (
       <AuthCard title="Reset link incomplete">

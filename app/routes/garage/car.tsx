@@ -193,10 +193,10 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
               <tr>
                 <SortHeader column="name" defaultSort="updated" defaultDir="desc">Setup</SortHeader>
                 <SortHeader column="version" defaultSort="updated" defaultDir="desc" align="right">Latest version</SortHeader>
-                <th className="px-3 py-2 text-right font-medium">Springs F / R</th>
-                <th className="px-3 py-2 text-right font-medium">Rear wing</th>
-                <th className="px-3 py-2 text-right font-medium">Sessions</th>
-                <SortHeader column="updated" defaultSort="updated" defaultDir="desc" align="right">Changed</SortHeader>
+                <th className="hidden px-3 py-2 text-right font-medium sm:table-cell">Springs F / R</th>
+                <th className="hidden px-3 py-2 text-right font-medium sm:table-cell">Rear wing</th>
+                <th className="hidden px-3 py-2 text-right font-medium md:table-cell">Sessions</th>
+                <SortHeader column="updated" defaultSort="updated" defaultDir="desc" align="right" className="hidden sm:table-cell">Changed</SortHeader>
                 {canCreateSetup && <th className="px-3 py-2"><span className="sr-only">Actions</span></th>}
               </tr>
             </thead>
@@ -207,12 +207,12 @@ export default function CarPage({ loaderData }: Route.ComponentProps) {
                     <Link to={`${base}/setups/${s.setupId}${suffix}`} className="font-medium text-accent underline">{s.name}</Link>
                   </td>
                   <Num>v{s.latestVersion} of {s.versions}</Num>
-                  <Num>
+                  <Num className="hidden sm:table-cell">
                     {formatQuantity(s.frontSpringRateNPerMm, "springRate", units, 0)} / {formatQuantity(s.rearSpringRateNPerMm, "springRate", units, 0)}
                   </Num>
-                  <Num>{s.rearWingAngleDeg !== null ? `${s.rearWingAngleDeg} deg` : (s.rearWingStep ?? "—")}</Num>
-                  <Num>{s.sessions}</Num>
-                  <Num>{new Date(s.updatedAt).toISOString().slice(0, 10)} {s.authorName ?? ""}</Num>
+                  <Num className="hidden sm:table-cell">{s.rearWingAngleDeg !== null ? `${s.rearWingAngleDeg} deg` : (s.rearWingStep ?? "—")}</Num>
+                  <Num className="hidden md:table-cell">{s.sessions}</Num>
+                  <Num className="hidden sm:table-cell">{new Date(s.updatedAt).toISOString().slice(0, 10)} {s.authorName ?? ""}</Num>
                   {canCreateSetup && (
                     <td className="px-3 py-1.5 text-right">
                       <Form method="post">

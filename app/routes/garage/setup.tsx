@@ -139,9 +139,9 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
             <tr>
               <th className="px-3 py-1.5 text-left font-medium">Version</th>
               <th className="px-3 py-1.5 text-left font-medium">Saved</th>
-              <th className="px-3 py-1.5 text-left font-medium">By</th>
+              <th className="hidden px-3 py-1.5 text-left font-medium sm:table-cell">By</th>
               <th className="px-3 py-1.5 text-left font-medium">Change</th>
-              <th className="px-3 py-1.5 text-right font-medium">Sessions</th>
+              <th className="hidden px-3 py-1.5 text-right font-medium sm:table-cell">Sessions</th>
             </tr>
           </thead>
           <tbody>
@@ -151,13 +151,13 @@ export default function SetupPage({ loaderData }: Route.ComponentProps) {
                   <Link to={`${carBase}/setups/${h.id}`} className="text-accent underline">v{h.version}</Link>
                   {h.archived && <span className="ml-1 text-xs text-ink-soft">archived</span>}
                 </td>
-                <td className="num px-3 py-1.5">{new Date(h.updatedAt).toISOString().slice(0, 16).replace("T", " ")} UTC</td>
-                <td className="px-3 py-1.5">{h.authorName ?? "demo seed"}</td>
+                <td className="num px-3 py-1.5">{new Date(h.updatedAt).toISOString().slice(0, 16).replace("T", " ")}<span className="hidden sm:inline"> UTC</span></td>
+                <td className="hidden px-3 py-1.5 sm:table-cell">{h.authorName ?? "demo seed"}</td>
                 <td className="px-3 py-1.5">
                   {h.changeNote && <span className="font-medium">{h.changeNote}. </span>}
                   <span className="text-ink-soft">{h.change}</span>
                 </td>
-                <td className="num px-3 py-1.5 text-right">{h.sessions}</td>
+                <td className="num hidden px-3 py-1.5 text-right sm:table-cell">{h.sessions}</td>
               </tr>
             ))}
           </tbody>

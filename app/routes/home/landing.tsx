@@ -30,7 +30,7 @@ export default function Landing() {
           </nav>
         </div>
       </header>
-      <main className="mx-auto max-w-6xl px-4 py-8">
+      <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-8">
         <section className="grid gap-8 md:grid-cols-[3fr_2fr] md:items-center">
           <div>
             <h1 className="text-3xl font-semibold leading-tight">Know where the balance went, stint by stint.</h1>

@@ -7,7 +7,7 @@ export function loader() {
 
 export default function NotFound() {
   return (
-    <main className="mx-auto max-w-3xl px-4 py-10">
+    <main id="main" tabIndex={-1} className="mx-auto max-w-3xl px-4 py-10">
       <h1 className="text-2xl font-semibold">Not found</h1>
       <p className="mt-2 text-ink-soft">There is nothing at this address.</p>
       <Link to="/" className="mt-4 inline-block text-accent underline">

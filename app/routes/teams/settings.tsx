@@ -130,22 +130,26 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
       )}
 
       <Panel title={<>Members <span className="num text-sm font-normal text-ink-faint">({members.length})</span></>}>
-        <div className="overflow-x-auto">
+        <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Members">
           <table className="w-full text-sm">
             <thead className="text-left text-ink-faint">
               <tr className="border-b border-rule-soft">
                 <th className="py-1.5 pr-3 font-medium">Name</th>
-                <th className="py-1.5 pr-3 font-medium">E-mail</th>
+                <th className="hidden py-1.5 pr-3 font-medium sm:table-cell">E-mail</th>
                 <th className="py-1.5 pr-3 font-medium">Role</th>
-                <th className="py-1.5 pr-3 text-right font-medium">Joined</th>
+                <th className="hidden py-1.5 pr-3 text-right font-medium sm:table-cell">Joined</th>
                 {(allowed.changeRole || allowed.remove) && <th className="py-1.5 font-medium"><span className="sr-only">Actions</span></th>}
               </tr>
             </thead>
             <tbody>
               {members.map((m) => (
                 <tr key={m.memberId} className="border-b border-rule-soft align-middle">
-                  <td className="py-1.5 pr-3">{m.name}{m.userId === me && <span className="text-ink-faint"> (you)</span>}</td>
-                  <td className="py-1.5 pr-3 text-ink-soft">{m.email}</td>
+                  <td className="py-1.5 pr-3">
+                    {m.name}
+                    {m.userId === me && <span className="text-ink-faint"> (you)</span>}
+                    <span className="block break-all text-xs text-ink-soft sm:hidden">{m.email}</span>
+                  </td>
+                  <td className="hidden py-1.5 pr-3 text-ink-soft sm:table-cell">{m.email}</td>
                   <td className="py-1.5 pr-3">
                     {allowed.changeRole ? (
                       <Form method="post" className="flex items-center gap-2">
@@ -161,7 +165,7 @@ export default function TeamSettings({ loaderData, actionData }: Route.Component
                       ROLE_LABELS[m.role]
                     )}
                   </td>
-                  <td className="num py-1.5 pr-3 text-right">{dateFmt(m.joinedAt)}</td>
+                  <td className="num hidden py-1.5 pr-3 text-right sm:table-cell">{dateFmt(m.joinedAt)}</td>
                   {(allowed.changeRole || allowed.remove) && (
                     <td className="py-1.5 text-right">
                       {allowed.remove && m.userId !== me && (
