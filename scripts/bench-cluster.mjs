@@ -16,9 +16,11 @@
 // as soon as the last is answered, the default), RAKELINE_BENCH_JOB_TIMEOUT_S (900); the cluster's own
 // (RAKELINE_CLUSTER_PORT_BASE, RAKELINE_CLUSTER_DATA, RAKELINE_CLUSTER_APPS, RAKELINE_CLUSTER_WORKERS).
 import { fork, spawn } from "node:child_process";
-import { createHash } from "node:crypto";
+import { createHash, randomUUID } from "node:crypto";
+import { request as httpRequest } from "node:http";
 import { createReadStream, mkdirSync, openAsBlob, openSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
+import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
 import mysql from "mysql2/promise";
@@ -202,6 +204,51 @@ async function makeLogs() {
   return made;
 }
 
+/**
+ * POST multipart/form-data with a `meta` part and a `file` part that is the file's head followed by the
+ * rows on disk, streamed with a Content-Length (never held in memory, as a pit laptop's client would send
+ * it). Resolves with { status, body } or rejects on a network failure.
+ */
+function postMultipart(url, headers, meta, file, made) {
+  const boundary = `rakeline-bench-${randomUUID()}`;
+  const pre = Buffer.from(
+    `--${boundary}\r\nContent-Disposition: form-data; name="meta"\r\nContent-Type: application/json\r\n\r\n${meta}\r\n` +
+      `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${file.name}"\r\nContent-Type: text/csv\r\n\r\n${file.head}`,
+  );
+  const post = Buffer.from(`\r\n--${boundary}--\r\n`);
+  return new Promise((resolve, reject) => {
+    const request = httpRequest(url, {
+      method: "POST",
+      headers: { ...headers, "content-type": `multipart/form-data; boundary=${boundary}`, "content-length": pre.length + made.rowsBytes + post.length },
+      timeout: 30 * 60_000,
+    });
+    request.once("error", reject);
+    request.once("timeout", () => request.destroy(new Error("no answer within 30 minutes")));
+    request.once("response", (response) => {
+      let text = "";
+      response.setEncoding("utf8");
+      response.on("data", (d) => (text += d));
+      response.once("error", reject);
+      response.once("end", () => {
+        let body = {};
+        try {
+          body = JSON.parse(text);
+        } catch {
+          body = { error: text.slice(0, 200) || undefined };
+        }
+        resolve({ status: response.statusCode, body });
+      });
+    });
+    async function* parts() {
+      yield pre;
+      yield* createReadStream(made.rowsFile, { highWaterMark: 1 << 20 });
+      yield post;
+    }
+    // The server may answer (and close) before the whole body is sent, e.g. a refusal: keep its answer.
+    pipeline(Readable.from(parts()), request).catch(() => undefined);
+  });
+}
+
 /** One engineer's upload: sent again after a network failure or a 5xx, as a client would (the server finds it again by its SHA-256). */
 async function uploadOne(file, index, made, token) {
   const attempts = [];
@@ -209,12 +256,9 @@ async function uploadOne(file, index, made, token) {
   for (let attempt = 1; attempt <= 8; attempt++) {
     const at = Date.now();
     try {
-      const form = new FormData();
-      form.set("meta", JSON.stringify({ car: made.car, map: made.map, run: `Load run ${index + 1}`, date: new Date().toISOString().slice(0, 10) }));
-      // The head and the rows on disk as one file, streamed (never read whole into memory).
-      form.set("file", new Blob([file.head, await openAsBlob(made.rowsFile)], { type: "text/csv" }), file.name);
-      const response = await fetch(`${appUrl}/api/sessions`, { method: "POST", headers: { authorization: `Bearer ${token}` }, body: form, signal: AbortSignal.timeout(30 * 60_000) });
-      const body = await response.json().catch(() => ({}));
+      const meta = JSON.stringify({ car: made.car, map: made.map, run: `Load run ${index + 1}`, date: new Date().toISOString().slice(0, 10) });
+      const response = await postMultipart(`${appUrl}/api/sessions`, { authorization: `Bearer ${token}` }, meta, file, made);
+      const body = response.body;
       attempts.push({ status: response.status, ms: Date.now() - at, error: body?.error });
       if (response.status === 201 || response.status === 200) {
         note(`upload ${file.name}: ${response.status}${body.duplicate ? " (found again by its SHA-256)" : ""} after ${((Date.now() - started) / 1000).toFixed(1)} s, attempt ${attempt}`);
@@ -226,8 +270,8 @@ async function uploadOne(file, index, made, token) {
       }
       note(`upload ${file.name}: ${response.status} (${body?.error ?? "no message"}); sending it again`);
     } catch (error) {
-      attempts.push({ status: 0, ms: Date.now() - at, error: error.cause?.code ?? error.message });
-      note(`upload ${file.name}: ${error.cause?.code ?? error.message}; sending it again`);
+      attempts.push({ status: 0, ms: Date.now() - at, error: error.code ?? error.cause?.code ?? error.message });
+      note(`upload ${file.name}: ${error.code ?? error.cause?.code ?? error.message}; sending it again`);
     }
     await sleep(2000);
   }
@@ -424,7 +468,8 @@ async function main() {
   const unattached = await query("SELECT COUNT(*) AS n FROM raw_uploads WHERE team_id = ? AND status = 'stored' AND sha256 IN (" + shas.map(() => "?").join(",") + ")", [team.id, ...shas]);
 
   // Reader requests: nothing lost (no connection error, timeout or 5xx reached a reader); what the proxy sent again.
-  const lostReads = readerRoutesResult.reduce((n, r) => n + r.errors + r.timeouts + r.serverErrors, 0);
+  // autocannon counts a timed-out request among its errors as well as its timeouts.
+  const lostReads = readerRoutesResult.reduce((n, r) => n + Math.max(r.errors, r.timeouts) + r.serverErrors, 0);
   const appStat = (stats) => stats.filter((s) => s.proxy === "app_processes" && s.server === "BACKEND")[0] ?? { retries: 0, redispatches: 0 };
   const retried = appStat(statsAfter).retries - appStat(statsBefore).retries;
   const redispatched = appStat(statsAfter).redispatches - appStat(statsBefore).redispatches;

@@ -6,6 +6,7 @@ export interface GaleraNode {
   socket: string;
   pidFile: string;
   log: string;
+  tmpdir: string;
   clientPort: number;
   groupPort: number;
   istPort: number;

@@ -39,6 +39,8 @@ export function clusterLayout({ base = portBase(), dir = clusterDir(), apps = 2,
       socket: path.join(datadir, "mysqld.sock"),
       pidFile: path.join(datadir, "mysqld.pid"),
       log: path.join(dir, "logs", `db${i}.log`),
+      // Each node's own folder for internal temporary tables (never a /tmp shared with other servers).
+      tmpdir: path.join(dir, "tmp", `db${i}`),
       clientPort: base + 30 + i,
       groupPort: base + 40 + i,
       istPort: base + 50 + i,

@@ -157,6 +157,7 @@ export function nodeArgs(layout, node, { newCluster = false, startPosition = nul
     `--datadir=${node.datadir}`,
     `--socket=${node.socket}`,
     `--pid-file=${node.pidFile}`,
+    `--tmpdir=${node.tmpdir}`,
     `--port=${node.clientPort}`,
     "--bind-address=127.0.0.1",
     "--user=mysql",
@@ -208,8 +209,15 @@ function initialiseNode(node, installDb, account, logDir) {
   return true;
 }
 
+/** The node's own temporary-table folder, owned by mysql. */
+function ensureTmpdir(node) {
+  mkdirSync(node.tmpdir, { recursive: true });
+  chownTree(node.tmpdir, mysqlAccount());
+}
+
 /** The seqno `mariadbd --wsrep-recover` finds in a node's InnoDB (its last committed write set), or null. */
 async function recoverPosition(layout, node) {
+  ensureTmpdir(node);
   const { server } = tools();
   const log = path.join(layout.logDir, `${node.name}-recover.log`);
   rmSync(log, { force: true });
@@ -236,6 +244,7 @@ async function stopLeftoverNode(node) {
 export async function startNode(layout, node, { newCluster = false, recoverFirst = false, timeoutMs = 180_000 } = {}) {
   const { server } = tools();
   await assertPortFree("127.0.0.1", node.clientPort, `Another MariaDB may be using it; stop it and run again.`);
+  ensureTmpdir(node);
   let startPosition = null;
   if (recoverFirst) {
     const recovered = await recoverPosition(layout, node);

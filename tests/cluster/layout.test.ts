@@ -68,9 +68,12 @@ describe("Galera node arguments", () => {
       expect(args).toContain("--user=mysql");
       // Reads pass while a dead peer is voted out (MariaDB's wsrep_dirty_reads, documented for Galera).
       expect(args).toContain("--wsrep-dirty-reads=ON");
+      // Its own folder for internal temporary tables, not a /tmp shared with every other server here.
+      expect(args.find((a) => a.startsWith("--tmpdir="))).toMatch(/[/\\]tmp[/\\]db[123]$/);
       expect(args).toContain("--wsrep-cluster-address=gcomm://127.0.0.1:4441,127.0.0.1:4442,127.0.0.1:4443");
       expect(args).not.toContain("--wsrep-new-cluster");
     }
+    expect(new Set(layout.nodes.map((n) => n.tmpdir)).size).toBe(3);
     const ports = layout.nodes.flatMap((n) => [n.clientPort, n.groupPort, n.istPort, n.sstPort]);
     expect(new Set(ports).size).toBe(12);
     expect(all[1]).toContain(`--wsrep-sst-receive-address=127.0.0.1:${layout.nodes[1].sstPort}`);
