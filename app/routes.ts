@@ -80,6 +80,8 @@ export default [
   route("api/compare", "routes/api/compare.ts"),
   // Deleting a session (owner; confirm=yes): rows, raw upload and raw file.
   route("api/t/:teamSlug/sessions/:sessionId/delete", "routes/api/session-delete.ts"),
+  // Re-analysis of a stored session (a setup-version correction or a new engine): the job worker reads the file again.
+  route("api/t/:teamSlug/sessions/:sessionId/reanalyse", "routes/api/session-reanalyse.ts"),
 
   // Anything else: JSON under /api/, the not-found page elsewhere.
   route("api/*", "routes/api/not-found.ts"),

@@ -30,7 +30,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     db.select({ id: cars.id, name: cars.name }).from(cars).where(eq(cars.teamId, ctx.team.id)).orderBy(asc(cars.name)),
     db.select({ id: venues.id, name: venues.name }).from(venues).where(and(eq(venues.teamId, ctx.team.id))).orderBy(asc(venues.name)),
   ]);
-  return { team: ctx.team, query, problem, rows: page.rows, hasNext: page.hasNext, any, cars: carRows, venues: venueRows, canUpload: can(ctx.role, { session: ["upload"] }) };
+  const deleted = new URL(request.url).searchParams.has("deleted");
+  return { team: ctx.team, query, problem, deleted, rows: page.rows, hasNext: page.hasNext, any, cars: carRows, venues: venueRows, canUpload: can(ctx.role, { session: ["upload"] }) };
 }
 
 function fmt(value: number | null, digits: number, unit: string) {
@@ -58,7 +59,7 @@ function StateBadge({ state, detail }: { state: SessionRow["state"]; detail: str
 }
 
 export default function Sessions({ loaderData }: Route.ComponentProps) {
-  const { team, query, problem, rows, hasNext, any, cars, venues, canUpload } = loaderData;
+  const { team, query, problem, deleted, rows, hasNext, any, cars, venues, canUpload } = loaderData;
   const base = `/t/${team.slug}`;
   const pageLink = (page: number) => {
     const next = new URLSearchParams();
@@ -80,6 +81,9 @@ export default function Sessions({ loaderData }: Route.ComponentProps) {
           )}
         </div>
       </header>
+      {deleted && (
+        <p role="status" className="mb-3 rounded border border-rule bg-rule-soft px-3 py-2 text-sm">The session was deleted with its raw file.</p>
+      )}
       {!any ? (
         <EmptyState title="No sessions yet" action={canUpload ? { to: `${base}/sessions/new`, label: "Drop a log" } : undefined}>
           A session is one logger export read by Rakeline: ClA per axle, balance and understeer gradient per speed band.
