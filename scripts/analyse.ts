@@ -7,7 +7,7 @@
  * burn is taken as linear in time and split over the axles by the car file's
  * fuel_tank_from_front_axle_mm, and the static-load drift is then not fitted.
  * Large files are analysed in parts on worker threads (one per core by default; --threads 1 for
- * one thread); the summary is the same either way (see app/engine/split.ts).
+ * one thread); the output is the same either way (see app/engine/split.ts and filters.ts).
  * Prints one JSON object (the session summary without its chart traces) on stdout and exits 0.
  * Any bad input: exit 2, exactly one line `error: …` on stderr, nothing on stdout.
  */

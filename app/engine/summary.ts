@@ -136,7 +136,8 @@ export class SummaryBuilder {
     const h1 = Math.max(1, Math.round(s.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(s.opts.gateSmoothingS / dt / 2));
     const halves = SLOT_CHANNELS.map((_, i) => (i === T ? 0 : (i >= DFL && i <= RHR) || i === V || i === AX ? h1 : h2));
-    this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === V || i === AY || i === STEER || (i >= DFL && i <= DRR)));
+    // Window sums restart at every time block (filters.ts): a part of the log then smooths exactly as the whole-log run.
+    this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === V || i === AY || i === STEER || (i >= DFL && i <= DRR)), 16_384, { channel: T, periodS: s.opts.blockS, t0: s.t0 });
     const perBlock = s.opts.blockS / dt;
     this.blockMin = Math.max(2, Math.round(0.25 * perBlock));
     this.blockMinUs = Math.max(2, Math.round(0.1 * perBlock));
@@ -181,8 +182,8 @@ export class SummaryBuilder {
       while (to < count && flag[to] !== 0) to++;
       if (from < to && this.firstOwned < 0) {
         this.firstOwned = this.consumed + from;
-        // The lead-in must fill the smoother's window, or the first owned rows would differ from a whole-log run.
-        if (Number.isFinite(s.ownFrom) && this.firstOwned < sm.delay) throw new PartUnsafe("a part of the log starts with too short a lead-in for the smoothing window");
+        // The lead-in must hold a restart of the smoother's sums (filters.ts), or the first owned rows would differ from a whole-log run.
+        if (Number.isFinite(s.ownFrom) && (sm.exactFrom < 0 || this.firstOwned < sm.exactFrom)) throw new PartUnsafe("a part of the log starts with too short a lead-in for the smoothing window");
       }
     }
     this.consumed += count;
