@@ -17,7 +17,11 @@ const entrySchema = z
   })
   .strict();
 
-const listColumns = (header: LogHeader) => header.columns.map((c) => `"${c}"`).join(", ");
+/** The file's column names for a message: the first 30 and how many more (a 10 000-column file stays one readable line). */
+const listColumns = (header: LogHeader) => {
+  const shown = header.columns.slice(0, 30).map((c) => `"${c}"`).join(", ");
+  return header.columns.length > 30 ? `${shown} and ${header.columns.length - 30} more` : shown;
+};
 
 /** Checks a map (parsed MAP.json or the mapping form) against the file's header. */
 /** A clock time of day or lap clock: 1:23.4, 00:01:23.450, 12:05:09 (a point or comma before the fraction). */
