@@ -78,6 +78,9 @@ export default [
   route("api/sessions/:sessionId/bands.csv", "routes/api/session-bands-csv.ts"),
   route("api/sessions/:sessionId/traces", "routes/api/session-traces.ts"),
   route("api/compare", "routes/api/compare.ts"),
+  route("api/cars", "routes/api/cars-list.ts"),
+  route("api/cars/:carId/setups", "routes/api/cars-setups.ts"),
+  route("api/openapi.json", "routes/api/openapi.ts"),
   // Deleting a session (owner; confirm=yes): rows, raw upload and raw file.
   route("api/t/:teamSlug/sessions/:sessionId/delete", "routes/api/session-delete.ts"),
   // Re-analysis of a stored session (a setup-version correction or a new engine): the job worker reads the file again.

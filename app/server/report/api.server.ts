@@ -3,6 +3,7 @@
  * unchanged session costs a small query and a 304 (RFC 9110 §8.8.3 and §13.1.2; RFC 9111 §5.2.2).
  */
 import { createHash } from "node:crypto";
+import { env } from "~/server/env.server";
 
 /** `private, no-cache`: only the caller's browser may keep it, and must ask again each time (a 304 when unchanged). */
 export const CACHE_CONTROL = "private, no-cache";
@@ -52,5 +53,5 @@ export async function cachedCsv(request: Request, etag: string, fileName: string
 
 /** The Balance report page of a session. */
 export function sessionUrl(request: Request, teamSlug: string, sessionId: string): string {
-  return `${new URL(request.url).origin}/t/${encodeURIComponent(teamSlug)}/sessions/${encodeURIComponent(sessionId)}`;
+  return new URL(`/t/${encodeURIComponent(teamSlug)}/sessions/${encodeURIComponent(sessionId)}`, env.APP_URL).toString();
 }
