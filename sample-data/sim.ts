@@ -62,7 +62,9 @@ export interface SimTruth {
   bump_stop_contact_front_pct: number; bump_stop_contact_rear_pct: number;
   bands: { min_kmh: number; max_kmh: number; aero_load_front_n: number | null; aero_load_rear_n: number | null; balance_front_pct: number | null; understeer_gradient_deg_per_g: number | null; steady_samples: number; steady_cornering_s: number;
     /** Mean ride-height change from static over the band's running (suspension and tyre, mm). */
-    ride_height_change_front_mm: number | null; ride_height_change_rear_mm: number | null }[];
+    ride_height_change_front_mm: number | null; ride_height_change_rear_mm: number | null;
+    /** Mean ride height over the band's running as a laser reads it without noise (static plus change, mm). */
+    ride_height_front_mm: number | null; ride_height_rear_mm: number | null }[];
   /** Balance of the highest band minus the lowest, by the engine's rule (BALANCE_SHIFT_RULE in app/engine/bands.ts) applied to the true loads. */
   balance_shift: { low_band_kmh: [number, number]; high_band_kmh: [number, number]; points: number } | null;
 }
@@ -262,6 +264,8 @@ function truthOf(car: SimCar, track: TrackLayout, o: SimOptions, V: Float64Array
       steady_cornering_s: r4(arc[b] / o.rateHz),
       ride_height_change_front_mm: bn[b] ? r4(bhF[b] / bn[b]) : null,
       ride_height_change_rear_mm: bn[b] ? r4(bhR[b] / bn[b]) : null,
+      ride_height_front_mm: bn[b] ? r4(car.front.staticRideHeightMm + bhF[b] / bn[b]) : null,
+      ride_height_rear_mm: bn[b] ? r4(car.rear.staticRideHeightMm + bhR[b] / bn[b]) : null,
     })),
     balance_shift: balanceShiftOf(o.bandEdgesKmh, bn, bf, br, o.rateHz, car.massKg),
   };

@@ -97,5 +97,22 @@ describe.each(DIALECTS)("ride-height-sensitive aero, %s", (_name, spec) => {
       });
       expect(checked).toBeGreaterThanOrEqual(3);
     });
+
+    it("laser ride heights and rake per band within 0.5 mm, where the log has them", async () => {
+      const { s, truth } = await result;
+      if (!spec.columns.some((c) => c.channel === "ride_height_front")) return expect(s.bands.every((b) => b.ride_height_front_mm === null && b.rake_mm === null)).toBe(true);
+      const rate = s.sample_rate_hz!;
+      let checked = 0;
+      s.bands.forEach((band, b) => {
+        const t = truth.bands[b];
+        if (t.ride_height_front_mm === null || t.ride_height_rear_mm === null || band.aero_samples < 20 * rate) return;
+        expect(Math.abs(band.ride_height_front_mm! - t.ride_height_front_mm)).toBeLessThan(0.5);
+        expect(Math.abs(band.ride_height_rear_mm! - t.ride_height_rear_mm)).toBeLessThan(0.5);
+        // Rake = rear − front ride height (common practice).
+        expect(Math.abs(band.rake_mm! - (t.ride_height_rear_mm - t.ride_height_front_mm))).toBeLessThan(0.5);
+        checked++;
+      });
+      expect(checked).toBeGreaterThanOrEqual(3);
+    });
   });
 });
