@@ -235,3 +235,21 @@ describe("bad input never loses data and leaves nothing half-done", () => {
     expect(res.status).toBe(404);
   });
 });
+
+describe("uploads that never become a session", () => {
+  it("are removed after a day, row and file; newer ones and attached ones stay", async () => {
+    const { sweepStaleUploads } = await import("~/server/ingest/raw-uploads.server");
+    const old = await upload(Buffer.concat([logBytes, Buffer.from("\n\n")]), "forgotten.csv");
+    const fresh = await upload(Buffer.concat([logBytes, Buffer.from("\n\n\n")]), "fresh.csv");
+    const oldId = (old.body as { upload: { id: string } }).upload.id;
+    const freshId = (fresh.body as { upload: { id: string } }).upload.id;
+    const [row] = await db.select().from(rawUploads).where(eq(rawUploads.id, oldId));
+    await db.update(rawUploads).set({ createdAt: new Date(Date.now() - 25 * 3600_000) }).where(eq(rawUploads.id, oldId));
+    const before = teamFiles().length;
+    expect(await sweepStaleUploads(24)).toBeGreaterThanOrEqual(1);
+    expect(await db.select().from(rawUploads).where(eq(rawUploads.id, oldId))).toEqual([]);
+    expect((await db.select().from(rawUploads).where(eq(rawUploads.id, freshId))).length).toBe(1);
+    expect(teamFiles()).toHaveLength(before - 1);
+    expect(teamFiles()).not.toContain(row.storageKey.split("/").pop());
+  });
+});

@@ -6,19 +6,23 @@
 import { hostname } from "node:os";
 import { randomUUID } from "node:crypto";
 import { claimJob, failJob, heartbeat, leaseSeconds, type ClaimedJob } from "../jobs.server";
+import { sweepStaleUploads } from "./raw-uploads.server";
 import { runSessionCheck, type AnalyseFile } from "./recheck.server";
 
 export type JobLoop = { owner: string; done: Promise<void>; stop(graceMs?: number): Promise<void>; jobsRun(): number };
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
-export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string; pollMs?: number; log?: (line: string) => void }): JobLoop {
+export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string; pollMs?: number; sweepEveryMs?: number; log?: (line: string) => void }): JobLoop {
   const owner = `${options.label ?? "worker"}@${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
   const log = options.log ?? ((line: string) => console.log(`[job-worker ${owner}] ${line}`));
   const pollMs = options.pollMs ?? 1000;
   let stopping = false;
   let count = 0;
   let wake: (() => void) | null = null;
+  // Uploads never made into a session are removed after a day; any worker may do it, a few times an hour.
+  const sweepEveryMs = options.sweepEveryMs ?? 15 * 60_000;
+  let lastSweep = Date.now() - sweepEveryMs + 60_000;
 
   async function runOne(job: ClaimedJob): Promise<void> {
     const beat = setInterval(() => {
@@ -54,6 +58,12 @@ export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string
       if (job) {
         await runOne(job);
         continue;
+      }
+      if (Date.now() - lastSweep >= sweepEveryMs) {
+        lastSweep = Date.now();
+        await sweepStaleUploads()
+          .then((n) => n && log(`removed ${n} upload(s) that never became a session`))
+          .catch((e: unknown) => log(`sweeping old uploads failed: ${(e as Error).message}`));
       }
       await new Promise<void>((resolve) => {
         wake = resolve;

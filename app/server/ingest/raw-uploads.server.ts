@@ -4,7 +4,7 @@
  * found by its SHA-256: its waiting row is reused, and a session already made from it is offered.
  */
 import { randomUUID } from "node:crypto";
-import { and, eq } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { rawUploads, type RawUpload } from "~/db/schema/sessions";
 import { db } from "../db.server";
 import { deleteObject, type StoredObject } from "../storage.server";
@@ -52,4 +52,23 @@ export async function registerUpload(team: { id: string; slug: string }, userId:
 export async function getWaitingUpload(teamId: string, uploadId: string): Promise<RawUpload | null> {
   const [row] = await db.select().from(rawUploads).where(and(eq(rawUploads.id, uploadId), eq(rawUploads.teamId, teamId))).limit(1);
   return row ?? null;
+}
+
+/**
+ * Removes uploads that never became a session (the page was closed before the details were sent) once
+ * they are older than `olderThanHours`: the rows first (claimed with SKIP LOCKED, so two workers never
+ * take the same ones), then their files. Returns how many were removed.
+ */
+export async function sweepStaleUploads(olderThanHours = 24, limit = 100): Promise<number> {
+  const gone = await db.transaction(async (tx) => {
+    const [rows] = (await tx.execute(sql`
+      SELECT id, storage, storage_key AS storageKey FROM raw_uploads
+      WHERE status = 'stored' AND created_at < NOW(3) - INTERVAL ${olderThanHours} HOUR
+      ORDER BY created_at LIMIT ${limit}
+      FOR UPDATE SKIP LOCKED`)) as unknown as [Array<{ id: string; storage: "fs" | "s3"; storageKey: string }>];
+    if (rows.length) await tx.delete(rawUploads).where(and(inArray(rawUploads.id, rows.map((r) => r.id)), eq(rawUploads.status, "stored")));
+    return rows;
+  });
+  for (const row of gone) await deleteObject(row.storage, row.storageKey).catch(() => undefined);
+  return gone.length;
 }
