@@ -5,3 +5,4 @@ export * from "./sessions";
 export * from "./jobs";
 export * from "./api-tokens";
 export * from "./audit";
+export * from "./briefs";

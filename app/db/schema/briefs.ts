@@ -1,0 +1,39 @@
+/**
+ * Brief links: a read-only view of one session for a driver, opened without signing in. The token is shown
+ * once and only its SHA-256 is stored; a link expires, can be revoked, and counts its views.
+ */
+import { char, index, int, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { organization, user } from "./auth";
+import { analysisSessions } from "./sessions";
+
+export const briefLinks = mysqlTable(
+  "brief_links",
+  {
+    id: varchar("id", { length: 36 }).primaryKey(),
+    teamId: varchar("team_id", { length: 36 })
+      .notNull()
+      .references(() => organization.id, { onDelete: "cascade" }),
+    sessionId: varchar("session_id", { length: 36 })
+      .notNull()
+      .references(() => analysisSessions.id, { onDelete: "cascade" }),
+    /** SHA-256 (hex) of the token in the link; the token itself is never stored. */
+    tokenHash: char("token_hash", { length: 64 }).notNull(),
+    note: varchar("note", { length: 500 }),
+    /** Whom it was sent to: a member of the team (their dashboard lists it) and/or an e-mail address. */
+    recipientUserId: varchar("recipient_user_id", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    recipientEmail: varchar("recipient_email", { length: 255 }),
+    expiresAt: timestamp("expires_at", { fsp: 3 }).notNull(),
+    revokedAt: timestamp("revoked_at", { fsp: 3 }),
+    viewCount: int("view_count").notNull().default(0),
+    lastViewedAt: timestamp("last_viewed_at", { fsp: 3 }),
+    createdBy: varchar("created_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    createdAt: timestamp("created_at", { fsp: 3 }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex("brief_links_token_hash_idx").on(t.tokenHash),
+    index("brief_links_team_idx").on(t.teamId, t.createdAt),
+    index("brief_links_recipient_idx").on(t.recipientUserId),
+  ],
+);
+
+export type BriefLink = typeof briefLinks.$inferSelect;
