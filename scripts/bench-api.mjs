@@ -1,0 +1,65 @@
+// `npm run bench:api`: latency of the data API and the Balance report page at 50 concurrent clients,
+// against a running `npm start` (its seeded database on loopback; signs in as the demo user and reads
+// with the session cookie and ?team=). Prints p50/p95/p99, requests per second and errors per route.
+// Targets (issue 11): GET /api/sessions/:id p95 < 20 ms; GET /api/sessions (50 rows) p95 < 50 ms;
+// the Balance report page p95 < 100 ms. Figures only; no pass/fail.
+// BENCH_SECONDS (default 10) sets each route's run; BENCH_CONNECTIONS (default 50) the clients.
+import os from "node:os";
+import autocannon from "autocannon";
+import { instances } from "./lib/env.mjs";
+import { latencyFigures } from "./lib/cluster-bench.mjs";
+
+const base = process.env.APP_URL ?? `http://127.0.0.1:${instances.dev.appPort ?? 3000}`;
+const seconds = Number(process.env.BENCH_SECONDS ?? 10);
+const connections = Number(process.env.BENCH_CONNECTIONS ?? 50);
+
+const signIn = await fetch(`${base}/api/auth/sign-in/email`, {
+  method: "POST",
+  headers: { "content-type": "application/json", origin: base },
+  body: JSON.stringify({ email: "demo@harrowgate.example", password: "kestrel-bank-2026" }),
+}).catch(() => null);
+if (!signIn || signIn.status !== 200) {
+  console.error(`error: could not sign in at ${base} (is \`npm start\` running?)`);
+  process.exit(2);
+}
+const cookie = signIn.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+const team = "harrowgate";
+const list = await fetch(`${base}/api/sessions?team=${team}&limit=50`, { headers: { cookie } }).then((r) => r.json());
+if (!list.sessions?.length) {
+  console.error("error: the demo team has no sessions (the seed adds them at `npm start`)");
+  process.exit(2);
+}
+const id = list.sessions[0].id;
+
+const routes = [
+  { name: "GET /api/sessions/:id", path: `/api/sessions/${id}?team=${team}`, target: "p95 < 20 ms" },
+  { name: `GET /api/sessions (${list.sessions.length} rows)`, path: `/api/sessions?team=${team}&limit=50`, target: "p95 < 50 ms" },
+  { name: "Balance report page", path: `/t/${team}/sessions/${id}`, target: "p95 < 100 ms" },
+];
+
+function run(route) {
+  return new Promise((resolve) => {
+    const latencies = [];
+    const statuses = {};
+    const instance = autocannon({ url: base + route.path, connections, duration: seconds, headers: { cookie }, timeout: 30 });
+    instance.on("response", (_client, status, _bytes, ms) => {
+      latencies.push(ms);
+      statuses[status] = (statuses[status] ?? 0) + 1;
+    });
+    instance.on("done", (result) => resolve({ latencies, statuses, result }));
+  });
+}
+
+console.log(`${connections} concurrent clients, ${seconds} s per route, against ${base} (loopback, cookie session)`);
+console.log(`machine: ${os.cpus().length} cores, load average ${os.loadavg().map((l) => l.toFixed(1)).join(" / ")} (figures from a loaded machine are not the app's own)`);
+console.log(`  ${"route".padEnd(34)} ${"p50 ms".padStart(8)} ${"p95 ms".padStart(8)} ${"p99 ms".padStart(8)} ${"req/s".padStart(8)} ${"errors".padStart(7)}   target`);
+for (const route of routes) {
+  const { latencies, statuses, result } = await run(route);
+  const f = latencyFigures(latencies);
+  const non2xx = Object.entries(statuses).filter(([s]) => Number(s) < 200 || Number(s) > 299).reduce((n, [, c]) => n + c, 0);
+  const errors = non2xx + (result.errors ?? 0);
+  const fmt = (v) => (v === null ? "—" : v.toFixed(1)).padStart(8);
+  console.log(`  ${route.name.padEnd(34)} ${fmt(f.p50)} ${fmt(f.p95)} ${fmt(f.p99)} ${(f.count / seconds).toFixed(0).padStart(8)} ${String(errors).padStart(7)}   ${route.target}`);
+  if (non2xx) console.log(`    statuses: ${JSON.stringify(statuses)}`);
+}
+process.exit(0);
