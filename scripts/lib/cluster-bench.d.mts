@@ -47,4 +47,4 @@ export function killOutright(pid: number, marker?: string): { killed: boolean; w
 export function table(headers: string[], rows: Array<Array<string | number | null | undefined>>): string;
 export function routeTable(routes: Array<{ name: string; rps: number; figures: LatencyFigures; non2xx: number; errors: number; timeouts: number }>): string;
 export function memoryTable(entries: MemoryEntry[]): string;
-export function verdictLines(checks: Array<{ check: string; ok: boolean; detail?: string }>): { text: string; ok: boolean };
+export function verdictLines(checks: Array<{ check: string; ok: boolean; detail?: string; gate?: boolean }>): { text: string; ok: boolean };

@@ -175,8 +175,12 @@ export function memoryTable(entries) {
   );
 }
 
-/** The verdict lines: [{ check, ok, detail }] → text, and whether all held. */
+/**
+ * The verdict lines: [{ check, ok, detail, gate }] → text, and whether every gating check held. A check
+ * with gate: false that does not hold is printed as "not held" and does not fail the verdict.
+ */
 export function verdictLines(checks) {
-  const text = checks.map((c) => `  ${c.ok ? "held  " : "FAILED"}  ${c.check}${c.detail ? ` — ${c.detail}` : ""}`).join("\n");
-  return { text, ok: checks.every((c) => c.ok) };
+  const mark = (c) => (c.ok ? "held    " : c.gate === false ? "not held" : "FAILED  ");
+  const text = checks.map((c) => `  ${mark(c)}  ${c.check}${c.detail ? ` — ${c.detail}` : ""}`).join("\n");
+  return { text, ok: checks.every((c) => c.ok || c.gate === false) };
 }

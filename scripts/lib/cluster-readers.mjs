@@ -11,7 +11,7 @@ import { latencyFigures } from "./cluster-bench.mjs";
 const runs = [];
 
 function startRoute(baseUrl, route, connections, ratePerConnection) {
-  const record = { name: route.name, times: [], latencies: [], statuses: {}, errors: 0, errorKinds: {}, startedAt: Date.now(), result: null };
+  const record = { name: route.name, times: [], latencies: [], statuses: {}, errors: 0, errorKinds: {}, errorTimes: [], startedAt: Date.now(), result: null };
   const instance = autocannon({
     url: baseUrl + route.path,
     connections,
@@ -25,9 +25,12 @@ function startRoute(baseUrl, route, connections, ratePerConnection) {
     record.times.push(Date.now());
     record.latencies.push(responseTime);
     record.statuses[statusCode] = (record.statuses[statusCode] ?? 0) + 1;
+    if (statusCode >= 500) record.errorTimes.push(Date.now());
   });
   instance.on("reqError", (error) => {
     record.errors += 1;
+    // When it failed (a timed-out request fails 30 s after it was sent).
+    record.errorTimes.push(Date.now());
     const kind = error?.code ?? error?.message ?? String(error);
     record.errorKinds[kind] = (record.errorKinds[kind] ?? 0) + 1;
   });
@@ -77,6 +80,7 @@ process.on("message", async (message) => {
         timeouts: run.result?.timeouts ?? 0,
         errorKinds: run.errorKinds,
         sent: run.result?.requests?.sent ?? null,
+        errorTimes: run.errorTimes,
       };
     });
     process.send({ type: "result", routes: out }, () => process.exit(0));

@@ -139,6 +139,13 @@ describe("printing", () => {
   it("says which checks held and fails the verdict when one did not", () => {
     const v = verdictLines([{ check: "zero lost sessions", ok: true }, { check: "zero duplicated jobs", ok: false, detail: "job 7 wrote 2 results" }]);
     expect(v.ok).toBe(false);
-    expect(v.text).toBe("  held    zero lost sessions\n  FAILED  zero duplicated jobs — job 7 wrote 2 results");
+    expect(v.text).toBe("  held      zero lost sessions\n  FAILED    zero duplicated jobs — job 7 wrote 2 results");
+  });
+
+  it("prints a check that does not gate as not held, without failing the verdict", () => {
+    const v = verdictLines([{ check: "zero lost sessions", ok: true }, { check: "no orphan object", ok: false, gate: false, detail: "1 orphan" }]);
+    expect(v.ok).toBe(true);
+    expect(v.text).toBe("  held      zero lost sessions\n  not held  no orphan object — 1 orphan");
+    expect(verdictLines([{ check: "no orphan object", ok: false, gate: true }]).ok).toBe(false);
   });
 });
