@@ -14,5 +14,7 @@ export default defineConfig({
     hookTimeout: 60_000,
     // Integration tests share one database; files run one at a time to keep them independent.
     fileParallelism: false,
+    // ...and each starts from an empty database (tests/setup/fresh-database.ts).
+    setupFiles: ["tests/setup/fresh-database.ts"],
   },
 });

@@ -144,7 +144,7 @@ describe("job worker processes", () => {
       expect([session.status, session.statusDetail]).toEqual(["checked", "The server's re-check of the stored file agrees with the browser's figures."]);
     }
     await Promise.all([stopWorker(one), stopWorker(two)]);
-  });
+  }, 180_000);
 
   it("a job whose worker dies is claimed again after its lease and done once", async () => {
     const id = await browserSession("vesper-coldwater-comma", "vesper-gt4r", "2026-05-18");
@@ -173,5 +173,5 @@ describe("job worker processes", () => {
     expect(job.leaseOwner?.startsWith("rescuer@")).toBe(true);
     expect(await db.select().from(sessionResults).where(and(eq(sessionResults.sessionId, id), eq(sessionResults.origin, "server")))).toHaveLength(1);
     await stopWorker(rescuer);
-  });
+  }, 180_000);
 });
