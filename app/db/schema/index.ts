@@ -6,3 +6,4 @@ export * from "./jobs";
 export * from "./api-tokens";
 export * from "./audit";
 export * from "./briefs";
+export * from "./report";
