@@ -11,8 +11,9 @@
  *
  * Times come from the database clock (NOW(3)), so processes with skewed clocks agree about leases.
  */
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { jobs, type Job } from "../db/schema/jobs";
+import { analysisSessions } from "../db/schema/sessions";
 import type { DbOrTx } from "./audit.server";
 import { db } from "./db.server";
 
@@ -47,21 +48,20 @@ export async function claimJob(owner: string, only: { teamId?: string } = {}): P
   for (;;) {
     const outcome = await db.transaction(async (tx) => {
       const [rows] = (await tx.execute(sql`
-        SELECT id, attempts, max_attempts AS maxAttempts, status
+        SELECT id, attempts, max_attempts AS maxAttempts, status, session_id AS sessionId
         FROM jobs
         WHERE ((status = 'queued' AND run_after <= NOW(3))
            OR (status = 'running' AND lease_expires_at < NOW(3))) ${team}
         ORDER BY run_after, id
         LIMIT 1
-        FOR UPDATE SKIP LOCKED`)) as unknown as [Array<{ id: number; attempts: number; maxAttempts: number; status: string }>];
+        FOR UPDATE SKIP LOCKED`)) as unknown as [Array<{ id: number; attempts: number; maxAttempts: number; status: string; sessionId: string | null }>];
       const row = rows[0];
       if (!row) return { kind: "none" as const };
       if (row.status === "running" && row.attempts >= row.maxAttempts) {
         // Its worker died on the last allowed attempt: give up and say so.
-        await tx
-          .update(jobs)
-          .set({ status: "failed", error: `The worker running this job stopped ${row.attempts} times without finishing it.`, leaseOwner: null, finishedAt: sql`NOW(3)` })
-          .where(eq(jobs.id, row.id));
+        const why = `The worker running this job stopped ${row.attempts} times without finishing it.`;
+        await tx.update(jobs).set({ status: "failed", error: why, leaseOwner: null, finishedAt: sql`NOW(3)` }).where(eq(jobs.id, row.id));
+        await flagUnchecked(tx, row.sessionId, why);
         return { kind: "gave_up" as const };
       }
       await tx
@@ -99,6 +99,15 @@ export async function heartbeat(jobId: number, owner: string): Promise<boolean> 
 
 type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
 
+/** A session whose re-check was given up keeps its first figures, flagged with the reason (never left "read" for ever). */
+async function flagUnchecked(tx: DbOrTx, sessionId: string | null, why: string): Promise<void> {
+  if (!sessionId) return;
+  await tx
+    .update(analysisSessions)
+    .set({ status: "flagged", statusDetail: `The server could not re-check the stored file: ${why}`.slice(0, 2000), updatedAt: new Date() })
+    .where(and(eq(analysisSessions.id, sessionId), inArray(analysisSessions.status, ["received", "read"])));
+}
+
 /**
  * Writes the job's result and marks it done, in one transaction, if `owner` still holds the lease
  * (the row is locked first, so a worker that lost its lease cannot write over the new owner's work).
@@ -123,7 +132,7 @@ export async function completeJob(jobId: number, owner: string, write: (tx: Tx) 
 export async function failJob(jobId: number, owner: string, message: string, options: { retry?: boolean } = {}): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [row] = await tx
-      .select({ attempts: jobs.attempts, maxAttempts: jobs.maxAttempts })
+      .select({ attempts: jobs.attempts, maxAttempts: jobs.maxAttempts, sessionId: jobs.sessionId })
       .from(jobs)
       .where(and(eq(jobs.id, jobId), eq(jobs.leaseOwner, owner), eq(jobs.status, "running")))
       .for("update");
@@ -138,6 +147,7 @@ export async function failJob(jobId: number, owner: string, message: string, opt
           : { status: "failed", error: message.slice(0, 2000), leaseOwner: null, leaseExpiresAt: null, finishedAt: sql`NOW(3)` },
       )
       .where(eq(jobs.id, jobId));
+    if (!again) await flagUnchecked(tx, row.sessionId, message);
     return true;
   });
 }

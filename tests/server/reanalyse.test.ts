@@ -80,3 +80,16 @@ describe("re-analysis after a setup correction", () => {
     expect((await post({}, w.slug, sessionId, other.jar)).status).toBe(404);
   });
 });
+
+describe("a re-check given up", () => {
+  it("flags the session with the reason instead of leaving it read", async () => {
+    const { claimJob, enqueueJob, failJob } = await import("~/server/jobs.server");
+    await db.update(analysisSessions).set({ status: "read" }).where(eq(analysisSessions.id, sessionId));
+    const id = await enqueueJob(db, { kind: "session_check", teamId: w.teamId, sessionId, maxAttempts: 1 });
+    const job = await claimJob("w-fail", { teamId: w.teamId });
+    expect(job?.id).toBe(id);
+    await failJob(id, "w-fail", "the stored file is missing");
+    const [session] = await db.select().from(analysisSessions).where(eq(analysisSessions.id, sessionId));
+    expect([session.status, session.statusDetail]).toEqual(["flagged", "The server could not re-check the stored file: the stored file is missing"]);
+  });
+});
