@@ -87,12 +87,15 @@ describe("POST /api/sessions", () => {
   });
 
   it("a file the engine refuses is 422 with the engine's message, and nothing is stored", async () => {
-    const before = { sessions: (await sessionsOf(w.teamId)).length, files: files(w.teamId).length };
+    const waitingRows = () => db.select().from(rawUploads).where(eq(rawUploads.teamId, w.teamId));
+    const before = { sessions: (await sessionsOf(w.teamId)).length, files: files(w.teamId).length, rows: (await waitingRows()).length };
     const broken = Buffer.from(readFileSync(`${LOGS}/${LOG}.csv`, "utf8").split("\n").slice(0, 6).join("\n") + "\n");
     const res = await post(apiPost(broken, { car: "Marlin SR2", map: mapOf(LOG) }));
     expect(res.status).toBe(422);
     expect((res.body as { error: string }).error).toMatch(/rows|samples/);
     expect((await sessionsOf(w.teamId)).length).toBe(before.sessions);
+    // The upload was recorded while it was analysed, and removed with its file when the engine refused it.
+    expect((await waitingRows()).length).toBe(before.rows);
     expect(files(w.teamId)).toHaveLength(before.files);
   });
 

@@ -23,7 +23,8 @@ import { parseJsonBounded } from "../body.server";
 import { db } from "../db.server";
 import { env } from "../env.server";
 import { exportCarInput } from "../garage-io.server";
-import { deleteObject, getStream } from "../storage.server";
+import { getStream } from "../storage.server";
+import { discardWaitingUpload, recordUpload } from "./raw-uploads.server";
 import { storedHeader } from "./header.server";
 import { serverEngineVersion } from "./recheck.server";
 import { findSessionByHash, storeSessionOfRecord } from "./store.server";
@@ -112,17 +113,21 @@ async function venueOf(teamId: string, venue: string | undefined): Promise<{ ven
 
 export async function apiUpload(request: Request, access: ApiAccess): Promise<Answer> {
   const { file, fields } = await receiveUpload(request, `teams/${access.teamId}`, { fields: ["meta"] });
+  // Recorded at once (a process killed while analysing then leaves a waiting upload, swept later, not
+  // a file nobody knows of); a copy of a file already waiting is dropped in favour of the first.
+  const { row, reused } = await recordUpload(access.teamId, access.userId, file);
   let keep = false;
   try {
-    const answer = await afterStored(access, file, fields.meta);
+    const answer = await afterStored(access, { ...file, storage: row.storage, key: row.storageKey, uploadId: row.id }, fields.meta);
     keep = answer.status === 201;
     return answer;
   } finally {
-    if (!keep) await deleteObject(file.storage, file.key).catch(() => undefined);
+    // Anything but a new session: the upload this request made goes again (one that was waiting before stays).
+    if (!keep && !reused) await discardWaitingUpload(row).catch(() => undefined);
   }
 }
 
-async function afterStored(access: ApiAccess, file: Awaited<ReturnType<typeof receiveUpload>>["file"], metaText: string | undefined): Promise<Answer> {
+async function afterStored(access: ApiAccess, file: Awaited<ReturnType<typeof receiveUpload>>["file"] & { uploadId: string }, metaText: string | undefined): Promise<Answer> {
   if (metaText === undefined) return refuse(422, 'The form has no "meta" part: send JSON {"car": "<id or name>", …} in it.');
   const json = parseJsonBounded(metaText, 8);
   if (!json.ok) return refuse(422, `meta: ${json.message}`);

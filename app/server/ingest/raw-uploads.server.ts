@@ -15,23 +15,28 @@ export type UploadAnswer = {
   duplicate: { id: string; url: string } | null;
 };
 
-/** Records a stored file for the team; a second copy of a file already waiting is deleted and the first row answered. */
-export async function registerUpload(team: { id: string; slug: string }, userId: string, file: StoredObject & { fileName: string }): Promise<UploadAnswer> {
+/** A stored file recorded for the team: its row, and whether that row was already waiting (a copy sent before). */
+export type RecordedUpload = { row: RawUpload; reused: boolean };
+
+/**
+ * Records a stored file for the team right after it is stored (so no file lives long without a row);
+ * a second copy of a file already waiting is deleted and the first row returned. On failure the new
+ * file is removed and the error thrown.
+ */
+export async function recordUpload(teamId: string, userId: string, file: StoredObject & { fileName: string }): Promise<RecordedUpload> {
   try {
-    const duplicate = await findSessionByHash(team.id, team.slug, file.sha256);
     const [waiting] = await db
       .select()
       .from(rawUploads)
-      .where(and(eq(rawUploads.teamId, team.id), eq(rawUploads.sha256, file.sha256), eq(rawUploads.status, "stored")))
+      .where(and(eq(rawUploads.teamId, teamId), eq(rawUploads.sha256, file.sha256), eq(rawUploads.status, "stored")))
       .limit(1);
     if (waiting) {
-      await deleteObject(file.storage, file.key).catch(() => undefined);
-      return { upload: { id: waiting.id, fileName: file.fileName, bytes: waiting.bytes, sha256: waiting.sha256 }, duplicate };
+      if (waiting.storageKey !== file.key) await deleteObject(file.storage, file.key).catch(() => undefined);
+      return { row: waiting, reused: true };
     }
-    const id = randomUUID();
-    await db.insert(rawUploads).values({
-      id,
-      teamId: team.id,
+    const row: RawUpload = {
+      id: randomUUID(),
+      teamId,
       userId,
       storage: file.storage,
       storageKey: file.key,
@@ -39,14 +44,29 @@ export async function registerUpload(team: { id: string; slug: string }, userId:
       sha256: file.sha256,
       bytes: file.bytes,
       status: "stored",
+      sessionId: null,
       createdAt: new Date(),
-    });
-    return { upload: { id, fileName: file.fileName, bytes: file.bytes, sha256: file.sha256 }, duplicate };
+    };
+    await db.insert(rawUploads).values(row);
+    return { row, reused: false };
   } catch (error) {
     // No row points at the file: remove it, so a failed request leaves nothing behind.
     await deleteObject(file.storage, file.key).catch(() => undefined);
     throw error;
   }
+}
+
+/** Removes an upload that is still waiting (row, then file); used when the request that made it fails. */
+export async function discardWaitingUpload(row: RawUpload): Promise<void> {
+  const result = await db.delete(rawUploads).where(and(eq(rawUploads.id, row.id), eq(rawUploads.status, "stored")));
+  if (Number((result[0] as { affectedRows?: number }).affectedRows ?? 0) === 1) await deleteObject(row.storage, row.storageKey).catch(() => undefined);
+}
+
+/** The Drop a log page's upload: recorded, with the session already made from the same file offered. */
+export async function registerUpload(team: { id: string; slug: string }, userId: string, file: StoredObject & { fileName: string }): Promise<UploadAnswer> {
+  const { row } = await recordUpload(team.id, userId, file);
+  const duplicate = await findSessionByHash(team.id, team.slug, file.sha256);
+  return { upload: { id: row.id, fileName: file.fileName, bytes: row.bytes, sha256: row.sha256 }, duplicate };
 }
 
 export async function getWaitingUpload(teamId: string, uploadId: string): Promise<RawUpload | null> {
