@@ -101,6 +101,9 @@ const readState = () => {
 async function ensureCluster() {
   const state = readState();
   if (state?.ready && isAlive(state.supervisorPid)) {
+    if (state.layout?.base !== layout.base) {
+      throw new UserFacingError(`the running cluster uses the port block from ${state.layout?.base}; run with RAKELINE_CLUSTER_PORT_BASE=${state.layout?.base}`);
+    }
     note(`using the running cluster (supervisor pid ${state.supervisorPid}, ${appUrl})`);
     return;
   }
