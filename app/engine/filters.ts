@@ -231,9 +231,10 @@ export class BlockSmoother {
   }
 
   /**
-   * Window sums while every count is full (h per half): the carried windows hold no NaN, and the
-   * samples entering (e[c + h]) are checked on the way. Returns false when one was NaN (the outputs
-   * are then to be recomputed by countingSums). The additions and their order are those of
+   * Window sums while every count is full (h per half): the carried windows hold no NaN. A NaN that
+   * enters makes a running sum NaN until a restart after it has left the window (sliding never
+   * clears it), so the sums are looked at before each restart and at the end. Returns false when
+   * one was NaN (the outputs are then to be recomputed by countingSums). The additions and their order are those of
    * countingSums, so the two give the same bits on the same samples. The rows between two restarts
    * run in a tight loop (one copy with the slope, one without).
    */
@@ -241,42 +242,39 @@ export class BlockSmoother {
     const rs = this.restartRows, nr = this.restartCount;
     const inv = 1 / (2 * h + 1), kFull = this.slopeScale[k] / h;
     let s1 = this.s1[k], s2 = this.s2[k];
-    // Σ of the samples entering: NaN if any of them is.
-    let entering = 0;
+    let bad = false;
     let c = c0, r = 0;
     while (c < c1) {
       const next = r < nr ? c0 + rs[r] : c1;
       if (c === next) {
+        if (s1 !== s1 || s2 !== s2) bad = true;
         s1 = 0; s2 = 0;
         for (let i = c - h; i < c; i++) s1 += e[i];
         for (let i = c + 1; i <= c + h; i++) s2 += e[i];
         mean[c - c0] = (s1 + e[c] + s2) * inv;
         if (slope) slope[c - c0] = (s2 - s1) * kFull;
-        entering += e[c + h];
         c++; r++;
         continue;
       }
       // First half gains the old centre and loses c − h − 1; second half gains c + h and loses the new centre.
       if (slope) {
         for (let j = c - c0; c < next; c++, j++) {
-          const x = e[c + h];
-          entering += x;
           s1 += e[c - 1] - e[c - h - 1];
-          s2 += x - e[c];
+          s2 += e[c + h] - e[c];
           mean[j] = (s1 + e[c] + s2) * inv;
           slope[j] = (s2 - s1) * kFull;
         }
       } else {
         for (let j = c - c0; c < next; c++, j++) {
-          const x = e[c + h];
-          entering += x;
           s1 += e[c - 1] - e[c - h - 1];
-          s2 += x - e[c];
+          s2 += e[c + h] - e[c];
           mean[j] = (s1 + e[c] + s2) * inv;
         }
       }
     }
-    if (entering !== entering) return false;
+    // The last centre joins the first half only at the next row: looked at on its own.
+    const last = e[c1 - 1];
+    if (bad || s1 !== s1 || s2 !== s2 || last !== last) return false;
     this.s1[k] = s1; this.s2[k] = s2;
     return true;
   }

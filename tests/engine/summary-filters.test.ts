@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { BlockSmoother } from "~/engine/filters";
 import { TraceDecimator } from "~/engine/summary-traces";
@@ -77,6 +78,42 @@ describe("centred moving average restarting at time blocks (analysis in parts)",
     expect(first).toBe(1300); // the next whole second of the log's clock (t − t0 = 13 s)
     expect(part.mean.slice(part.exactFrom)).toEqual(whole.mean.slice(first));
     expect(part.slope.slice(part.exactFrom)).toEqual(whole.slope.slice(first));
+  });
+});
+
+describe("centred moving average against its definition (property)", () => {
+  it("equals the mean of the valid samples in the window, bit for bit the same for any block size", () => {
+    // Definition: the mean of the valid samples among x[i−h … i+h], NaN when fewer than h + 1 are
+    // valid (DEVELOPERS.md: NaN = dropout). The fast loop and the dropout-counting loop must agree.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 6 }), fc.integer({ min: 1, max: 60 }), fc.double({ min: 0, max: 0.15, noNaN: true }),
+        fc.array(fc.double({ min: -50, max: 50, noNaN: true }), { minLength: 120, maxLength: 400 }), fc.integer({ min: 0, max: 1e6 }),
+        (h, block, nanShare, values, seed) => {
+          const n = values.length, dt = 0.01;
+          const t = Float64Array.from({ length: n }, (_, i) => i * dt);
+          let r = seed;
+          const x = Float64Array.from(values, (v) => ((r = (r * 1103515245 + 12345) % 2147483648) / 2147483648 < nanShare ? NaN : v));
+          const run = (rowsPerBlock: number) => {
+            const sm = new BlockSmoother([0, h], dt, [false, true], 64, { channel: 0, periodS: 0.37, t0: NaN });
+            const out: number[] = [];
+            const take = (k: number) => { for (let j = 0; j < k; j++) out.push(sm.mean[1][j]); };
+            for (let i = 0; i < n; i += rowsPerBlock) { const m = Math.min(rowsPerBlock, n - i); take(sm.push([t.subarray(i, i + m), x.subarray(i, i + m)], m)); }
+            take(sm.flush());
+            return out;
+          };
+          const a = run(n), b = run(block);
+          for (let i = 0; i < n; i++) {
+            let sum = 0, count = 0;
+            for (let j = Math.max(0, i - h); j <= Math.min(n - 1, i + h); j++) if (x[j] === x[j]) { sum += x[j]; count++; }
+            if (count < h + 1) expect(a[i]).toBeNaN();
+            else expect(Math.abs(a[i] - sum / count)).toBeLessThan(1e-9 * (1 + Math.abs(sum / count)));
+            expect(Object.is(a[i], b[i])).toBe(true);
+          }
+        },
+      ),
+      { numRuns: 80, seed: 20261203 },
+    );
   });
 });
 
