@@ -40,6 +40,8 @@ export default [
     route("venues", "routes/sessions/venues.tsx"),
     // Drop a log: read in the browser's engine worker, uploaded, stored as a session.
     route("sessions/new", "routes/sessions/new.tsx"),
+    // Brief links: one session shared read-only with a driver (engineer, owner).
+    route("briefs", "routes/brief/briefs.tsx"),
     // The owner's audit log of the team.
     route("audit", "routes/audit/audit.tsx"),
     // Balance report (one session).
@@ -47,6 +49,11 @@ export default [
     // Compare: sessions side by side (?ids=a,b,… and the picker's filters in the URL).
     route("compare", "routes/compare/compare.tsx"),
   ]),
+
+  // A Driver brief, opened from its link without signing in.
+  route("brief/:token", "routes/brief/brief.tsx"),
+  // …and from the dashboard of the driver it was sent to (signed in).
+  route("brief/shared/:briefId", "routes/brief/shared.tsx"),
 
   // All of a team's data as one archive (owner).
   route("t/:teamSlug/export.zip", "routes/teams/export.ts"),

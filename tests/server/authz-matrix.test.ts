@@ -10,6 +10,7 @@ import routes from "~/routes";
 import { args, CookieJar, formRequest, getRequest, outcome, type Outcome } from "./auth-support";
 import { garageWorld } from "./garage-support";
 import { storeDemoSession } from "./report-support";
+import { createBrief } from "~/server/brief.server";
 
 type Actor = "owner" | "engineer" | "analyst" | "driver" | "signedOut" | "briefHolder" | "otherTeam";
 const ACTORS: Actor[] = ["owner", "engineer", "analyst", "driver", "signedOut", "briefHolder", "otherTeam"];
@@ -91,6 +92,13 @@ const RULES: Record<string, Rule> = {
   "routes/api/session-delete.ts": { get: all(405), post: api(team(OWNER, "pass")) },
   "routes/api/not-found.ts": { get: all(404), post: all(404) },
   "routes/home/not-found.tsx": { get: all(404) },
+  "routes/api/cars-list.ts": { get: { ...api(team(EVERYONE)), otherTeam: 200 }, why: "a cookie lists the caller's only team" },
+  "routes/api/cars-setups.ts": { get: api(team(EVERYONE)) },
+  "routes/api/openapi.ts": { get: all(200) },
+  "routes/api/session-reanalyse.ts": { get: all(405), post: api(team(EDITORS, "pass")) },
+  "routes/brief/briefs.tsx": { get: team(EDITORS), post: team(EDITORS, "pass") },
+  "routes/brief/brief.tsx": { get: all(200), why: "a live link: whoever holds it sees the one session, signed in or not" },
+  "routes/brief/shared.tsx": { get: signedIn(404), why: "a brief id not shared with any of them" },
 };
 
 /** Resource routes answer 401 JSON instead of a sign-in redirect. */
@@ -108,6 +116,7 @@ function flatten(entries: RouteConfigEntry[], parent = ""): Flat[] {
 
 let w: Awaited<ReturnType<typeof garageWorld>>;
 let sessionId = "";
+let briefToken = "";
 const jars = {} as Record<Actor, CookieJar>;
 
 beforeAll(async () => {
@@ -116,8 +125,10 @@ beforeAll(async () => {
   for (const role of ROLES) jars[role] = w.jars[role];
   jars.otherTeam = w.jars.outsider;
   jars.signedOut = new CookieJar();
-  // No Brief link exists yet (issue 12 item 1 is not built): its holder carries no cookie, like a stranger.
+  // The Brief-link holder has the link to this session and no cookie: everywhere else they are a stranger.
   jars.briefHolder = new CookieJar();
+  const made = await createBrief({ id: w.team.id, name: w.team.name }, { id: w.userIds.engineer, name: "Matrix" }, { sessionId, note: null, days: 14, recipientEmail: null });
+  briefToken = made.token;
 }, 120_000);
 
 function concretePath(pattern: string): string {
@@ -127,6 +138,8 @@ function concretePath(pattern: string): string {
     setupId: w.setupId,
     sessionId,
     id: "00000000-0000-4000-8000-000000000000",
+    briefId: "00000000-0000-4000-8000-000000000000",
+    token: briefToken,
   };
   const path = "/" + pattern.replace(/:(\w+)/g, (_, k: string) => ids[k] ?? k).replace("*", pattern.startsWith("api/auth") ? "ok" : "no-such-thing");
   if (pattern === "t/:teamSlug/garage/:carId/setups/:setupId/diff") return `${path}?against=${w.setupId}`;

@@ -5,22 +5,29 @@ import { can, ROLE_LABELS } from "~/lib/access";
 import { requireMember } from "~/server/permissions.server";
 import { listMembers } from "~/server/teams.server";
 import { listCars } from "~/server/garage-cars.server";
+import { briefsSharedWith } from "~/server/brief.server";
 import type { Route } from "./+types/dashboard";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
-  const [members, cars] = await Promise.all([listMembers(ctx.team.id), listCars(ctx.team.id, { sort: "updated", dir: "desc" })]);
+  const [members, cars, briefs] = await Promise.all([
+    listMembers(ctx.team.id),
+    listCars(ctx.team.id, { sort: "updated", dir: "desc" }),
+    briefsSharedWith(ctx.user.id, ctx.user.email),
+  ]);
   return {
     team: ctx.team,
     role: ctx.role,
     memberCount: members.length,
     carCount: cars.length,
+    canBrief: can(ctx.role, { share: ["create"] }),
+    sharedBriefs: briefs.map((b) => ({ id: b.id, sessionName: b.sessionName, teamName: b.teamName, note: b.note, expiresAt: b.expiresAt.toISOString() })),
     recentCars: cars.slice(0, 5).map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
   };
 }
 
 export default function Dashboard({ loaderData }: Route.ComponentProps) {
-  const { team, role, memberCount, carCount, recentCars } = loaderData;
+  const { team, role, memberCount, carCount, recentCars, sharedBriefs, canBrief } = loaderData;
   const base = `/t/${team.slug}`;
   return (
     <div className="space-y-5">
@@ -33,6 +40,24 @@ export default function Dashboard({ loaderData }: Route.ComponentProps) {
           </Link>
         </p>
       </div>
+      {sharedBriefs.length > 0 && (
+        <Panel title="Briefs shared with you">
+          <ul className="divide-y divide-rule-soft text-sm">
+            {sharedBriefs.map((b) => (
+              <li key={b.id} className="py-1.5">
+                <Link className="font-medium text-accent underline" to={`/brief/shared/${b.id}`}>{b.sessionName}</Link>
+                <span className="text-ink-soft"> · {b.teamName} · until {b.expiresAt.slice(0, 10)}</span>
+                {b.note && <span className="block text-ink-soft">“{b.note}”</span>}
+              </li>
+            ))}
+          </ul>
+        </Panel>
+      )}
+      {canBrief && (
+        <p className="text-sm">
+          <Link className="text-accent underline" to={`${base}/briefs`}>Driver briefs</Link>: share one session read-only with a driver.
+        </p>
+      )}
       <div className="grid gap-4 md:grid-cols-2">
         <Panel
           title={<>Garage {carCount > 0 && <span className="num text-sm font-normal text-ink-faint">({carCount})</span>}</>}
