@@ -3,15 +3,15 @@
  * Kept apart from the worker entry so it can be tested without a Worker global, and so nothing here
  * reaches JSX (the dev server's hot-reload preamble breaks a worker that imports it).
  */
-import { transfer } from "comlink";
+import { expose, proxy, releaseProxy, transfer, wrap } from "comlink";
 import { analyseLog } from "../app/engine/analyse";
 import type { AnalyseOptions } from "../app/engine/analyse";
-import { isEngineError } from "../app/engine/errors";
+import { EngineError, isEngineError, type EngineErrorCode } from "../app/engine/errors";
 import { inspectLog, suggestChannelMap, validateChannelMap } from "../app/engine/ingest";
 import { checkChannelSigns } from "../app/engine/sign-check";
 import type { SignCheck } from "../app/engine/sign-check";
-import { analysePart, mergeParts, planParts } from "../app/engine/split";
-import type { LogFileAccess, LogPlan, PartResult, PlanLimits } from "../app/engine/split";
+import { analyseLogSplit, analysePart, mergeParts, planParts } from "../app/engine/split";
+import type { LogFileAccess, LogPlan, PartResult, PartRunner, PlanLimits } from "../app/engine/split";
 import type { SessionSummary, StaticSeed } from "../app/engine/summary";
 import type { SummaryOptions } from "../app/engine/summary-options";
 import type { CarInput, ChannelMap, LogHeader } from "../app/engine/types";
@@ -151,6 +151,67 @@ export const engineApi = {
       await onProgress?.(report(file.size));
       return summary;
     });
+  },
+
+  /**
+   * The whole file in `parts` parts, as the CLI reads a large file on its threads (analyseLogSplit, the
+   * same plan for the same part count, so the same summary): part 0 here, the others on the engine
+   * workers reached through `helpers` (ports from `connect`, transferred). A small file, or one a part
+   * cannot read on its own, is read whole here, as the CLI does. Progress as `analyse` (rows estimated
+   * from the head's row length while reading; the count of record at the end).
+   */
+  async analyseInParts(
+    file: Blob,
+    car: CarInput,
+    map: ChannelMap,
+    options: Omit<AnalyseOptions, "onProgress">,
+    parts: number,
+    helpers: MessagePort[],
+    onProgress?: (p: ReadProgress) => void | Promise<void>,
+  ): Promise<EngineResult<SessionSummary>> {
+    const started = performance.now();
+    const remotes = helpers.map((port) => wrap<EngineApi>(port));
+    const access = blobAccess(file);
+    let lastReport = -Infinity, bytesPerRow = NaN;
+    const report = (bytes: number, rows: number) => ({ bytes, totalBytes: file.size, rows, elapsedMs: performance.now() - started });
+    const runner: PartRunner = async (plan, k, run) => {
+      if (k === 0 || remotes.length === 0) return analysePart(access.open(plan.parts[k].readFrom), car, map, options, plan, k, run);
+      const remote = remotes[(k - 1) % remotes.length];
+      const res = await remote.analysePart(file, car, map, options, plan, k, run.seed, run.onSeed && proxy(run.onSeed), run.onProgress && proxy(run.onProgress));
+      // Any failure sends the log to the whole-file run, which reports an input problem exactly.
+      if (!res.ok) throw new EngineError(res.code as EngineErrorCode, res.message);
+      return res.value;
+    };
+    try {
+      return await guarded(async () => {
+        const head = new Uint8Array(await file.slice(0, HEAD_SLICE_BYTES).arrayBuffer());
+        const checked = validateChannelMap(map, inspectLog(head));
+        let lines = 0;
+        for (let i = head.indexOf(10); i >= 0; i = head.indexOf(10, i + 1)) lines++;
+        bytesPerRow = lines > 0 ? head.length / lines : NaN;
+        const summary = await analyseLogSplit(access, car, checked, {
+          ...options,
+          parts,
+          runner,
+          onProgress: (b) => {
+            const now = performance.now();
+            if (now - lastReport < PROGRESS_EVERY_MS) return;
+            lastReport = now;
+            void onProgress?.(report(b, Number.isFinite(bytesPerRow) ? Math.round(b / bytesPerRow) : 0));
+          },
+        });
+        await onProgress?.(report(file.size, summary.log.rows));
+        return summary;
+      });
+    } finally {
+      for (const r of remotes) r[releaseProxy]();
+      for (const port of helpers) port.close();
+    }
+  },
+
+  /** Serves this worker's API on one more port too (a helper for another worker's `analyseInParts`). */
+  connect(port: MessagePort): void {
+    expose(engineApi, port);
   },
 
   /**

@@ -6,6 +6,8 @@
 import { UppyContextProvider, useDropzone } from "@uppy/react";
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { useNavigate } from "react-router";
+import { transfer } from "comlink";
+import { MIN_PART_BYTES } from "~/engine/split";
 import type { SessionSummary } from "~/engine/summary";
 import type { CarInput, ChannelMap } from "~/engine/types";
 import { detailsFieldErrors, engineOptionsOf, sessionDetailsSchema, type SessionDetails } from "~/lib/sessions/details";
@@ -110,7 +112,14 @@ export function DropPage({ teamSlug, choices }: { teamSlug: string; choices: Dro
     const venue = choices.venues.find((v) => v.id === details.venueId);
     const carRow = choices.cars.find((c) => c.id === details.carId);
     const options = engineOptionsOf(details, { venueAltitudeM: venue?.altitudeM ?? null, carFuelDensityKgPerL: carRow?.fuelDensityKgPerL ?? null });
-    const res = await drop.readWhole(item.id, (e, file, onProgress) => e.api.analyse(file, car, map, options, onProgress));
+    // A large file is read in parts, one engine worker per core (at most 4, as the CLI's threads), which
+    // gives the CLI's own summary for the same part count; a small one whole in one worker.
+    const parts = Math.max(1, Math.min(4, navigator.hardwareConcurrency || 1));
+    const res = await drop.readWhole(item.id, async (e, file, onProgress, helpers) => {
+      if (parts === 1 || file.size < 2 * MIN_PART_BYTES) return e.api.analyse(file, car, map, options, onProgress);
+      const ports = await helpers(parts - 1);
+      return e.api.analyseInParts(file, car, map, options, parts, transfer(ports, ports), onProgress);
+    });
     if (res === null) return;
     const result = res as Awaited<ReturnType<import("./engine-client").EngineHandle["api"]["analyse"]>>;
     if (!result.ok) {
