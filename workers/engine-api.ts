@@ -172,7 +172,7 @@ export const engineApi = {
     const started = performance.now();
     const remotes = helpers.map((port) => wrap<EngineApi>(port));
     const access = blobAccess(file);
-    let lastReport = -Infinity, bytesPerRow = NaN;
+    let lastReport = -Infinity, bytesPerRow = NaN, finished = false;
     const report = (bytes: number, rows: number) => ({ bytes, totalBytes: file.size, rows, elapsedMs: performance.now() - started });
     const runner: PartRunner = async (plan, k, run) => {
       if (k === 0 || remotes.length === 0) return analysePart(access.open(plan.parts[k].readFrom), car, map, options, plan, k, run);
@@ -195,11 +195,13 @@ export const engineApi = {
           runner,
           onProgress: (b) => {
             const now = performance.now();
-            if (now - lastReport < PROGRESS_EVERY_MS) return;
+            if (finished || now - lastReport < PROGRESS_EVERY_MS) return;
             lastReport = now;
             void onProgress?.(report(b, Number.isFinite(bytesPerRow) ? Math.round(b / bytesPerRow) : 0));
           },
         });
+        // A helper's last progress can come in after the parts are merged (its own port): the end is said once, last.
+        finished = true;
         await onProgress?.(report(file.size, summary.log.rows));
         return summary;
       });
