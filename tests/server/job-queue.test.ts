@@ -157,14 +157,15 @@ describe("job worker processes", () => {
       const job = await jobOf(id);
       return job.status === "running" && job.leaseOwner?.startsWith("doomed@") && job;
     });
-    // It has the engine's result and waits on the row lock inside its write.
+    // The second worker starts now: the job is leased, so it waits for the lease to run out.
+    const rescuer = startWorker("rescuer");
+    // The first has the engine's result and waits on the row lock inside its write.
     await sleep(1500);
     doomed.kill("SIGKILL");
     await new Promise((r) => doomed.once("exit", r));
     await holder.rollback();
     await holder.end();
 
-    const rescuer = startWorker("rescuer");
     const job = await until("the job done by another worker", async () => {
       const row = await jobOf(id);
       return row.status === "done" && row;
