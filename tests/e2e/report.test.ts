@@ -65,6 +65,11 @@ describe("Balance report in the browser", () => {
     const { readFileSync } = await import("node:fs");
     const bytes = readFileSync((await download.path())!);
     expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    // A note on a band, added without a reload, is listed at once.
+    await page.selectOption('select[name="band"]', "160-200");
+    await page.fill('input[name="body"]', "Front locking into the hairpin");
+    await page.getByRole("button", { name: "Add note" }).click();
+    await page.getByTestId("notes").getByText("Front locking into the hairpin").waitFor();
     await page.screenshot({ path: `${SHOTS}/report-1280.png`, fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
     await page.screenshot({ path: `${SHOTS}/report-390-top.png` });
@@ -80,6 +85,7 @@ describe("Balance report in the browser", () => {
     await page.waitForSelector('figure[data-drawn="yes"] canvas');
     expect(await page.locator('[data-testid="pivot"] td[data-clear="yes"]').count()).toBeGreaterThan(0);
     expect(await page.getByTestId("setup-changes").innerText()).toMatch(/Rear wing angle/);
+    expect(await page.getByTestId("comparison").innerText()).toContain("Front locking into the hairpin");
     await page.screenshot({ path: `${SHOTS}/compare-1280.png`, fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
     await page.screenshot({ path: `${SHOTS}/compare-390.png`, fullPage: true });

@@ -1,6 +1,11 @@
-import { Form, Link, useNavigation } from "react-router";
+import { Form, Link, data, useFetcher, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireMember } from "~/server/permissions.server";
+import { can, requireMember } from "~/server/permissions.server";
+import { readFormFields } from "~/server/body.server";
+import { listAnnotations, listSavedComparisons, saveComparison } from "~/server/report/annotations.server";
+import { getSessionReports } from "~/server/report/session.server";
+import { saveComparisonSchema } from "~/lib/report/annotations";
+import { NotesList } from "~/components/report/notes";
 import { compareReport, CompareInputError, MAX_COMPARED, pickableSessions, pickerChoices } from "~/server/report/compare.server";
 import { teamPath } from "~/lib/team-schemas";
 import { pivotBands, STANDARD_DENSITY_KG_M3 } from "~/lib/report/compare";
@@ -31,7 +36,45 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       problem = e.message;
     }
   }
-  return { team: ctx.team, filters, ids, pickable, choices, result, problem };
+  const [notes, saved] = await Promise.all([result ? listAnnotations(ctx.team.id, result.sessions.map((x) => x.id)) : [], listSavedComparisons(ctx.team.id)]);
+  return { team: ctx.team, filters, ids, pickable, choices, result, problem, notes, saved, canSave: can(ctx.role, { session: ["annotate"] }) };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  // Saving a comparison is team data an analyst may write, like a note.
+  const ctx = await requireMember(request, params.teamSlug, { compare: ["read"], session: ["annotate"] });
+  const fields = await readFormFields(request);
+  if (fields.intent !== "save") throw data("Unknown action: save.", { status: 400 });
+  const parsed = saveComparisonSchema.safeParse(fields);
+  if (!parsed.success) {
+    const errors: Record<string, string> = {};
+    for (const issue of parsed.error.issues) errors[String(issue.path[0] ?? "name")] ??= issue.message;
+    return data({ errors }, { status: 400 });
+  }
+  const found = await getSessionReports(ctx.team.id, parsed.data.ids);
+  if (found.length !== parsed.data.ids.length) return data({ errors: { ids: "Some of these sessions are not in this team." } }, { status: 400 });
+  await saveComparison(ctx.team.id, ctx.user.id, parsed.data.name, parsed.data.ids);
+  return { ok: true, name: parsed.data.name };
+}
+
+function SaveForm({ ids }: { ids: string[] }) {
+  const fetcher = useFetcher<{ ok?: boolean; name?: string; errors?: Record<string, string> }>();
+  const error = fetcher.data?.errors ? Object.values(fetcher.data.errors)[0] : null;
+  return (
+    <fetcher.Form method="post" className="flex flex-wrap items-end gap-2 text-sm" aria-label="Save this comparison">
+      <input type="hidden" name="intent" value="save" />
+      <input type="hidden" name="ids" value={ids.join(",")} />
+      <label className="flex flex-col">
+        <span className="text-xs text-ink-soft">Save as</span>
+        <input name="name" required maxLength={80} placeholder="e.g. Splitter test, May–June" className="rounded border border-rule px-2 py-1" />
+      </label>
+      <button type="submit" disabled={fetcher.state !== "idle"} className="rounded border border-rule px-3 py-1 hover:bg-rule-soft">
+        {fetcher.state !== "idle" ? "Saving…" : "Save comparison"}
+      </button>
+      {fetcher.data?.ok && <span role="status" className="text-xs text-ink-soft">Saved as “{fetcher.data.name}”.</span>}
+      {error && <span role="alert" className="text-xs text-danger">{error}</span>}
+    </fetcher.Form>
+  );
 }
 
 function ChangeCell({ c, digits, unit }: { c: Change | undefined; digits: number; unit: string }) {
@@ -54,7 +97,7 @@ function downloadCsv(name: string, text: string) {
 }
 
 export default function Compare({ loaderData }: Route.ComponentProps) {
-  const { team, filters, ids, pickable, choices, result, problem } = loaderData;
+  const { team, filters, ids, pickable, choices, result, problem, notes, saved, canSave } = loaderData;
   const navigation = useNavigation();
   const busy = navigation.state !== "idle" && navigation.location?.pathname.endsWith("/compare");
   const base = teamPath(team.slug);
@@ -110,6 +153,17 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
           </label>
           <button type="submit" className="rounded border border-rule px-3 py-1 hover:bg-rule-soft">Filter</button>
         </Form>
+        {saved.length > 0 && (
+          <div className="mt-3 text-sm" data-testid="saved-comparisons">
+            <span className="text-xs text-ink-soft">Saved comparisons: </span>
+            {saved.map((c, i) => (
+              <span key={c.id}>
+                {i > 0 && " · "}
+                <Link to={`?ids=${c.sessionIds.join(",")}`} className="text-accent hover:underline">{c.name}</Link>
+              </span>
+            ))}
+          </div>
+        )}
         {pickable.length === 0 ? (
           <div className="mt-3">
             <EmptyState title="No sessions match" action={{ to: `${base}/sessions/new`, label: "Drop a log" }}>
@@ -181,6 +235,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
             </div>
           </Panel>
 
+          {canSave && <SaveForm ids={result.sessions.map((x) => x.id)} />}
           <Panel title="What changed, and what the balance did">
             <ul className="space-y-3 text-sm" data-testid="setup-changes">
               {result.differences.map((d) => {
@@ -201,6 +256,20 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
                 );
               })}
             </ul>
+            {notes.length > 0 && (
+              <div className="mt-3">
+                <h3 className="text-sm font-semibold">Notes on these sessions</h3>
+                {result.sessions.map((x) => {
+                  const own = notes.filter((n) => n.sessionId === x.id);
+                  return own.length ? (
+                    <div key={x.id} className="mt-1">
+                      <div className="text-xs font-medium">{x.name}</div>
+                      <NotesList notes={own} />
+                    </div>
+                  ) : null;
+                })}
+              </div>
+            )}
             <p className="mt-2 text-xs text-ink-soft">"Clear" means the change's 95 % interval excludes zero; at 95 % about one clear change in twenty is noise.</p>
           </Panel>
 

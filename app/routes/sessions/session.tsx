@@ -1,5 +1,9 @@
-import { Link } from "react-router";
-import { requireMember } from "~/server/permissions.server";
+import { Link, data } from "react-router";
+import { can, requireMember } from "~/server/permissions.server";
+import { readFormFields } from "~/server/body.server";
+import { addAnnotation, listAnnotations } from "~/server/report/annotations.server";
+import { annotationSchema } from "~/lib/report/annotations";
+import { NoteForm, NotesList } from "~/components/report/notes";
 import { ids } from "~/server/garage-routes.server";
 import { getSessionReport } from "~/server/report/session.server";
 import { teamPath } from "~/lib/team-schemas";
@@ -25,11 +29,35 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const lean = summary ? { ...summary, traces: undefined } : null;
   return {
     team: ctx.team,
+    notes: await listAnnotations(ctx.team.id, [head.id]),
+    canAnnotate: can(ctx.role, { session: ["annotate"] }),
     head,
     summary: lean as SessionSummary | null,
     verdict: summary ? verdictSentence(summary) : null,
     advice: summary ? adviceFor(summary) : [],
   };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const ctx = await requireMember(request, params.teamSlug, { session: ["annotate"] });
+  const { sessionId } = ids(params, "sessionId");
+  const fields = await readFormFields(request);
+  if (fields.intent !== "annotate") throw data("Unknown action: annotate.", { status: 400 });
+  const { summary } = await getSessionReport(ctx.team.id, sessionId);
+  const parsed = annotationSchema.safeParse(fields);
+  if (!parsed.success) {
+    const errors: Record<string, string> = {};
+    for (const issue of parsed.error.issues) errors[String(issue.path[0] ?? "body")] ??= issue.message;
+    return data({ errors }, { status: 400 });
+  }
+  let band: [number, number] | null = null;
+  if (parsed.data.band) {
+    const [min, max] = parsed.data.band.split("-").map(Number);
+    if (!summary?.bands.some((b) => b.min_kmh === min && b.max_kmh === max)) return data({ errors: { band: "That speed band is not one of this session's." } }, { status: 400 });
+    band = [min, max];
+  }
+  await addAnnotation(ctx.team.id, ctx.user.id, sessionId, parsed.data.body, band);
+  return { ok: true };
 }
 
 function airWords(s: SessionSummary, head: SessionHead): string {
@@ -48,7 +76,7 @@ function fuelWords(s: SessionSummary): string {
 }
 
 export default function BalanceReport({ loaderData }: Route.ComponentProps) {
-  const { head, summary: s, verdict, advice, team } = loaderData;
+  const { head, summary: s, verdict, advice, team, notes, canAnnotate } = loaderData;
   const base = teamPath(team.slug);
   return (
     <div className="report space-y-4">
@@ -127,6 +155,12 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
           </div>
         </>
       )}
+      <div className="report-noprint">
+        <Panel title="Notes">
+          <NotesList notes={notes} />
+          {canAnnotate && <NoteForm bands={s?.bands ?? []} />}
+        </Panel>
+      </div>
       <div className="grid gap-4 lg:grid-cols-2 print:hidden">
         <Panel title="Session and setup">
           <SessionDetails head={head} />

@@ -1,0 +1,64 @@
+/** Notes on a session and its bands: the list, and (for roles that may annotate) a form that posts without a reload. */
+import { useEffect, useRef } from "react";
+import { useFetcher } from "react-router";
+import { bandKey } from "~/lib/report/annotations";
+
+export interface NoteView {
+  id: string;
+  bandMinKmh: number | null;
+  bandMaxKmh: number | null;
+  body: string;
+  author: string | null;
+  createdAt: string;
+}
+
+export const noteWhere = (n: Pick<NoteView, "bandMinKmh" | "bandMaxKmh">) => (n.bandMinKmh === null ? "whole session" : `${n.bandMinKmh}–${n.bandMaxKmh} km/h`);
+
+export function NotesList({ notes }: { notes: NoteView[] }) {
+  if (notes.length === 0) return <p className="text-sm text-ink-soft">No notes yet.</p>;
+  return (
+    <ul className="space-y-1.5 text-sm" data-testid="notes">
+      {notes.map((n) => (
+        <li key={n.id}>
+          <span className="num text-xs text-ink-soft">{noteWhere(n)}</span> — {n.body}
+          <span className="text-xs text-ink-faint"> ({n.author ?? "former member"}, {n.createdAt.slice(0, 10)})</span>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+export function NoteForm({ bands }: { bands: { min_kmh: number; max_kmh: number }[] }) {
+  const fetcher = useFetcher<{ errors?: Record<string, string>; ok?: boolean }>();
+  const form = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (fetcher.state === "idle" && fetcher.data?.ok) form.current?.reset();
+  }, [fetcher.state, fetcher.data]);
+  const errors = fetcher.data?.errors ?? {};
+  return (
+    <fetcher.Form method="post" ref={form} className="mt-3 space-y-2 text-sm print:hidden" aria-label="Add a note">
+      <input type="hidden" name="intent" value="annotate" />
+      <div className="flex flex-wrap gap-2">
+        <label className="flex flex-col">
+          <span className="text-xs text-ink-soft">On</span>
+          <select name="band" className="rounded border border-rule px-2 py-1">
+            <option value="">Whole session</option>
+            {bands.map((b) => (
+              <option key={b.min_kmh} value={bandKey(b.min_kmh, b.max_kmh)}>
+                {b.min_kmh}–{b.max_kmh} km/h
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="flex min-w-56 flex-1 flex-col">
+          <span className="text-xs text-ink-soft">Note</span>
+          <input name="body" maxLength={500} required placeholder="e.g. front locking into the hairpin" className="rounded border border-rule px-2 py-1" aria-invalid={errors.body ? true : undefined} />
+        </label>
+      </div>
+      {(errors.body || errors.band) && <p className="text-xs text-danger" role="alert">{errors.body ?? errors.band}</p>}
+      <button type="submit" disabled={fetcher.state !== "idle"} className="rounded border border-accent bg-accent px-3 py-1 font-medium text-white hover:bg-accent-strong disabled:opacity-60">
+        {fetcher.state !== "idle" ? "Saving…" : "Add note"}
+      </button>
+    </fetcher.Form>
+  );
+}
