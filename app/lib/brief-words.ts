@@ -8,6 +8,10 @@
 import type { SessionSummary } from "~/engine/summary-types";
 import { copPlacement } from "./report/verdict";
 
+/** A Brief link works 14 days unless its maker chooses 1–90 (client-safe: the page's form shows them). */
+export const BRIEF_DEFAULT_DAYS = 14;
+export const BRIEF_MAX_DAYS = 90;
+
 export function briefHeadline(s: Pick<SessionSummary, "bands" | "car" | "cop">): { headline: string; speed: string | null } {
   const fast = [...s.bands].reverse().find((b) => b.balance_front_pct !== null);
   if (!fast) return { headline: "Not enough fast running in this session to say how the car balances at speed.", speed: null };

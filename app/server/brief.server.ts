@@ -16,8 +16,8 @@ import { db } from "./db.server";
 import { env } from "./env.server";
 import { sendMail } from "./mail.server";
 
-export const BRIEF_DEFAULT_DAYS = 14;
-export const BRIEF_MAX_DAYS = 90;
+import { BRIEF_MAX_DAYS } from "../lib/brief-words";
+export { BRIEF_DEFAULT_DAYS, BRIEF_MAX_DAYS } from "../lib/brief-words";
 const TOKEN = /^[A-Za-z0-9_-]{43}$/;
 
 export const hashBriefToken = (token: string) => createHash("sha256").update(token).digest("hex");
