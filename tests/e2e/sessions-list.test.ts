@@ -48,6 +48,9 @@ describe("Sessions, venues and the headless API", () => {
 
   it("lists the demo sessions, sorts by ClA and filters by venue through the URL", async () => {
     const page = browser.page;
+    await page.goto("/t/harrowgate", { waitUntil: "networkidle" });
+    await page.getByRole("link", { name: "All sessions" }).waitFor();
+    await shoot(browser, "dashboard-sessions");
     await page.goto("/t/harrowgate/sessions", { waitUntil: "networkidle" });
     await page.getByRole("heading", { name: "Sessions" }).waitFor();
     const rows = page.locator('table[aria-label="Sessions"] tbody tr');

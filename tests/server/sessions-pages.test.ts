@@ -11,6 +11,7 @@ import { db } from "~/server/db.server";
 import * as listPage from "~/routes/sessions/list";
 import * as venuesPage from "~/routes/sessions/venues";
 import * as apiSessions from "~/routes/api/sessions";
+import * as dashboard from "~/routes/teams/dashboard";
 import { appUrl, args, formRequest, getRequest, outcome } from "./auth-support";
 import { ingestWorld, LOGS, mapOf } from "./ingest-support";
 
@@ -54,6 +55,9 @@ describe("Sessions list page", () => {
     expect(bad.problem).toMatch(/^from: /);
     expect(bad.rows).toHaveLength(3);
     expect((await listOf("?page=2")).rows).toEqual([]);
+    // The dashboard shows the newest sessions (it said "coming in the next release" before).
+    const home = await outcome(() => dashboard.loader(args(getRequest(`/t/${w.slug}`, w.jar), { teamSlug: w.slug })));
+    expect((home.body as { recentSessions: Array<{ run: string }> }).recentSessions.map((r) => r.run)).toEqual(["Run C", "Run B", "Run A"]);
   });
 
   it("a driver's role does not read the list (403); another team's member gets 404", async () => {

@@ -6,14 +6,17 @@ import { requireMember } from "~/server/permissions.server";
 import { listMembers } from "~/server/teams.server";
 import { listCars } from "~/server/garage-cars.server";
 import { briefsSharedWith } from "~/server/brief.server";
+import { listSessionsPage, sessionPageSchema } from "~/server/sessions/list.server";
 import type { Route } from "./+types/dashboard";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
-  const [members, cars, briefs] = await Promise.all([
+  const readsSessions = can(ctx.role, { session: ["read"] });
+  const [members, cars, briefs, sessions] = await Promise.all([
     listMembers(ctx.team.id),
     listCars(ctx.team.id, { sort: "updated", dir: "desc" }),
     briefsSharedWith(ctx.user.id, ctx.user.email),
+    readsSessions ? listSessionsPage(ctx.team.id, sessionPageSchema.parse({})) : null,
   ]);
   return {
     team: ctx.team,
@@ -22,12 +25,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     carCount: cars.length,
     canBrief: can(ctx.role, { share: ["create"] }),
     sharedBriefs: briefs.map((b) => ({ id: b.id, sessionName: b.sessionName, teamName: b.teamName, note: b.note, expiresAt: b.expiresAt.toISOString() })),
+    recentSessions: sessions ? sessions.rows.slice(0, 5).map((r) => ({ id: r.id, date: r.date, run: r.run, car: r.car.name, venue: r.venue?.name ?? null, state: r.state })) : null,
+    canUpload: can(ctx.role, { session: ["upload"] }),
     recentCars: cars.slice(0, 5).map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
   };
 }
 
 export default function Dashboard({ loaderData }: Route.ComponentProps) {
-  const { team, role, memberCount, carCount, recentCars, sharedBriefs, canBrief } = loaderData;
+  const { team, role, memberCount, carCount, recentCars, sharedBriefs, canBrief, recentSessions, canUpload } = loaderData;
   const base = `/t/${team.slug}`;
   return (
     <div className="space-y-5">
@@ -94,12 +99,25 @@ export default function Dashboard({ loaderData }: Route.ComponentProps) {
             </table>
           )}
         </Panel>
-        <Panel title="Sessions">
-          <EmptyState title="Drop a log">
-            Uploading logger exports is coming in the next release. Once it is here, you drop the export after each stint and its
-            Balance report appears in this list.
-          </EmptyState>
-        </Panel>
+        {recentSessions && (
+          <Panel title="Sessions" actions={recentSessions.length > 0 ? <Link className="text-sm text-accent underline" to={`${base}/sessions`}>All sessions</Link> : undefined}>
+            {recentSessions.length === 0 ? (
+              <EmptyState title="Drop a log" action={canUpload && carCount > 0 ? { to: `${base}/sessions/new`, label: "Drop a log" } : undefined}>
+                After each stint, drop the logger's export: its Balance report appears here.
+                {carCount === 0 ? " Add the car to the Garage first." : canUpload ? "" : " An engineer of the team drops the logs."}
+              </EmptyState>
+            ) : (
+              <ul className="divide-y divide-rule-soft text-sm">
+                {recentSessions.map((s) => (
+                  <li key={s.id} className="flex items-baseline justify-between gap-2 py-1.5">
+                    <Link className="text-accent underline" to={`${base}/sessions/${s.id}`}>{s.date ?? "no date"} · {s.run ?? s.car}</Link>
+                    <span className="text-right text-ink-soft">{s.car}{s.venue ? ` · ${s.venue}` : ""} · {s.state}</span>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </Panel>
+        )}
       </div>
       {role === "driver" && (
         <p className="text-sm text-ink-soft">As a driver you see the team's cars and the Driver briefs your engineers share with you.</p>
