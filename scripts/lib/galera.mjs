@@ -200,10 +200,12 @@ function initialiseNode(node, installDb, account, logDir) {
   mkdirSync(node.datadir, { recursive: true });
   chownTree(node.datadir, account);
   info(`initialising ${node.name}'s datadir at ${path.relative(process.cwd(), node.datadir) || node.datadir}`);
+  // Its own temporary folder here too: files of other servers' runs in a shared /tmp come and go.
+  ensureTmpdir(node);
   execFileSync(installDb, [
     "--no-defaults", `--datadir=${node.datadir}`, "--user=mysql",
-    "--auth-root-authentication-method=socket", "--skip-test-db",
-  ], { stdio: ["ignore", "pipe", "pipe"] });
+    "--auth-root-authentication-method=socket", "--skip-test-db", `--tmpdir=${node.tmpdir}`,
+  ], { stdio: ["ignore", "pipe", "pipe"], env: { ...process.env, TMPDIR: node.tmpdir } });
   chownTree(node.datadir, account);
   mkdirSync(logDir, { recursive: true });
   return true;
