@@ -91,6 +91,7 @@ export const compareResponseSchema = z
         balance_front_pct: num,
         balance_front_ci95_pct: pair,
         balance_shift: z.looseObject({ points: z.number(), ci95_points: pair }).nullable(),
+        advice: z.array(z.object({ problem: z.string(), evidence: z.string(), direction: z.string(), source: z.literal("common practice") })),
         bands: z.array(
           z.object({
             min_kmh: z.number(),

@@ -9,6 +9,8 @@ import { NotesList } from "~/components/report/notes";
 import { compareReport, CompareInputError, MAX_COMPARED, pickableSessions, pickerChoices } from "~/server/report/compare.server";
 import { teamPath } from "~/lib/team-schemas";
 import { pivotBands, STANDARD_DENSITY_KG_M3 } from "~/lib/report/compare";
+import { ADVICE_CAUTIONS } from "~/lib/report/advice";
+import { CAUTIONS } from "~/engine/summary-types";
 import { fmt, interval, signed } from "~/lib/report/format";
 import { toCsv } from "~/lib/report/csv";
 import type { Change } from "~/engine/compare";
@@ -271,6 +273,28 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
               </div>
             )}
             <p className="mt-2 text-xs text-ink-soft">"Clear" means the change's 95 % interval excludes zero; at 95 % about one clear change in twenty is noise.</p>
+          </Panel>
+
+          <Panel title="Advice and cautions">
+            {result.sessions.some((x) => x.advice.length > 0) ? (
+              <ul className="space-y-2 text-sm" data-testid="compare-advice">
+                {result.sessions.flatMap((x) =>
+                  x.advice.map((a) => (
+                    <li key={`${x.id}-${a.problem}`}>
+                      <span className="font-medium">{x.name}:</span> {a.evidence} <span className="font-medium">{a.direction}</span>{" "}
+                      <span className="text-xs text-ink-soft">(usual direction of change, common practice)</span>
+                    </li>
+                  )),
+                )}
+              </ul>
+            ) : (
+              <p className="text-sm text-ink-soft">No high-speed balance problem stands out from the intervals of these sessions.</p>
+            )}
+            <ul className="mt-3 list-disc space-y-0.5 rounded border border-caution/30 bg-caution-bg py-2 pl-7 pr-3 text-xs text-caution" role="note">
+              {[...CAUTIONS, ADVICE_CAUTIONS[2]].map((c) => (
+                <li key={c}>{c}</li>
+              ))}
+            </ul>
           </Panel>
 
           <Panel title="Overlay">

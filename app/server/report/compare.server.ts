@@ -10,6 +10,7 @@ import { compareSessions } from "~/engine/compare";
 import { diffSetups } from "~/lib/garage/diff";
 import { changeSentences, loadAtStandardAir, STANDARD_DENSITY_KG_M3, type CompareBand } from "~/lib/report/compare";
 import { getSessionReports, sessionJson } from "./session.server";
+import { adviceFor } from "~/lib/report/advice";
 
 export const MAX_COMPARED = 8;
 
@@ -58,6 +59,7 @@ export async function compareReport(teamId: string, ids: string[], urlOf: (id: s
       balance_front_pct: s.aero.balance_front_pct,
       balance_front_ci95_pct: s.aero.balance_front_ci95_pct,
       balance_shift: s.aero.balance_shift,
+      advice: adviceFor(s),
       bands,
     };
   });
