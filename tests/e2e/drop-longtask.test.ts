@@ -96,4 +96,26 @@ describe("Drop a log stays responsive on a large export", () => {
     expect(cpuMs.filter((ms) => ms > 100)).toEqual([]);
     if (WALL) expect(tasks.filter((t) => t.duration > 100)).toEqual([]);
   }, 900_000);
+
+  it("shows the read's progress, stops it on request and reads again; the same file then offers its stored session", async () => {
+    const page = browser.page;
+    await page.goto("/t/harrowgate/sessions/new", { waitUntil: "networkidle" });
+    await page.setInputFiles('[data-testid="drop-input"]', file);
+    await expect.poll(() => page.inputValue("#map-time-column"), { timeout: 60_000 }).not.toBe("");
+    await page.getByRole("button", { name: "Confirm map" }).click();
+    await page.locator("#f-carId").selectOption({ label: "Marlin SR2" });
+    await page.locator("#f-venueId").selectOption({ label: "Another venue…" });
+    await page.fill("#f-venueName", "Kestrel Bank Raceway");
+    await page.getByRole("button", { name: "Read and store the session" }).click();
+    await page.getByRole("button", { name: "Stop reading" }).waitFor({ timeout: 60_000 });
+    await page.screenshot({ path: ".data/shots/drop-7-reading-1280.png", fullPage: true });
+    await page.getByRole("button", { name: "Stop reading" }).click();
+    await page.getByText("Reading cancelled. Your map and details are kept.").waitFor();
+    expect(await page.inputValue("#f-venueName")).toBe("Kestrel Bank Raceway");
+    await page.getByRole("button", { name: "Read and store the session" }).click();
+    // The first test stored this file: the server answers with that session instead of a second one.
+    await page.getByText("This file was already stored in this team as a session.").waitFor({ timeout: 300_000 });
+    await page.setViewportSize({ width: 390, height: 900 });
+    await page.screenshot({ path: ".data/shots/drop-8-already-stored-390.png", fullPage: true });
+  }, 900_000);
 });

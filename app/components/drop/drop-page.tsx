@@ -232,7 +232,12 @@ const ActiveFile = memo(function ActiveFile({ item, choices, draft, flags, error
         </ol>
       </header>
       <div className="px-4 py-3">
-        {item.inspectError ? (
+        {item.store.state === "stored" && item.store.session ? (
+          <p className="text-sm">
+            {item.store.session.duplicate ? "This file was already stored in this team as a session. " : "Stored. "}
+            <a className="text-accent underline" href={item.store.session.url}>Open its Balance report</a>; the server checks the figures on the stored file.
+          </p>
+        ) : item.inspectError ? (
           <p className="text-sm text-ink-soft">Export the log again as a text file (CSV, TSV or TXT) and drop it here. Cancel this file to remove it from the list.</p>
         ) : !item.inspection ? (
           <p className="text-sm text-ink-soft" aria-live="polite">Reading the header and the first minutes…</p>
