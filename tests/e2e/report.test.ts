@@ -72,6 +72,9 @@ describe("Balance report in the browser", () => {
     await page.getByTestId("notes").getByText("Front locking into the hairpin").waitFor();
     await page.screenshot({ path: `${SHOTS}/report-1280.png`, fullPage: true });
     await page.setViewportSize({ width: 390, height: 844 });
+    // At phone width every chart shrinks to the page (the ResizeObserver resizes the canvas).
+    await page.waitForFunction(() => [...document.querySelectorAll('[data-testid="report-charts"] canvas')].every((c) => c.getBoundingClientRect().right <= 390));
+    await page.evaluate(() => window.scrollTo(0, 0));
     await page.screenshot({ path: `${SHOTS}/report-390-top.png` });
     await page.screenshot({ path: `${SHOTS}/report-390.png`, fullPage: true });
     await page.setViewportSize({ width: 1280, height: 800 });

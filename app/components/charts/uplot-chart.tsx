@@ -125,7 +125,7 @@ export function UPlotChart({ options, optionsKey, data, height = 240, title, fil
         </button>
       </figcaption>
       {!data && loading}
-      <div ref={holder} className="w-full" />
+      <div ref={holder} className="w-full overflow-hidden" />
       <div className={ready ? "sr-only" : "overflow-x-auto"}>{fallback}</div>
     </figure>
   );

@@ -78,7 +78,7 @@ export function ReportCharts({ s, sessionId, teamSlug }: { s: SessionSummary; se
   }), []);
 
   return (
-    <div className="grid gap-4 lg:grid-cols-2" data-testid="report-charts">
+    <div className="grid grid-cols-1 gap-4 lg:grid-cols-2" data-testid="report-charts">
       <UPlotChart
         title="Aero load per axle against speed"
         fileName={`aero-load-${sessionId}`}
@@ -170,7 +170,7 @@ function TraceCharts({ sessionId, teamSlug }: { sessionId: string; teamSlug: str
   const loading = <span className="block text-sm text-ink-soft">{error ? `Traces not available: ${error}` : "Loading the stint’s traces…"}</span>;
   const note = <span className="block text-xs text-ink-soft">Traces are drawn in the browser from the data API.</span>;
   return (
-    <div className="space-y-2 lg:col-span-2" data-testid="trace-charts">
+    <div className="min-w-0 space-y-2 lg:col-span-2" data-testid="trace-charts">
       <UPlotChart title="Speed over the stint" fileName={`speed-${sessionId}`} optionsKey={`tr-speed-${sessionId}`} options={opts.speed} data={cols?.speed ?? null} height={150} loading={loading} fallback={note} />
       <UPlotChart title="Lateral acceleration" fileName={`lat-g-${sessionId}`} optionsKey={`tr-lat-${sessionId}`} options={opts.lat} data={cols?.lat ?? null} height={150} fallback={note} />
       <UPlotChart title="Damper travel" fileName={`dampers-${sessionId}`} optionsKey={`tr-dampers-${sessionId}`} options={opts.dampers} data={cols?.dampers ?? null} height={180} fallback={note} />
