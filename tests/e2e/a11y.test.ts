@@ -11,6 +11,9 @@ import { cars, setups } from "~/db/schema/garage";
 import { DEMO_PASSWORD, DEMO_TEAM, seedUsers } from "~/server/seed/users.server";
 import { seedGarage } from "~/server/seed/garage.server";
 import { baseURL, openBrowser, type OpenBrowser } from "./helpers/browser";
+import { organization, user } from "~/db/schema/auth";
+import { createBrief } from "~/server/brief.server";
+import { storeDemoSession } from "../server/report-support";
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
 const SHOTS = ".data/screens";
@@ -22,6 +25,7 @@ describe("accessibility and small screens", () => {
   let browser: OpenBrowser;
   let carPath = "";
   let setupPath = "";
+  let briefPath = "";
   const pageErrors: string[] = [];
 
   beforeAll(async () => {
@@ -31,6 +35,11 @@ describe("accessibility and small screens", () => {
     const [v1] = await db.select().from(setups).where(and(eq(setups.carId, car.id), eq(setups.version, 1)));
     carPath = `/t/${team}/garage/${car.id}`;
     setupPath = `${carPath}/setups/${v1.id}`;
+    const [org] = await db.select().from(organization).where(eq(organization.slug, team));
+    const session = await storeDemoSession("marlin-comma", { teamId: org.id, carId: car.id, setupId: v1.id, name: "Kestrel Bank, a11y stint" });
+    const [owner] = await db.select().from(user).where(eq(user.email, "demo@harrowgate.example"));
+    const brief = await createBrief({ id: org.id, name: org.name }, { id: owner.id, name: owner.name }, { sessionId: session.id, note: "Brake later into turn 3.", days: 14, recipientEmail: null });
+    briefPath = `/brief/${brief.token}`;
     mkdirSync(SHOTS, { recursive: true });
     browser = await openBrowser();
     browser.page.on("pageerror", (e) => pageErrors.push(e.message));
@@ -79,7 +88,7 @@ describe("accessibility and small screens", () => {
   ] as const;
 
   it("signed-out pages: 0 serious violations, no sideways scroll at 390 px, a skip link to #main", async () => {
-    for (const [path, name] of signedOut) {
+    for (const [path, name] of [...signedOut, [briefPath, "brief"] as const]) {
       for (const width of [1280, 390]) {
         const r = await audit(path, name, width);
         expect(r.serious.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(" ")).join(", ")})`), path).toEqual([]);
@@ -120,6 +129,8 @@ describe("accessibility and small screens", () => {
       [`/t/${team}/garage/import`, "import", false],
       [`/t/${team}/settings`, "settings", true],
       [`/t/${team}/audit`, "audit", false],
+      [`/t/${team}/briefs`, "briefs", true],
+      [`/t/${team}/sessions`, "sessions", false],
       ["/account", "account", false],
     ];
     const problems: string[] = [];
