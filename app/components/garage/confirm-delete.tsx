@@ -12,9 +12,9 @@ export function ConfirmDelete({ label, intent, consequence, fields = {} }: {
 }) {
   const id = `confirm-${intent}`;
   return (
-    <details className="relative">
+    <details className="relative basis-full sm:basis-auto">
       <summary className="cursor-pointer list-none rounded border border-rule bg-panel px-3 py-1.5 text-danger hover:bg-danger-bg">{label}…</summary>
-      <Form method="post" className="absolute right-0 z-10 mt-1 w-72 max-w-[calc(100vw-2rem)] space-y-2 rounded border border-rule bg-panel p-3 text-sm shadow">
+      <Form method="post" className="z-10 mt-1 w-full min-w-64 space-y-2 rounded border border-rule bg-panel p-3 text-sm shadow sm:absolute sm:right-0 sm:w-72">
         <p>{consequence}</p>
         {Object.entries(fields).map(([name, value]) => (
           <input key={name} type="hidden" name={name} value={value} />
