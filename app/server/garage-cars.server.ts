@@ -10,6 +10,7 @@ import { user } from "../db/schema/auth";
 import { summariseCornerWeights } from "../lib/garage/corner-weights";
 import type { CarFormValues } from "../lib/garage/schemas";
 import { db } from "./db.server";
+import { recordAudit } from "./audit.server";
 
 export const CAR_SORTS = ["name", "category", "mass", "wheelbase", "updated"] as const;
 export type CarSort = (typeof CAR_SORTS)[number];
@@ -121,16 +122,22 @@ export function carRowValues(values: CarFormValues): Omit<NewCar, "id" | "teamId
 export async function createCar(teamId: string, userId: string | null, values: Omit<NewCar, "id" | "teamId" | "createdBy">): Promise<string> {
   const id = randomUUID();
   const now = new Date();
-  await db.insert(cars).values({ ...values, id, teamId, createdBy: userId, createdAt: now, updatedAt: now });
+  await db.transaction(async (tx) => {
+    await tx.insert(cars).values({ ...values, id, teamId, createdBy: userId, createdAt: now, updatedAt: now });
+    await recordAudit(tx, { teamId, actorUserId: userId, action: "car_created", subjectType: "car", subjectId: id, detail: { car: values.name } });
+  });
   return id;
 }
 
-export async function updateCar(teamId: string, carId: string, values: Omit<NewCar, "id" | "teamId" | "createdBy">): Promise<void> {
+export async function updateCar(teamId: string, carId: string, values: Omit<NewCar, "id" | "teamId" | "createdBy">, userId: string | null = null): Promise<void> {
   await getCar(teamId, carId);
-  await db
-    .update(cars)
-    .set({ ...values, updatedAt: new Date() })
-    .where(and(eq(cars.teamId, teamId), eq(cars.id, carId)));
+  await db.transaction(async (tx) => {
+    await tx
+      .update(cars)
+      .set({ ...values, updatedAt: new Date() })
+      .where(and(eq(cars.teamId, teamId), eq(cars.id, carId)));
+    await recordAudit(tx, { teamId, actorUserId: userId, action: "car_updated", subjectType: "car", subjectId: carId, detail: { car: values.name ?? null } });
+  });
 }
 
 /** A copy of the car with the latest version of each of its setup sheets (as version 1). */

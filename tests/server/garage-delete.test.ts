@@ -111,7 +111,7 @@ describe("deleting cars", () => {
     expect(done.location).toBe(`/t/${w.team.slug}/garage?deleted=${world.carId}`);
     expect(await db.select().from(cars).where(eq(cars.id, world.carId))).toHaveLength(0);
     expect(await db.select().from(setups).where(eq(setups.carId, world.carId))).toHaveLength(0);
-    expect(await events(world.carId)).toEqual(["car_deleted"]);
+    expect(await events(world.carId)).toEqual(["car_created", "car_deleted"]);
   });
 
   it("a car a session used is archived with its versions: out of the Garage list, still there for the session", async () => {
@@ -123,7 +123,7 @@ describe("deleting cars", () => {
     expect(car.archivedAt).not.toBeNull();
     expect((await db.select().from(setups).where(eq(setups.carId, world.carId))).every((s) => s.archivedAt !== null)).toBe(true);
     expect((await listCars(w.team.id)).some((c) => c.id === world.carId)).toBe(false);
-    expect(await events(world.carId)).toEqual(["car_archived"]);
+    expect(await events(world.carId)).toEqual(["car_archived", "car_created"]);
     console.log("tried: owner deletes a car a session used; held: archived, hidden from the list, rows kept");
   });
 });

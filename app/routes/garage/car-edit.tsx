@@ -25,7 +25,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const system = unitSystemOf(fields.units);
   const parsed = carFormSchema(system).safeParse(keepUnchangedNumbers(applyExactNumbers(fields, CAR_FIELDS, system), CAR_FIELDS, current, system));
   if (!parsed.success) return data({ errors: fieldErrors(parsed.error) }, { status: 400 });
-  await updateCar(ctx.team.id, carId, carRowValues(parsed.data));
+  await updateCar(ctx.team.id, carId, carRowValues(parsed.data), ctx.user.id);
   return redirect(`/t/${ctx.team.slug}/garage/${carId}`);
 }
 
