@@ -28,6 +28,9 @@ function paths(instance) {
     socket: path.join(datadir, "mysqld.sock"),
     pidFile: path.join(datadir, "mysqld.pid"),
     log: path.join(dataDir, "logs", `mariadb-${instance.name}.log`),
+    // The server's own temporary folder (outside the datadir, where a folder would read as a database):
+    // a shared /tmp that another process cleans or fills must not take its temporary tables away.
+    tmpdir: path.join(dataDir, "tmp", `mariadb-${instance.name}`),
   };
 }
 
@@ -60,15 +63,17 @@ export async function stopLeftoverServer(instance) {
 
 async function initialiseDatadir(instance, installDb) {
   const { datadir } = instance;
+  const { tmpdir } = paths(instance);
   if (existsSync(path.join(datadir, "mysql"))) return false;
   // A datadir without the mysql system schema holds no usable data (an interrupted init): start it over.
   if (existsSync(datadir) && readdirSync(datadir).length) rmSync(datadir, { recursive: true, force: true });
   mkdirSync(datadir, { recursive: true });
+  mkdirSync(tmpdir, { recursive: true });
   info(`initialising a private MariaDB datadir at ${path.relative(process.cwd(), datadir) || datadir}`);
   await runQuiet(installDb, [
     "--no-defaults", `--datadir=${datadir}`, `--user=${osUser()}`,
-    "--auth-root-authentication-method=socket", "--skip-test-db",
-  ]);
+    "--auth-root-authentication-method=socket", "--skip-test-db", `--tmpdir=${tmpdir}`,
+  ], { env: { ...process.env, TMPDIR: tmpdir } });
   return true;
 }
 
@@ -79,7 +84,7 @@ async function initialiseDatadir(instance, installDb) {
  */
 export async function startMariaDB(instance, { fresh = false } = {}) {
   const bin = tools();
-  const { socket, pidFile, log } = paths(instance);
+  const { socket, pidFile, log, tmpdir } = paths(instance);
   if (Buffer.byteLength(socket) > 107) {
     throw new UserFacingError(`the MariaDB socket path is too long for Unix sockets (${socket}); clone into a shorter path`);
   }
@@ -87,11 +92,12 @@ export async function startMariaDB(instance, { fresh = false } = {}) {
   await initialiseDatadir(instance, bin.install);
   await assertPortFree("127.0.0.1", instance.dbPort, "Another MariaDB may be using it; stop it and run again.");
   mkdirSync(path.dirname(log), { recursive: true });
+  mkdirSync(tmpdir, { recursive: true });
 
   const args = [
     "--no-defaults", `--datadir=${instance.datadir}`, `--socket=${socket}`, `--pid-file=${pidFile}`,
     `--port=${instance.dbPort}`, "--bind-address=127.0.0.1", "--skip-name-resolve", `--log-error=${log}`,
-    "--character-set-server=utf8mb4", "--collation-server=utf8mb4_unicode_ci",
+    `--tmpdir=${tmpdir}`, "--character-set-server=utf8mb4", "--collation-server=utf8mb4_unicode_ci",
     ...(isRoot() ? ["--user=root"] : []),
   ];
   const service = spawnService("mariadbd", bin.server, args, { stdio: "ignore" });
