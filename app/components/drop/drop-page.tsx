@@ -10,6 +10,7 @@ import { transfer } from "comlink";
 import { MIN_PART_BYTES } from "~/engine/split";
 import type { SessionSummary } from "~/engine/summary";
 import type { CarInput, ChannelMap } from "~/engine/types";
+import { engineVersionOf } from "~/lib/engine-version";
 import { detailsFieldErrors, engineOptionsOf, sessionDetailsSchema, type SessionDetails } from "~/lib/sessions/details";
 import type { DropChoices } from "~/routes/sessions/drop-page.server";
 import { ChannelMapStep } from "./channel-map-step";
@@ -61,7 +62,7 @@ export function DropPage({ teamSlug, choices }: { teamSlug: string; choices: Dro
           details: read.details,
           map: read.map,
           ...(item.profileName.trim() ? { profile: { name: item.profileName.trim() } } : {}),
-          browser: { summary, traces, engineVersion: `summary-v${read.summary.summary_version}` },
+          browser: { summary, traces, engineVersion: engineVersionOf(read.summary) },
         }),
       });
       status = res.status;

@@ -28,7 +28,7 @@ export type AnalyseFile = (path: string, car: CarInput, map: ChannelMap, options
 
 export type CheckPayload = { reason: "recheck" | "reanalysis"; requestedBy?: string | null };
 
-export const serverEngineVersion = (summary: { summary_version: number }) => `summary-v${summary.summary_version}`;
+export { engineVersionOf as serverEngineVersion } from "~/lib/engine-version";
 
 /** Queues a re-analysis of a session (after a car or setup correction, or a new engine); history is kept. */
 export async function enqueueReanalysis(dbOrTx: DbOrTx, session: { id: string; teamId: string }, userId: string | null): Promise<number> {
