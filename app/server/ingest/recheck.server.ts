@@ -28,7 +28,8 @@ export type AnalyseFile = (path: string, car: CarInput, map: ChannelMap, options
 
 export type CheckPayload = { reason: "recheck" | "reanalysis"; requestedBy?: string | null };
 
-export { engineVersionOf as serverEngineVersion } from "~/lib/engine-version";
+import { engineVersionOf as serverEngineVersion } from "~/lib/engine-version";
+export { serverEngineVersion };
 
 /** Queues a re-analysis of a session (after a car or setup correction, or a new engine); history is kept. */
 export async function enqueueReanalysis(dbOrTx: DbOrTx, session: { id: string; teamId: string }, userId: string | null): Promise<number> {
