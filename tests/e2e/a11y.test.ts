@@ -26,6 +26,8 @@ describe("accessibility and small screens", () => {
   let carPath = "";
   let setupPath = "";
   let briefPath = "";
+  let reportPath = "";
+  let comparePath = "";
   const pageErrors: string[] = [];
 
   beforeAll(async () => {
@@ -40,6 +42,10 @@ describe("accessibility and small screens", () => {
     const [owner] = await db.select().from(user).where(eq(user.email, "demo@harrowgate.example"));
     const brief = await createBrief({ id: org.id, name: org.name }, { id: owner.id, name: owner.name }, { sessionId: session.id, note: "Brake later into turn 3.", days: 14, recipientEmail: null });
     briefPath = `/brief/${brief.token}`;
+    const [v2] = await db.select().from(setups).where(and(eq(setups.carId, car.id), eq(setups.version, 2)));
+    const other = await storeDemoSession("marlin-splitter", { teamId: org.id, carId: car.id, setupId: (v2 ?? v1).id, name: "Kestrel Bank, low splitter", sessionDate: "2026-06-02" });
+    reportPath = `/t/${team}/sessions/${session.id}`;
+    comparePath = `/t/${team}/compare?ids=${session.id},${other.id}`;
     mkdirSync(SHOTS, { recursive: true });
     browser = await openBrowser();
     browser.page.on("pageerror", (e) => pageErrors.push(e.message));
@@ -131,6 +137,8 @@ describe("accessibility and small screens", () => {
       [`/t/${team}/audit`, "audit", false],
       [`/t/${team}/briefs`, "briefs", true],
       [`/t/${team}/sessions`, "sessions", false],
+      [reportPath, "report", true],
+      [comparePath, "compare", true],
       ["/account", "account", false],
     ];
     const problems: string[] = [];

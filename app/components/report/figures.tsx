@@ -3,6 +3,7 @@ import type { BandSummary, SessionSummary } from "~/engine/summary-types";
 import { bandLabel, fmt, interval, signed } from "~/lib/report/format";
 import { flagWords, groupWarnings } from "~/lib/report/warnings";
 import { sideOfZero } from "~/lib/report/verdict";
+import { ScrollRegion } from "./accessible";
 
 /** One headline figure; `figure` + `value` feed the data-figure contract (the unrounded summary value). */
 function Headline({ label, figure, value, children, sub, tone }: { label: string; figure?: string; value?: number | null; children: ReactNode; sub?: ReactNode; tone?: "front" | "rear" }) {
@@ -81,7 +82,7 @@ function rough(b: BandSummary) {
 
 export function BandTable({ bands, id }: { bands: BandSummary[]; id?: string }) {
   return (
-    <div className="overflow-x-auto" id={id}>
+    <ScrollRegion label="Speed bands" id={id}>
       <table className="w-full border-collapse text-sm">
         <caption className="sr-only">Speed bands</caption>
         <thead className="border-b border-rule text-xs text-ink-soft">
@@ -129,7 +130,7 @@ export function BandTable({ bands, id }: { bands: BandSummary[]; id?: string }) 
         </tbody>
       </table>
       <p className="mt-1 text-xs text-ink-soft">Δ = change from static, worked out from the dampers. Greyed figures are missing or rest on little data (hover for why).</p>
-    </div>
+    </ScrollRegion>
   );
 }
 

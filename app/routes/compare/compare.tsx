@@ -17,6 +17,7 @@ import type { Change } from "~/engine/compare";
 import { EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { CompareChart, SESSION_COLOURS } from "~/components/report/compare-chart";
+import { CautionList, ScrollRegion } from "~/components/report/accessible";
 import type { Route } from "./+types/compare";
 
 const date = z.string().regex(/^\d{4}-\d{2}-\d{2}$/).optional().catch(undefined);
@@ -203,7 +204,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
       {result && (
         <div className={`space-y-4 ${busy ? "opacity-60" : ""}`} data-testid="comparison">
           <Panel title="Sessions">
-            <div className="overflow-x-auto">
+            <ScrollRegion label="Compared sessions">
               <table className="w-full text-sm">
                 <thead className="border-b border-rule text-xs text-ink-soft">
                   <tr>
@@ -234,7 +235,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollRegion>
           </Panel>
 
           {canSave && <SaveForm ids={result.sessions.map((x) => x.id)} />}
@@ -290,11 +291,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
             ) : (
               <p className="text-sm text-ink-soft">No high-speed balance problem stands out from the intervals of these sessions.</p>
             )}
-            <ul className="mt-3 list-disc space-y-0.5 rounded border border-caution/30 bg-caution-bg py-2 pl-7 pr-3 text-xs text-caution" role="note">
-              {[...CAUTIONS, ADVICE_CAUTIONS[2]].map((c) => (
-                <li key={c}>{c}</li>
-              ))}
-            </ul>
+            <CautionList cautions={[...CAUTIONS, ADVICE_CAUTIONS[2]]} />
           </Panel>
 
           <Panel title="Overlay">
@@ -305,7 +302,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
             title="Speed bands side by side"
             actions={<button type="button" onClick={csv} className="rounded border border-rule px-2.5 py-1 text-sm hover:bg-rule-soft">Download CSV</button>}
           >
-            <div className="overflow-x-auto">
+            <ScrollRegion label="Speed bands side by side">
               <table className="w-full text-sm" data-testid="pivot">
                 <thead className="border-b border-rule text-xs text-ink-soft">
                   <tr>
@@ -333,7 +330,7 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollRegion>
             <p className="mt-1 text-xs text-ink-soft">
               * Aero loads normalised to {STANDARD_DENSITY_KG_M3} kg/m³ (load × {STANDARD_DENSITY_KG_M3} / the session's air density){result.densities_differ ? "; the sessions' air densities differ" : ""}. ClA and balance need no normalising.
             </p>

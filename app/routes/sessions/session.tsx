@@ -14,6 +14,7 @@ import { EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { BandTable, HeadlineFigures, WarningsList } from "~/components/report/figures";
 import { SideView } from "~/components/report/side-view";
+import { CautionList } from "~/components/report/accessible";
 import { ProcessingState, SessionDetails } from "~/components/report/details";
 import type { SessionSummary } from "~/engine/summary-types";
 import type { SessionHead } from "~/server/report/session.server";
@@ -146,11 +147,7 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
               ) : (
                 <p className="text-sm text-ink-soft">No high-speed balance problem stands out from the intervals of this stint.</p>
               )}
-              <ul className="mt-3 list-disc space-y-0.5 rounded border border-caution/30 bg-caution-bg py-2 pl-7 pr-3 text-xs text-caution" role="note">
-                {(s.cautions.length ? [...s.cautions, ADVICE_CAUTIONS[2]] : ADVICE_CAUTIONS).map((c) => (
-                  <li key={c}>{c}</li>
-                ))}
-              </ul>
+              <CautionList cautions={s.cautions.length ? [...s.cautions, ADVICE_CAUTIONS[2]] : ADVICE_CAUTIONS} />
             </Panel>
           </div>
         </>
