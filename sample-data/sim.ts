@@ -22,6 +22,8 @@ export interface SimCar {
   massKg: number; wheelbaseM: number; frontWeightFraction: number; cogHeightM: number; trackWidthM: number;
   steeringRatio: number; steeringOffsetDeg: number; chassisLagS: number;
   claFrontM2: number; claRearM2: number; claFrontPerMmDrop: number; cdaM2: number;
+  /** Rear ClA change per mm the rear drops (share of claRearM2 per mm; default 0: rear out of ground effect). */
+  claRearPerMmDrop?: number;
   powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
   tyreRateNPerMm: number; loadSensitivity: number;
   fuelBurnKgPerS: number;
@@ -35,6 +37,10 @@ export interface SimOptions {
   laps: number; rateHz: number; seed: number; airDensityKgM3: number; bandEdgesKmh: number[]; kerbs?: boolean;
   /** Sensor noise (rms): lateral acceleration (m/s², default 0.3) and steering wheel (deg, default 0.15). */
   latNoiseMs2?: number; steerNoiseDeg?: number;
+  /** Damper potentiometer noise (rms, mm; default 0.04). */
+  damperNoiseMm?: number;
+  /** Road input at each wheel and body heave seen at the dampers (rms, mm; defaults 0.9 and 0.25). */
+  roadNoiseMm?: number; bodyNoiseMm?: number;
   /** Lap-to-lap pace: a spread (sd of a factor on corner speeds, default 0) and a drift over the stint (default 0). */
   paceSpread?: number; paceDrift?: number;
 }
@@ -115,8 +121,8 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
   const ayChassis = lag(ayPath, dt, car.chassisLagS);
   const yawChassis = lag(V.map((v, i) => v * K[i] * DEG), dt, car.chassisLagS);
   const axChassis = lag(AX, dt, 0.05);
-  const road = [0, 1, 2, 3].map((c) => resonantNoise(rng, n, o.rateHz, c < 2 ? 11 : 9, 0.9));
-  const body = resonantNoise(rng, n, o.rateHz, 2.5, 0.25);
+  const road = [0, 1, 2, 3].map((c) => resonantNoise(rng, n, o.rateHz, c < 2 ? 11 : 9, o.roadNoiseMm ?? 0.9));
+  const body = resonantNoise(rng, n, o.rateHz, 2.5, o.bodyNoiseMm ?? 0.25);
 
   const cols: SimColumns = {
     time: new Float64Array(n), speed: new Float64Array(n), lat_accel: new Float64Array(n), long_accel: new Float64Array(n), steer: new Float64Array(n),
@@ -129,6 +135,9 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
   const L = car.wheelbaseM, h = car.cogHeightM;
   const fz0f = car.massKg * G * car.frontWeightFraction, fz0r = car.massKg * G * (1 - car.frontWeightFraction);
   const kwF = car.front.springNPerMm * car.front.motionRatio ** 2;
+  const kwR = car.rear.springNPerMm * car.rear.motionRatio ** 2;
+  const rearSens = car.claRearPerMmDrop ?? 0;
+  const damperNoise = o.damperNoiseMm ?? 0.04;
   // Physical damper travel from static (load, road, body and kerbs; no sensor noise), and the running gate.
   const travel = [0, 1, 2, 3].map(() => new Float64Array(n));
   const runningRow = new Uint8Array(n);
@@ -140,15 +149,15 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const q = 0.5 * rho * V[i] * V[i];
     const lt = (-mass * axChassis[i] * h) / L;
     const fuelF = -fuel * G * frontShare, fuelR = -fuel * G * (1 - frontShare);
-    // Front ClA depends on front ride height, which depends on the front load: iterate.
-    let fa = car.claFrontM2 * q;
-    let dropF = 0;
+    // Each axle's ClA depends on its ride height, which depends on its load: iterate.
+    let fa = car.claFrontM2 * q, ra = car.claRearM2 * q;
     for (let it = 0; it < 4; it++) {
-      const dF = fa + lt + fuelF;
-      dropF = dF / 2 / kwF + dF / 2 / car.tyreRateNPerMm;
+      const dF = fa + lt + fuelF, dR = ra - lt + fuelR;
+      const dropF = dF / 2 / kwF + dF / 2 / car.tyreRateNPerMm;
+      const dropR = dR / 2 / kwR + dR / 2 / car.tyreRateNPerMm;
       fa = car.claFrontM2 * q * (1 + car.claFrontPerMmDrop * dropF);
+      ra = car.claRearM2 * q * (1 + rearSens * dropR);
     }
-    const ra = car.claRearM2 * q;
     aeroF[i] = fa;
     aeroR[i] = ra;
     const latTotal = (mass * ayChassis[i] * h) / car.trackWidthM;
@@ -173,10 +182,10 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     travel[1][i] = xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf);
     travel[2][i] = xrl + road[2][i] + body[i];
     travel[3][i] = xrr + road[3][i] + body[i];
-    cols.damper_fl[i] = st.fl + travel[0][i] + 0.04 * rng.gauss();
-    cols.damper_fr[i] = st.fr + travel[1][i] + 0.04 * rng.gauss();
-    cols.damper_rl[i] = st.rl + travel[2][i] + 0.04 * rng.gauss();
-    cols.damper_rr[i] = st.rr + travel[3][i] + 0.04 * rng.gauss();
+    cols.damper_fl[i] = st.fl + travel[0][i] + damperNoise * rng.gauss();
+    cols.damper_fr[i] = st.fr + travel[1][i] + damperNoise * rng.gauss();
+    cols.damper_rl[i] = st.rl + travel[2][i] + damperNoise * rng.gauss();
+    cols.damper_rr[i] = st.rr + travel[3][i] + damperNoise * rng.gauss();
     rhF[i] = -((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm;
     rhR[i] = -((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm;
     cols.ride_height_front[i] = car.front.staticRideHeightMm + rhF[i] + 0.4 * rng.gauss();
