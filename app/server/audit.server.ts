@@ -24,7 +24,8 @@ export type AuditEvent = {
   teamId: string;
   /** The signed-in user who acted; null for a Brief link holder or the system. */
   actorUserId: string | null;
-  action: string;
+  /** One of AUDIT_ACTIONS' keys: an action without words on the audit page does not compile. */
+  action: AuditAction;
   subjectType: string;
   subjectId: string;
   detail?: AuditDetail;
@@ -33,8 +34,12 @@ export type AuditEvent = {
 const ACTION = /^[a-z][a-z0-9_]{1,63}$/;
 const MAX_DETAIL_TEXT = 200;
 
-/** Words for the audit page; an action without an entry is shown as its code. */
-export const AUDIT_ACTIONS: Record<string, string> = {
+/**
+ * Words for the audit page, one entry per action the code records (recordAudit takes only these keys;
+ * tests/server/audit-words.test.ts also scans the source). An old row whose action has since gone is
+ * shown as its code.
+ */
+const ACTION_WORDS = {
   session_uploaded: "uploaded a session",
   session_deleted: "deleted a session",
   session_reanalysed: "re-analysed a session",
@@ -59,7 +64,18 @@ export const AUDIT_ACTIONS: Record<string, string> = {
   brief_revoked: "revoked a Brief link",
   brief_viewed: "Brief link viewed",
   brief_mailed: "sent a Brief link by e-mail",
-};
+  session_reanalysis_requested: "asked for a session to be re-analysed",
+  session_annotated: "added a note to a session",
+  comparison_saved: "saved a comparison",
+  venue_created: "added a venue",
+  venue_updated: "changed a venue",
+  venue_deleted: "removed a venue",
+  api_token_created: "created an API token",
+  api_token_revoked: "revoked an API token",
+} as const satisfies Record<string, string>;
+
+export type AuditAction = keyof typeof ACTION_WORDS;
+export const AUDIT_ACTIONS: Readonly<Record<string, string>> = ACTION_WORDS;
 
 function cleanDetail(detail: AuditDetail | undefined): AuditDetail | null {
   if (!detail) return null;
