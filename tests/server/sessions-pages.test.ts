@@ -20,7 +20,7 @@ beforeAll(async () => {
   w = await ingestWorld("pages");
 });
 
-type ListData = { rows: Array<{ date: string; run: string; claTotalM2: number | null; state: string }>; any: boolean; hasNext: boolean; problem: string | null };
+type ListData = { rows: Array<{ date: string; run: string; claTotalM2: number | null; balanceFrontPct: number | null; state: string }>; any: boolean; hasNext: boolean; problem: string | null };
 const listOf = async (query = "") => (await outcome(() => listPage.loader(args(getRequest(`/t/${w.slug}/sessions${query}`, w.jar), { teamSlug: w.slug })))).body as ListData;
 
 async function apiUpload(log: string, car: "marlin-sr2" | "vesper-gt4r", meta: Record<string, unknown>) {
@@ -57,7 +57,12 @@ describe("Sessions list page", () => {
     expect((await listOf("?page=2")).rows).toEqual([]);
     // The dashboard shows the newest sessions (it said "coming in the next release" before).
     const home = await outcome(() => dashboard.loader(args(getRequest(`/t/${w.slug}`, w.jar), { teamSlug: w.slug })));
-    expect((home.body as { recentSessions: Array<{ run: string }> }).recentSessions.map((r) => r.run)).toEqual(["Run C", "Run B", "Run A"]);
+    const recent = (home.body as { recentSessions: Array<{ run: string; claTotalM2: number | null; balanceFrontPct: number | null }> }).recentSessions;
+    expect(recent.map((r) => r.run)).toEqual(["Run C", "Run B", "Run A"]);
+    // Each row carries the session's headline ClA and balance, the same figures as the Sessions list.
+    const listed = (await listOf("")).rows;
+    expect(recent.every((r) => typeof r.claTotalM2 === "number" && typeof r.balanceFrontPct === "number")).toBe(true);
+    expect(recent.map((r) => [r.claTotalM2, r.balanceFrontPct])).toEqual(listed.map((r) => [r.claTotalM2, r.balanceFrontPct]));
   });
 
   it("a driver's role does not read the list (403); another team's member gets 404", async () => {

@@ -25,7 +25,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     carCount: cars.length,
     canBrief: can(ctx.role, { share: ["create"] }),
     sharedBriefs: briefs.map((b) => ({ id: b.id, sessionName: b.sessionName, teamName: b.teamName, note: b.note, expiresAt: b.expiresAt.toISOString() })),
-    recentSessions: sessions ? sessions.rows.slice(0, 5).map((r) => ({ id: r.id, date: r.date, run: r.run, car: r.car.name, venue: r.venue?.name ?? null, state: r.state })) : null,
+    recentSessions: sessions
+      ? sessions.rows.slice(0, 5).map((r) => ({
+          id: r.id, date: r.date, run: r.run, car: r.car.name, venue: r.venue?.name ?? null, state: r.state,
+          claTotalM2: r.claTotalM2, balanceFrontPct: r.balanceFrontPct,
+        }))
+      : null,
     canUpload: can(ctx.role, { session: ["upload"] }),
     recentCars: cars.slice(0, 5).map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
   };
@@ -100,7 +105,17 @@ export default function Dashboard({ loaderData }: Route.ComponentProps) {
           )}
         </Panel>
         {recentSessions && (
-          <Panel title="Sessions" actions={recentSessions.length > 0 ? <Link className="text-sm text-accent underline" to={`${base}/sessions`}>All sessions</Link> : undefined}>
+          <Panel
+            title="Sessions"
+            actions={
+              recentSessions.length > 0 ? (
+                <span className="flex gap-3 text-sm">
+                  {canUpload && <Link className="text-accent underline" to={`${base}/sessions/new`}>Drop a log</Link>}
+                  <Link className="text-accent underline" to={`${base}/sessions`}>All sessions</Link>
+                </span>
+              ) : undefined
+            }
+          >
             {recentSessions.length === 0 ? (
               <EmptyState title="Drop a log" action={canUpload && carCount > 0 ? { to: `${base}/sessions/new`, label: "Drop a log" } : undefined}>
                 After each stint, drop the logger's export: its Balance report appears here.
@@ -109,9 +124,18 @@ export default function Dashboard({ loaderData }: Route.ComponentProps) {
             ) : (
               <ul className="divide-y divide-rule-soft text-sm">
                 {recentSessions.map((s) => (
-                  <li key={s.id} className="flex items-baseline justify-between gap-2 py-1.5">
-                    <Link className="text-accent underline" to={`${base}/sessions/${s.id}`}>{s.date ?? "no date"} · {s.run ?? s.car}</Link>
-                    <span className="text-right text-ink-soft">{s.car}{s.venue ? ` · ${s.venue}` : ""} · {s.state}</span>
+                  <li key={s.id} className="py-1.5">
+                    <div className="flex items-baseline justify-between gap-2">
+                      <Link className="text-accent underline" to={`${base}/sessions/${s.id}`}>{s.date ?? "no date"} · {s.run ?? s.car}</Link>
+                      <span className="text-right text-ink-soft">{s.car}{s.venue ? ` · ${s.venue}` : ""}</span>
+                    </div>
+                    <div className="num flex justify-between gap-2 text-xs text-ink-soft">
+                      <span>
+                        {s.claTotalM2 === null ? "ClA —" : `ClA ${s.claTotalM2.toFixed(3)} m²`} ·{" "}
+                        {s.balanceFrontPct === null ? "balance —" : `${s.balanceFrontPct.toFixed(1)} % front`}
+                      </span>
+                      <span>{s.state}</span>
+                    </div>
                   </li>
                 ))}
               </ul>

@@ -27,7 +27,9 @@ export default function TeamLayout({ loaderData }: Route.ComponentProps) {
       current={loaderData.team}
       nav={[
         { to: base, label: "Dashboard", end: true },
-        ...(can(loaderData.team.role, { session: ["read"] }) ? [{ to: `${base}/sessions`, label: "Sessions" }] : []),
+        ...(can(loaderData.team.role, { session: ["read"] })
+          ? [{ to: `${base}/sessions`, label: "Sessions" }, { to: `${base}/compare`, label: "Compare" }]
+          : []),
         { to: `${base}/garage`, label: "Garage" },
         { to: `${base}/settings`, label: "Team" },
       ]}
