@@ -9,10 +9,11 @@
  *   getStream(storage, key)                                → a readable stream of the file
  *   deleteObject(storage, key)                             → removes it (missing is fine)
  *   withLocalFile(storage, key, fn)                        → fn(path) on a local copy (S3 is spooled to UPLOAD_DIR)
+ *   sweepLeftovers({ partialOlderThanMs, spoolOlderThanMs }) → removes what a killed process left half-written
  */
 import { createHash, randomUUID } from "node:crypto";
 import { createReadStream, createWriteStream } from "node:fs";
-import { mkdir, rename, rm } from "node:fs/promises";
+import { mkdir, readdir, rename, rm, stat } from "node:fs/promises";
 import path from "node:path";
 import { PassThrough, Readable, Transform, type TransformCallback } from "node:stream";
 import { pipeline } from "node:stream/promises";
@@ -220,6 +221,43 @@ export function createStorage(config: StorageConfig) {
     }
   }
 
+  /**
+   * A process killed while a file streamed in leaves its `.partial/*.part` (never visible as an object,
+   * but it fills the disk); one killed while analysing an S3 object leaves its `.spool/*.csv`. Both are
+   * removed here once they have not been written for the given time (a live upload writes its part
+   * file continually; a spool copy is written once, then read while its job holds the lease). Returns
+   * the names removed, per folder.
+   */
+  async function sweepLeftovers(ages: { partialOlderThanMs: number; spoolOlderThanMs: number }): Promise<{ partial: string[]; spool: string[] }> {
+    const base = config.kind === "s3" ? config.spoolDir : config.dir;
+    const sweep = async (folder: string, olderThanMs: number) => {
+      const dir = path.join(base, folder);
+      let names: string[];
+      try {
+        names = await readdir(dir);
+      } catch (error) {
+        if ((error as NodeJS.ErrnoException).code === "ENOENT") return [];
+        throw error;
+      }
+      const cutoff = Date.now() - olderThanMs;
+      const gone: string[] = [];
+      for (const name of names) {
+        const file = path.join(dir, name);
+        try {
+          const info = await stat(file);
+          if (!info.isFile() || info.mtimeMs > cutoff) continue;
+          await rm(file, { force: true });
+          gone.push(name);
+        } catch (error) {
+          // Renamed into place or removed by its own process meanwhile: nothing left to sweep.
+          if ((error as NodeJS.ErrnoException).code !== "ENOENT") throw error;
+        }
+      }
+      return gone;
+    };
+    return { partial: await sweep(".partial", ages.partialOlderThanMs), spool: await sweep(".spool", ages.spoolOlderThanMs) };
+  }
+
   /** For /readyz: the bucket answers (S3), or the folder can be made (fs). */
   async function ready(): Promise<void> {
     if (config.kind === "fs") {
@@ -229,7 +267,7 @@ export function createStorage(config: StorageConfig) {
     await s3Client(config).send(new HeadBucketCommand({ Bucket: config.bucket }));
   }
 
-  return { kind: config.kind, config, putStream, getStream, deleteObject, withLocalFile, ready };
+  return { kind: config.kind, config, putStream, getStream, deleteObject, withLocalFile, sweepLeftovers, ready };
 }
 
 export type Storage = ReturnType<typeof createStorage>;

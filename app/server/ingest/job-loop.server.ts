@@ -6,12 +6,30 @@
 import { hostname } from "node:os";
 import { randomUUID } from "node:crypto";
 import { claimJob, failJob, heartbeat, leaseSeconds, type ClaimedJob } from "../jobs.server";
+import { storage } from "../storage.server";
 import { sweepStaleUploads } from "./raw-uploads.server";
 import { runSessionCheck, type AnalyseFile } from "./recheck.server";
 
 export type JobLoop = { owner: string; done: Promise<void>; stop(graceMs?: number): Promise<void>; jobsRun(): number };
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+/**
+ * Half-written files of killed processes: a part file not written for a lease period (at least a
+ * minute: a live upload writes continually), a spool copy after six hours (written once, then read
+ * while its job's lease is renewed; no analysis runs that long).
+ */
+export async function sweepLeftoverFiles(log: (line: string) => void): Promise<number> {
+  try {
+    const gone = await storage().sweepLeftovers({ partialOlderThanMs: Math.max(60, leaseSeconds()) * 1000, spoolOlderThanMs: 6 * 3600_000 });
+    const n = gone.partial.length + gone.spool.length;
+    if (n) log(`removed ${gone.partial.length} half-written upload(s) and ${gone.spool.length} spool cop(ies) left by a stopped process`);
+    return n;
+  } catch (error) {
+    log(`sweeping half-written files failed: ${(error as Error).message}`);
+    return 0;
+  }
+}
 
 export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string; pollMs?: number; sweepEveryMs?: number; log?: (line: string) => void }): JobLoop {
   const owner = `${options.label ?? "worker"}@${hostname()}:${process.pid}:${randomUUID().slice(0, 8)}`;
@@ -48,6 +66,8 @@ export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string
   }
 
   const done = (async () => {
+    // At start-up: what a process killed on this store left half-written.
+    await sweepLeftoverFiles(log);
     while (!stopping) {
       let job: ClaimedJob | null = null;
       try {
@@ -61,6 +81,7 @@ export function startJobLoop(options: { analyseFile: AnalyseFile; label?: string
       }
       if (Date.now() - lastSweep >= sweepEveryMs) {
         lastSweep = Date.now();
+        await sweepLeftoverFiles(log);
         await sweepStaleUploads()
           .then((n) => n && log(`removed ${n} upload(s) that never became a session`))
           .catch((e: unknown) => log(`sweeping old uploads failed: ${(e as Error).message}`));
