@@ -216,7 +216,7 @@ function Proposal({ check, map, setEntry }: { check: SignCheck; map: DraftMap; s
     return (
       <li className="flex flex-wrap items-center gap-2">
         <span><strong>{name}</strong> looks inverted ({check.detail}) — flip it?</span>
-        {entry && <button type="button" className="rounded border border-rule bg-panel px-2 py-0.5 text-ink hover:bg-rule-soft" onClick={() => setEntry(check.channel, { column: entry.column, unit: entry.unit, ...(entry.invert ? {} : { invert: true }) })}>Flip {name.toLowerCase()}</button>}
+        {entry && <button type="button" className="rounded border border-rule bg-panel px-2 py-0.5 text-ink hover:bg-rule-soft" onClick={() => setEntry(check.channel, { column: entry.column, unit: entry.unit, ...(entry.invert ? {} : { invert: true }) })}>Flip {name.charAt(0).toLowerCase() + name.slice(1)}</button>}
       </li>
     );
   }
