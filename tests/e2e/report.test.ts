@@ -113,4 +113,62 @@ describe("Balance report in the browser", () => {
     const pages = pdf.toString("latin1").match(/\/Type\s*\/Page(?!s)/g) ?? [];
     expect(pages.length).toBe(1);
   });
+  it("the owner re-analyses, edits and deletes a note, makes a Brief link from the report, and deletes the session after confirming", async () => {
+    const page = browser.page;
+    const owner = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "demo@harrowgate.example", password: DEMO_PASSWORD } });
+    expect(owner.status()).toBe(200);
+    await page.setViewportSize({ width: 1280, height: 900 });
+    await page.goto(`/t/harrowgate/sessions/${splitterId}`, { waitUntil: "networkidle" });
+    // Re-analyse: posted without a reload; the page shows the job waiting (the demo session has no raw
+    // file, so the worker cannot finish it; the state stays queued or running).
+    await page.getByRole("button", { name: "Re-analyse" }).click();
+    await page.getByTestId("job-state").waitFor();
+    expect(await page.getByTestId("job-state").innerText()).toMatch(/Re-analysis (queued|running) since/);
+    expect(await page.getByRole("button", { name: "Queued" }).isDisabled()).toBe(true);
+    // A note: added, edited, deleted, all without a reload.
+    await page.fill('input[name="body"]', "Understeer in the long right-hander");
+    await page.getByRole("button", { name: "Add note" }).click();
+    const notes = page.getByTestId("notes");
+    await notes.getByText("Understeer in the long right-hander").waitFor();
+    await notes.getByRole("button", { name: "Edit" }).first().click();
+    await notes.locator('input[name="body"]').fill("Understeer in the long right-hander, worse on new tyres");
+    await notes.getByRole("button", { name: "Save note" }).click();
+    await notes.getByText("worse on new tyres").waitFor();
+    await page.screenshot({ path: `${SHOTS}/report-owner-1280.png`, fullPage: true });
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.screenshot({ path: `${SHOTS}/report-owner-390.png`, fullPage: true });
+    await page.setViewportSize({ width: 1280, height: 900 });
+    await notes.getByRole("button", { name: "Delete" }).first().click();
+    await notes.getByRole("button", { name: "Delete this note" }).click();
+    await page.getByText("worse on new tyres").waitFor({ state: "detached" });
+    // Brief link: the Brief links page opens with this session chosen.
+    await page.getByRole("link", { name: "Brief link…" }).click();
+    await page.waitForURL(/\/t\/harrowgate\/briefs\?session=/);
+    expect(await page.locator('select[name="sessionId"]').inputValue()).toBe(splitterId);
+    // Delete: two steps; the box must be ticked; then the Sessions list says so and the report is gone.
+    await page.goto(`/t/harrowgate/sessions/${splitterId}`, { waitUntil: "networkidle" });
+    await page.getByRole("button", { name: "Delete session…" }).click();
+    const confirm = page.locator('input[name="confirm"]');
+    expect(await confirm.evaluate((el) => (el as HTMLInputElement).required)).toBe(true);
+    await page.screenshot({ path: `${SHOTS}/report-delete-1280.png` });
+    await confirm.check();
+    await Promise.all([page.waitForURL(/\/t\/harrowgate\/sessions\?deleted=/), page.getByRole("button", { name: "Delete for good" }).click()]);
+    await page.getByText("The session was deleted with its raw file.").waitFor();
+    const gone = await page.goto(`/t/harrowgate/sessions/${splitterId}`);
+    expect(gone?.status()).toBe(404);
+    expect(pageErrors.join("\n")).toBe("");
+  });
+
+  it("an analyst sees no re-analyse, delete or Brief link button, and may edit only their own note", async () => {
+    const page = browser.page;
+    const analyst = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "analyst@harrowgate.example", password: DEMO_PASSWORD } });
+    expect(analyst.status()).toBe(200);
+    await page.goto(`/t/harrowgate/sessions/${sessionId}`, { waitUntil: "networkidle" });
+    for (const name of ["Re-analyse", "Delete session…"]) expect(await page.getByRole("button", { name, exact: true }).count(), name).toBe(0);
+    expect(await page.getByRole("link", { name: "Brief link…" }).count()).toBe(0);
+    // The analyst wrote the hairpin note in the first test: that one, and only that one, can be edited.
+    const editable = page.getByTestId("notes").locator("li", { has: page.getByRole("button", { name: "Edit", exact: true }) });
+    expect(await editable.count()).toBe(1);
+    expect(await editable.innerText()).toContain("Front locking into the hairpin");
+  });
 });

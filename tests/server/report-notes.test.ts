@@ -66,3 +66,56 @@ describe("saved comparisons", () => {
     expect((await save("driver", { name: "Driver", ids: `${a},${b}` })).status).toBe(403);
   });
 });
+
+describe("editing and deleting a note (its author, or the team's owner; audited)", () => {
+  const change = (who: keyof typeof w.jars, id: string, fields: Record<string, string>) =>
+    outcome(() => page.action(args(formRequest(`/t/${w.team.slug}/sessions/${id}`, fields, w.jars[who]), { teamSlug: w.team.slug, sessionId: id })));
+  const notesOf = async (id: string) => {
+    const report = await outcome(() => page.loader(args(getRequest(`/t/${w.team.slug}/sessions/${id}`, w.jars.owner), { teamSlug: w.team.slug, sessionId: id })));
+    return (report.body as { notes: { id: string; body: string; authorId: string | null }[] }).notes;
+  };
+  const events = (action: string) => db.select().from(auditLog).where(and(eq(auditLog.teamId, w.team.id), eq(auditLog.action, action), eq(auditLog.subjectId, b)));
+
+  it("the author edits their own note; another member may not (403); the text is checked like a new note", async () => {
+    expect((await annotate("analyst", b, { body: "rear steps out at the kink" })).status).toBe(200);
+    const note = (await notesOf(b)).find((n) => n.body === "rear steps out at the kink")!;
+    expect(note.authorId).toBe(w.userIds.analyst);
+    expect((await change("engineer", b, { intent: "edit-note", noteId: note.id, body: "not mine to change" })).status).toBe(403);
+    const empty = await change("analyst", b, { intent: "edit-note", noteId: note.id, body: "  " });
+    expect(empty.status).toBe(400);
+    expect((empty.body as { errors: Record<string, string> }).errors.body).toMatch(/Write the note/);
+    expect((await change("analyst", b, { intent: "edit-note", noteId: note.id, body: "  rear steps out at the fast kink " })).status).toBe(200);
+    expect((await notesOf(b)).find((n) => n.id === note.id)?.body).toBe("rear steps out at the fast kink");
+    expect(await events("annotation_edited")).toHaveLength(1);
+  });
+
+  it("the owner deletes an analyst's note; a driver (403), another team's member and a wrong session (404) change nothing", async () => {
+    const note = (await notesOf(b)).find((n) => n.body === "rear steps out at the fast kink")!;
+    expect((await change("driver", b, { intent: "delete-note", noteId: note.id })).status).toBe(403);
+    expect((await change("outsider", b, { intent: "delete-note", noteId: note.id })).status).toBe(404);
+    // The note exists, but on session b: naming session a does not reach it.
+    expect((await change("owner", a, { intent: "delete-note", noteId: note.id })).status).toBe(404);
+    expect((await notesOf(b)).some((n) => n.id === note.id)).toBe(true);
+    expect((await change("owner", b, { intent: "delete-note", noteId: note.id })).status).toBe(200);
+    expect((await notesOf(b)).some((n) => n.id === note.id)).toBe(false);
+    const [event] = await events("annotation_deleted");
+    expect(event.actorUserId).toBe(w.userIds.owner);
+    expect(event.detail).toMatchObject({ ownNote: "no" });
+  });
+});
+
+describe("the report's write actions per role (access.ts grants)", () => {
+  const mayOf = async (who: keyof typeof w.jars) => {
+    const out = await outcome(() => page.loader(args(getRequest(`/t/${w.team.slug}/sessions/${a}`, w.jars[who]), { teamSlug: w.team.slug, sessionId: a })));
+    return out.body as { may: { reanalyse: boolean; delete: boolean; brief: boolean }; setupChoices: { id: string }[]; history: { results: unknown[]; openJob: unknown } };
+  };
+  it("owner: re-analyse, delete and Brief link; engineer: re-analyse and Brief link; analyst: none", async () => {
+    const owner = await mayOf("owner");
+    expect(owner.may).toEqual({ reanalyse: true, delete: true, brief: true });
+    expect(owner.setupChoices.map((s) => s.id)).toContain(w.setupId);
+    expect((await mayOf("engineer")).may).toEqual({ reanalyse: true, delete: false, brief: true });
+    const analyst = await mayOf("analyst");
+    expect(analyst.may).toEqual({ reanalyse: false, delete: false, brief: false });
+    expect(analyst.setupChoices).toEqual([]);
+  });
+});

@@ -8,9 +8,18 @@ const STATE_WORDS: Record<string, string> = {
   flagged: "Flagged: the server's result differs, or warnings need a look.",
 };
 
+const show = (v: unknown) => (typeof v === "number" ? String(Number(v.toPrecision(6))) : v === null || v === undefined ? "—" : typeof v === "string" ? v : JSON.stringify(v));
+
 /** Render whatever the re-check stored as a short list of "figure: browser → server" lines. */
-function diffLines(diff: unknown): string[] {
+export function diffLines(diff: unknown): string[] {
   if (!diff) return [];
+  const listed = (diff as { differences?: unknown }).differences;
+  if (Array.isArray(listed)) {
+    // The re-check's SummaryDiff (app/lib/sessions/summary-diff.ts).
+    const lines = listed.slice(0, 12).map((d: { path?: string; browser?: unknown; server?: unknown }) => `${d.path}: browser ${show(d.browser)} → server ${show(d.server)}`);
+    if ((diff as { truncated?: boolean }).truncated || listed.length > 12) lines.push("… and more");
+    return lines;
+  }
   if (Array.isArray(diff)) return diff.slice(0, 12).map((d) => (typeof d === "string" ? d : JSON.stringify(d)));
   if (typeof diff === "object") return Object.entries(diff as Record<string, unknown>).slice(0, 12).map(([k, v]) => `${k}: ${typeof v === "string" ? v : JSON.stringify(v)}`);
   return [String(diff)];

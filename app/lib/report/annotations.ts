@@ -16,6 +16,12 @@ export const annotationSchema = z.object({
     .default(""),
 });
 
+/** Editing or deleting a note (the report page's intents edit-note and delete-note). */
+export const noteChangeSchema = z.discriminatedUnion("intent", [
+  z.object({ intent: z.literal("edit-note"), noteId: z.string().min(1).max(36), body: text(500, "the note") }),
+  z.object({ intent: z.literal("delete-note"), noteId: z.string().min(1).max(36), body: z.string().optional() }),
+]);
+
 export const saveComparisonSchema = z.object({
   name: text(80, "a name"),
   ids: z

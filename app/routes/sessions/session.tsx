@@ -1,8 +1,9 @@
 import { Link, data } from "react-router";
 import { can, requireMember } from "~/server/permissions.server";
 import { readFormFields } from "~/server/body.server";
-import { addAnnotation, listAnnotations } from "~/server/report/annotations.server";
-import { annotationSchema } from "~/lib/report/annotations";
+import { addAnnotation, changeAnnotation, listAnnotations } from "~/server/report/annotations.server";
+import { carSetupVersions, sessionHistory } from "~/server/report/history.server";
+import { annotationSchema, noteChangeSchema } from "~/lib/report/annotations";
 import { NoteForm, NotesList } from "~/components/report/notes";
 import { ids } from "~/server/garage-routes.server";
 import { getSessionReport } from "~/server/report/session.server";
@@ -15,6 +16,7 @@ import { ErrorView } from "~/components/ui/error-view";
 import { BandTable, HeadlineFigures, WarningsList } from "~/components/report/figures";
 import { SideView } from "~/components/report/side-view";
 import { CautionList } from "~/components/report/accessible";
+import { DeleteSession, JobState, ReanalyseForm, ResultHistory } from "~/components/report/actions";
 import { ProcessingState, SessionDetails } from "~/components/report/details";
 import type { SessionSummary } from "~/engine/summary-types";
 import type { SessionHead } from "~/server/report/session.server";
@@ -26,12 +28,22 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { session: ["read"] });
   const { sessionId } = ids(params, "sessionId");
   const { head, summary } = await getSessionReport(ctx.team.id, sessionId);
+  const canReanalyse = can(ctx.role, { session: ["upload"] });
+  const [notes, history, setupChoices] = await Promise.all([
+    listAnnotations(ctx.team.id, [head.id]),
+    sessionHistory(ctx.team.id, head.id),
+    canReanalyse ? carSetupVersions(ctx.team.id, head.car.id) : Promise.resolve([]),
+  ]);
   // Traces are fetched by the charts from the data API; the page carries the summary only.
   const lean = summary ? { ...summary, traces: undefined } : null;
   return {
     team: ctx.team,
-    notes: await listAnnotations(ctx.team.id, [head.id]),
+    notes,
     canAnnotate: can(ctx.role, { session: ["annotate"] }),
+    may: { reanalyse: canReanalyse, delete: can(ctx.role, { session: ["delete"] }), brief: can(ctx.role, { share: ["create"] }) },
+    editor: { userId: ctx.user.id, isOwner: ctx.role === "owner" },
+    history,
+    setupChoices,
     head,
     summary: lean as SessionSummary | null,
     verdict: summary ? verdictSentence(summary) : null,
@@ -39,18 +51,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
+function firstErrors(issues: { path: PropertyKey[]; message: string }[]) {
+  const errors: Record<string, string> = {};
+  for (const issue of issues) errors[String(issue.path[0] ?? "body")] ??= issue.message;
+  return errors;
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const ctx = await requireMember(request, params.teamSlug, { session: ["annotate"] });
   const { sessionId } = ids(params, "sessionId");
   const fields = await readFormFields(request);
-  if (fields.intent !== "annotate") throw data("Unknown action: annotate.", { status: 400 });
+  if (fields.intent === "edit-note" || fields.intent === "delete-note") {
+    await getSessionReport(ctx.team.id, sessionId);
+    const parsed = noteChangeSchema.safeParse(fields);
+    if (!parsed.success) return data({ errors: firstErrors(parsed.error.issues) }, { status: 400 });
+    const change = parsed.data.intent === "delete-note" ? ("delete" as const) : { body: parsed.data.body };
+    const done = await changeAnnotation(ctx.team.id, { userId: ctx.user.id, isOwner: ctx.role === "owner" }, sessionId, parsed.data.noteId, change);
+    if (done === "not_found") throw data("No such note on this session.", { status: 404 });
+    if (done === "not_yours") throw data("Only the note's author or the team's owner may change it.", { status: 403 });
+    return { ok: true };
+  }
+  if (fields.intent !== "annotate") throw data("Unknown action: annotate, edit-note or delete-note.", { status: 400 });
   const { summary } = await getSessionReport(ctx.team.id, sessionId);
   const parsed = annotationSchema.safeParse(fields);
-  if (!parsed.success) {
-    const errors: Record<string, string> = {};
-    for (const issue of parsed.error.issues) errors[String(issue.path[0] ?? "body")] ??= issue.message;
-    return data({ errors }, { status: 400 });
-  }
+  if (!parsed.success) return data({ errors: firstErrors(parsed.error.issues) }, { status: 400 });
   let band: [number, number] | null = null;
   if (parsed.data.band) {
     const [min, max] = parsed.data.band.split("-").map(Number);
@@ -77,8 +101,9 @@ function fuelWords(s: SessionSummary): string {
 }
 
 export default function BalanceReport({ loaderData }: Route.ComponentProps) {
-  const { head, summary: s, verdict, advice, team, notes, canAnnotate } = loaderData;
+  const { head, summary: s, verdict, advice, team, notes, canAnnotate, may, editor, history, setupChoices } = loaderData;
   const base = teamPath(team.slug);
+  const apiBase = `/api/t/${encodeURIComponent(team.slug)}/sessions/${encodeURIComponent(head.id)}`;
   return (
     <div className="report space-y-4">
       <header className="flex flex-wrap items-start justify-between gap-3">
@@ -101,6 +126,11 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
           <Link className="rounded border border-rule px-2.5 py-1 text-sm hover:bg-rule-soft" to={`${base}/compare?ids=${head.id}`}>
             Compare…
           </Link>
+          {may.brief && (
+            <Link className="rounded border border-rule px-2.5 py-1 text-sm hover:bg-rule-soft" to={`${base}/briefs?session=${encodeURIComponent(head.id)}`}>
+              Brief link…
+            </Link>
+          )}
         </div>
       </header>
 
@@ -154,7 +184,7 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
       )}
       <div className="report-noprint">
         <Panel title="Notes">
-          <NotesList notes={notes} />
+          <NotesList notes={notes} editor={canAnnotate ? editor : undefined} />
           {canAnnotate && <NoteForm bands={s?.bands ?? []} />}
         </Panel>
       </div>
@@ -163,9 +193,17 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
           <SessionDetails head={head} />
         </Panel>
         <Panel title="Processing">
+          <JobState job={history.openJob} />
           <ProcessingState head={head} />
+          {may.reanalyse && <ReanalyseForm action={`${apiBase}/reanalyse`} setups={setupChoices} currentSetupId={head.setup.id} busy={history.openJob !== null} />}
+          <ResultHistory results={history.results} />
         </Panel>
       </div>
+      {may.delete && (
+        <div className="print:hidden">
+          <DeleteSession action={`${apiBase}/delete`} name={head.name} />
+        </div>
+      )}
       {s && s.notes.length > 0 && (
         <div className="report-noprint"><Panel title="How to read these figures">
           <ul className="list-disc pl-5 text-sm text-ink-soft">

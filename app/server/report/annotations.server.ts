@@ -17,6 +17,7 @@ export async function listAnnotations(teamId: string, sessionIds: string[]) {
       bandMaxKmh: sessionAnnotations.bandMaxKmh,
       body: sessionAnnotations.body,
       author: user.name,
+      authorId: sessionAnnotations.createdBy,
       createdAt: sessionAnnotations.createdAt,
     })
     .from(sessionAnnotations)
@@ -36,6 +37,42 @@ export async function addAnnotation(teamId: string, userId: string, sessionId: s
     await recordAudit(tx, { teamId, actorUserId: userId, action: "session_annotated", subjectType: "session", subjectId: sessionId, detail: { band: band ? `${band[0]}–${band[1]} km/h` : "whole session" } });
   });
   return id;
+}
+
+export type NoteChange = "done" | "not_found" | "not_yours";
+
+/**
+ * Edits or deletes a note: its author may, and so may the team's owner (who keeps the team's records
+ * tidy). Another team's note, or one on another session, is "not found". Audited in the same transaction.
+ */
+export async function changeAnnotation(
+  teamId: string,
+  actor: { userId: string; isOwner: boolean },
+  sessionId: string,
+  noteId: string,
+  change: { body: string } | "delete",
+): Promise<NoteChange> {
+  return db.transaction(async (tx) => {
+    const [note] = await tx
+      .select({ id: sessionAnnotations.id, createdBy: sessionAnnotations.createdBy, bandMinKmh: sessionAnnotations.bandMinKmh, bandMaxKmh: sessionAnnotations.bandMaxKmh })
+      .from(sessionAnnotations)
+      .where(and(eq(sessionAnnotations.teamId, teamId), eq(sessionAnnotations.sessionId, sessionId), eq(sessionAnnotations.id, noteId)))
+      .for("update");
+    if (!note) return "not_found";
+    if (note.createdBy !== actor.userId && !actor.isOwner) return "not_yours";
+    const where = note.bandMinKmh === null ? "whole session" : `${note.bandMinKmh}–${note.bandMaxKmh} km/h`;
+    if (change === "delete") await tx.delete(sessionAnnotations).where(eq(sessionAnnotations.id, note.id));
+    else await tx.update(sessionAnnotations).set({ body: change.body }).where(eq(sessionAnnotations.id, note.id));
+    await recordAudit(tx, {
+      teamId,
+      actorUserId: actor.userId,
+      action: change === "delete" ? "annotation_deleted" : "annotation_edited",
+      subjectType: "session",
+      subjectId: sessionId,
+      detail: { band: where, ownNote: note.createdBy === actor.userId ? "yes" : "no" },
+    });
+    return "done";
+  });
 }
 
 export async function listSavedComparisons(teamId: string) {
