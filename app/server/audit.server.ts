@@ -66,6 +66,8 @@ const ACTION_WORDS = {
   brief_mailed: "sent a Brief link by e-mail",
   session_reanalysis_requested: "asked for a session to be re-analysed",
   session_annotated: "added a note to a session",
+  annotation_edited: "edited a note on a session",
+  annotation_deleted: "deleted a note on a session",
   comparison_saved: "saved a comparison",
   venue_created: "added a venue",
   venue_updated: "changed a venue",

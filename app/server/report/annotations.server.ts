@@ -61,16 +61,14 @@ export async function changeAnnotation(
     if (!note) return "not_found";
     if (note.createdBy !== actor.userId && !actor.isOwner) return "not_yours";
     const where = note.bandMinKmh === null ? "whole session" : `${note.bandMinKmh}–${note.bandMaxKmh} km/h`;
-    if (change === "delete") await tx.delete(sessionAnnotations).where(eq(sessionAnnotations.id, note.id));
-    else await tx.update(sessionAnnotations).set({ body: change.body }).where(eq(sessionAnnotations.id, note.id));
-    await recordAudit(tx, {
-      teamId,
-      actorUserId: actor.userId,
-      action: change === "delete" ? "annotation_deleted" : "annotation_edited",
-      subjectType: "session",
-      subjectId: sessionId,
-      detail: { band: where, ownNote: note.createdBy === actor.userId ? "yes" : "no" },
-    });
+    const detail = { band: where, ownNote: note.createdBy === actor.userId ? "yes" : "no" };
+    if (change === "delete") {
+      await tx.delete(sessionAnnotations).where(eq(sessionAnnotations.id, note.id));
+      await recordAudit(tx, { teamId, actorUserId: actor.userId, action: "annotation_deleted", subjectType: "session", subjectId: sessionId, detail });
+    } else {
+      await tx.update(sessionAnnotations).set({ body: change.body }).where(eq(sessionAnnotations.id, note.id));
+      await recordAudit(tx, { teamId, actorUserId: actor.userId, action: "annotation_edited", subjectType: "session", subjectId: sessionId, detail });
+    }
     return "done";
   });
 }
