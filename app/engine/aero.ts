@@ -33,11 +33,16 @@ export interface BandAeroSums {
   n: Float64Array; st: Float64Array; sq: Float64Array; sf: Float64Array; sr: Float64Array;
   dampFront: Float64Array; dampRear: Float64Array;
   rhFront: Float64Array; rhFrontN: Float64Array; rhRear: Float64Array; rhRearN: Float64Array;
+  /** Στ·q, Σq², Σq·ax, Σq³: the band's mean regressors of the aero models (summary-bands.ts, pooled band loads). */
+  stq: Float64Array; sqq: Float64Array; sqax: Float64Array; sqqq: Float64Array;
 }
 
+const BAND_KEYS: (keyof BandAeroSums)[] = ["n", "st", "sq", "sf", "sr", "dampFront", "dampRear", "rhFront", "rhFrontN", "rhRear", "rhRearN", "stq", "sqq", "sqax", "sqqq"];
+
 export function createBandAeroSums(bands: number): BandAeroSums {
-  const z = () => new Float64Array(bands);
-  return { n: z(), st: z(), sq: z(), sf: z(), sr: z(), dampFront: z(), dampRear: z(), rhFront: z(), rhFrontN: z(), rhRear: z(), rhRearN: z() };
+  const out = {} as BandAeroSums;
+  for (const k of BAND_KEYS) out[k] = new Float64Array(bands);
+  return out;
 }
 
 /** Front ride-height bins (change from static, mm) for the balance-against-ride-height map. */
@@ -45,7 +50,7 @@ export const RH_MAP_LO_MM = -40;
 export const RH_MAP_BIN_MM = 2;
 export const RH_MAP_BINS = 25;
 
-export const BAND_STRIDE = 11;
+export const BAND_STRIDE = 15;
 /** Per band, the current block's aero samples: n, Στ, ΣF_front, ΣF_rear, Σq (the row loop writes them). */
 export const BAND_CUR_STRIDE = 5;
 /** Length of the current block's sums (AeroAccumulator.cur). */
@@ -56,7 +61,7 @@ export const CUR_SUMS = 16;
  * They give the band loads' sampling spread from block means (autocorrelated samples).
  */
 export const BAND_BLOCK_STRIDE = 10;
-const BS = BAND_STRIDE; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r
+const BS = BAND_STRIDE; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r, Στq, Σq², Σq·ax, Σq³
 
 /**
  * Per-row work is kept to plain sums of the current time block; the time terms of the fit use the
@@ -89,7 +94,7 @@ export class AeroAccumulator {
     this.moments = new BlockMoments(bandCount);
   }
 
-  add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number): void {
+  add(t: number, q: number, f: number, r: number, band: number, dampFront: number, dampRear: number, rhFront: number, rhRear: number, ax = 0): void {
     const c = this.cur;
     c[0]++; c[1] += t; c[2] += t * t; c[3] += q; c[4] += q * q; c[5] += f; c[6] += q * f; c[7] += f * f; c[8] += r; c[9] += q * r; c[10] += r * r;
     if (band < 0) return;
@@ -99,6 +104,7 @@ export class AeroAccumulator {
     b[o]++; b[o + 1] += t; b[o + 2] += q; b[o + 3] += f; b[o + 4] += r; b[o + 5] += dampFront; b[o + 6] += dampRear;
     if (rhFront === rhFront) { b[o + 7] += rhFront; b[o + 8]++; }
     if (rhRear === rhRear) { b[o + 9] += rhRear; b[o + 10]++; }
+    b[o + 11] += t * q; b[o + 12] += q * q; b[o + 13] += q * ax; b[o + 14] += q * q * q;
   }
 
   addRideHeight(rhChangeFrontMm: number, t: number, q: number, f: number, r: number): void {
@@ -153,8 +159,7 @@ export class AeroAccumulator {
   /** Band sums as named arrays (for the end of the session). */
   get bands(): BandAeroSums {
     const out = createBandAeroSums(this.bandCount);
-    const keys: (keyof BandAeroSums)[] = ["n", "st", "sq", "sf", "sr", "dampFront", "dampRear", "rhFront", "rhFrontN", "rhRear", "rhRearN"];
-    for (let b = 0; b < this.bandCount; b++) keys.forEach((k, i) => (out[k][b] = this.band[b * BS + i]));
+    for (let b = 0; b < this.bandCount; b++) BAND_KEYS.forEach((k, i) => (out[k][b] = this.band[b * BS + i]));
     return out;
   }
 }

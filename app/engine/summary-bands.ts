@@ -1,10 +1,12 @@
 /**
  * Stage 4 of the summary: speed bands. Per band, the mean measured axle load less the chosen aero
- * model's static load and drift, its ClA, balance and CoP with intervals from the band's block means,
+ * model's static load and drift, pooled with the model's prediction (band-pool.ts), its ClA, balance
+ * and CoP with intervals from the band's block means and the model,
  * and the ride-height change from the dampers; then the balance shift between bands and the aero map
  * against front ride height.
  */
 import { bandAeroLoadN, offsetVariance, RH_MAP_BIN_MM, RH_MAP_BINS, RH_MAP_LO_MM } from "./aero";
+import { poolBands } from "./band-pool";
 import type { AeroFit } from "./aero";
 import { BALANCE_SHIFT_MIN_AERO_S, BALANCE_SHIFT_RULE, BAND_BALANCE_MIN_LOAD_SHARE } from "./bands";
 import { balanceFrontPct, cogFromFrontAxleMm, copFromFrontAxleMm, rideHeightChangeMm, wheelForceChangeN } from "./physics";
@@ -38,11 +40,27 @@ export function bandStage(s: SummaryState, aero: AeroStage, warn: Warn): BandSta
   const cogMm = cogFromFrontAxleMm(s.car.wheelbase_mm, s.car.static_front_weight_pct);
   const bands: BandAero[] = [];
   const balances: BandBalance[] = [];
+  // The band means as measured (less static load and drift) and their block spread, then pooled
+  // with the chosen model (band-pool.ts) when it is one ClA or ClA linear in ride height.
+  const raw = Array.from({ length: s.bandCount }, (_, b) => {
+    const n = a.n[b];
+    if (!fit || !(n > 0)) return null;
+    const spread = s.aero.bandBlockSpread(b, fit.front.drift_n_per_s, fit.rear.drift_n_per_s);
+    return {
+      spread,
+      front: { load: bandAeroLoadN(n, a.st[b], a.sf[b], fit.front), variance: spread.varF / spread.blocks, blocks: spread.blocks },
+      rear: { load: bandAeroLoadN(n, a.st[b], a.sr[b], fit.rear), variance: spread.varR / spread.blocks, blocks: spread.blocks },
+    };
+  });
+  const model = aero.variation && aero.variation.chosen !== "speed_band" ? aero.variation.models[aero.variation.chosen] : undefined;
+  const pooledF = poolBands(model, "front", a, raw.map((x) => x && x.front));
+  const pooledR = poolBands(model, "rear", a, raw.map((x) => x && x.rear));
   for (let b = 0; b < s.bandCount; b++) {
     const label = `${edges[b]}–${edges[b + 1]} km/h`;
     const n = a.n[b];
-    const loadF = fit && n > 0 ? bandAeroLoadN(n, a.st[b], a.sf[b], fit.front) : NaN;
-    const loadR = fit && n > 0 ? bandAeroLoadN(n, a.st[b], a.sr[b], fit.rear) : NaN;
+    const pf = pooledF[b], pr = pooledR[b], spread = raw[b]?.spread ?? null;
+    const loadF = pf ? pf.load : NaN;
+    const loadR = pr ? pr.load : NaN;
     const qMean = n > 0 ? a.sq[b] / n : NaN;
     let bal = NaN;
     if (fit && n === 0 && s.bandRows[b] > 0) warn("band_no_aero_samples", `${label}: none of the ${s.bandRows[b]} samples passed the aero gates (|ax| ≤ ${s.opts.gates.aero_max_long_g} g, steady dampers, above ${s.opts.gates.aero_min_speed_kmh} km/h)`);
@@ -51,19 +69,19 @@ export function bandStage(s: SummaryState, aero: AeroStage, warn: Warn): BandSta
       else if (s.bandRows[b] > 0) warn("band_balance_low_load", `${label}: aero load (${(loadF + loadR).toFixed(0)} N) is under ${BAND_BALANCE_MIN_LOAD_SHARE * 100} % of the car's weight, too small to split between the axles`);
     }
     const bandCop = Number.isFinite(bal) ? copFromFrontAxleMm(s.car.wheelbase_mm, bal) : NaN;
-    // Intervals from the band's block means: their sampling spread, plus the fitted static load's
-    // uncertainty at the band's mean time (delta method on F/(F + R) for the balance).
-    const spread = fit ? s.aero.bandBlockSpread(b, fit.front.drift_n_per_s, fit.rear.drift_n_per_s) : null;
+    // Intervals: the pooled loads' variance (the band's block means and the model's prediction),
+    // plus the fitted static load's uncertainty at the band's mean time (delta method on F/(F + R)
+    // for the balance).
     let balCi: [number, number] | null = null, claFCi: [number, number] | null = null, claRCi: [number, number] | null = null;
-    if (spread && fit && n > 0 && spread.blocks >= MIN_BAND_BLOCKS) {
+    if (spread && fit && pf && pr && n > 0 && spread.blocks >= MIN_BAND_BLOCKS) {
       const tau = a.st[b] / n;
-      const vF = spread.varF / spread.blocks + offsetVariance(fit.front, tau), vR = spread.varR / spread.blocks + offsetVariance(fit.rear, tau);
+      const vF = pf.variance + offsetVariance(fit.front, tau), vR = pr.variance + offsetVariance(fit.rear, tau);
       claFCi = interval95(loadF / qMean, Math.sqrt(vF) / qMean, spread.blocks - 1);
       claRCi = interval95(loadR / qMean, Math.sqrt(vR) / qMean, spread.blocks - 1);
       if (Number.isFinite(bal)) {
         const total = loadF + loadR;
         const gF = (100 * loadR) / (total * total), gR = (-100 * loadF) / (total * total);
-        const v = gF * gF * vF + gR * gR * vR + (2 * gF * gR * spread.cov) / spread.blocks;
+        const v = gF * gF * vF + gR * gR * vR + (2 * gF * gR * spread.cov * pf.lambda * pr.lambda) / spread.blocks;
         balCi = interval95(bal, Math.sqrt(Math.max(0, v)), spread.blocks - 1);
       }
     }

@@ -144,6 +144,7 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
             const rhf = mRHF[j], rhr = mRHR[j];
             if (rhf === rhf) { bs[o + 7] += rhf; bs[o + 8]++; }
             if (rhr === rhr) { bs[o + 9] += rhr; bs[o + 10]++; }
+            bs[o + 11] += tau * q; bs[o + 12] += q * q; bs[o + 13] += q * ax; bs[o + 14] += q * q * q;
           }
           if (staticKnown) {
             const hF = (xfl + xfr - sfl - sfr) * rhPerDamp;
