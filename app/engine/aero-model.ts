@@ -7,7 +7,10 @@
  * given fuel burn, else fitted on long stints) shared by every model, and three aero terms:
  * - constant:    ClA·q;
  * - speed_band:  ClA_band·q, one ClA per speed band (bands with few blocks join their neighbour);
- * - ride_height: (c0 + c1·h)·q, ClA linear in the front ride-height change h (mm from static).
+ * - ride_height: (c0 + c1·h)·q, ClA linear in the front ride-height change h (mm from static);
+ * - ride_height_front_rear: (c0 + c1·h + c2·h_r)·q, ClA linear in both axles' ride-height changes
+ *   (a diffuser or rear floor in ground effect too; pitch under braking and acceleration moves the
+ *   two apart, which is what tells c1 from c2).
  *
  * The ride-height regressor is the first-stage prediction of h from q, ax and τ (two-stage least
  * squares; Wooldridge, Introductory Econometrics, ch. 15, from memory): the ride height read off the same dampers
@@ -29,11 +32,12 @@ import type { MultiFit } from "./regression";
 
 /** Columns of the block-moment matrix (per block: the mean of each quantity over the block's aero samples). */
 export const M_ONE = 0, M_TAU = 1, M_Q = 2, M_TQ = 3, M_QQ = 4, M_QAX = 5, M_QQQ = 6, M_F = 7, M_R = 8, M_BAND = 9;
-/** First-stage moments: [1, τ, q, ax, q², h] per block with a ride height on every sample. */
-const FS = 6;
-const FS_H = FS - 1;
+/** First-stage moments: [1, τ, q, ax, q², h_front, h_rear] per block with ride heights on every sample. */
+const FS = 7;
+const FS_X = 5;
+const FS_H = 5, FS_HR = 6;
 
-export type AeroVariation = "constant" | "speed_band" | "ride_height";
+export type AeroVariation = "constant" | "speed_band" | "ride_height" | "ride_height_front_rear";
 
 export class BlockMoments {
   readonly dim: number;
@@ -41,7 +45,7 @@ export class BlockMoments {
   readonly weighted: Float64Array;
   /** Σ z·zᵀ over blocks with enough samples, intervals and model choice. */
   readonly blocks: Float64Array;
-  /** First stage Σ z·zᵀ with z = [1, τ, q, ax, q², h] (blocks with enough samples, all with a ride height). */
+  /** First stage Σ z·zᵀ with z = [1, τ, q, ax, q², h_front, h_rear] (blocks with enough samples, all with ride heights). */
   readonly firstStage = new Float64Array(FS * FS);
   /** Range of block-mean front ride-height change (mm) over those blocks. */
   hMin = Infinity;
@@ -56,10 +60,10 @@ export class BlockMoments {
   }
 
   /**
-   * One block's sums: n, Στ, Σq, Σq², Σq·ax, Σq³, Σax, ΣF, ΣR, Σh and the samples with h, and Σq per band.
-   * `enough`: the block holds enough samples to count on its own.
+   * One block's sums: n, Στ, Σq, Σq², Σq·ax, Σq³, Σax, ΣF, ΣR, Σh (front), the samples with h, Σh (rear)
+   * and Σq per band. `enough`: the block holds enough samples to count on its own.
    */
-  addBlock(n: number, st: number, sq: number, sqq: number, sqax: number, sqqq: number, sax: number, sf: number, sr: number, sh: number, nh: number, bandQ: Float64Array, bandStride: number, bandQOffset: number, enough: boolean): void {
+  addBlock(n: number, st: number, sq: number, sqq: number, sqax: number, sqqq: number, sax: number, sf: number, sr: number, sh: number, nh: number, shr: number, bandQ: Float64Array, bandStride: number, bandQOffset: number, enough: boolean): void {
     if (!(n > 0)) return;
     const z = this.z, d = this.dim, inv = 1 / n;
     const tau = st * inv, q = sq * inv;
@@ -77,7 +81,7 @@ export class BlockMoments {
     }
     if (enough && nh === n) {
       const h = sh * inv;
-      const f = [1, tau, q, sax * inv, sqq * inv, h];
+      const f = [1, tau, q, sax * inv, sqq * inv, h, shr * inv];
       const m = this.firstStage;
       for (let i = 0; i < FS; i++) for (let j = 0; j < FS; j++) m[i * FS + j] += f[i] * f[j];
       if (h < this.hMin) this.hMin = h;
@@ -155,8 +159,10 @@ export interface ModelFit {
   bic: number | null;
   /** speed_band: which bands share each ClA (indices into the bands). */
   groups?: number[][];
-  /** ride_height: h = π·[1, τ, q, ax] (first stage) and the aero-weighted mean h (mm). */
+  /** ride_height: the front ride height's first stage, ĥ = π·[1, τ, q, ax, q²] (mm of damper-side travel). */
   firstStage?: number[];
+  /** ride_height_front_rear: the rear ride height's first stage, as firstStage. */
+  firstStageRear?: number[];
 }
 
 export interface ModelSpec {
@@ -186,20 +192,28 @@ export function bandGroups(bandBlocks: number[], minBlocks: number): number[][] 
 
 /**
  * First stage: h̄ = π·[1, τ, q, ax, q²] over blocks (q² because the aero that lowers the nose grows
- * as the nose drops); null without enough blocks or spread.
+ * as the nose drops), for the front (`col` FS_H) or rear (FS_HR) ride height; null without enough
+ * blocks or spread.
  */
-function firstStage(m: BlockMoments): number[] | null {
+function firstStage(m: BlockMoments, col: number): number[] | null {
   const fs = m.firstStage;
   const n = fs[0];
   if (n < 20) return null;
-  const k = FS_H;
+  const k = FS_X;
   const xtx = new Float64Array(k * k), xty = new Float64Array(k);
   for (let i = 0; i < k; i++) {
-    xty[i] = fs[i * FS + FS_H];
+    xty[i] = fs[i * FS + col];
     for (let j = 0; j < k; j++) xtx[i * k + j] = fs[i * FS + j];
   }
-  const fit = solveNormalEquations(xtx, xty, fs[FS_H * FS + FS_H], n, k);
+  const fit = solveNormalEquations(xtx, xty, fs[col * FS + col], n, k);
   return fit ? Array.from(fit.beta) : null;
+}
+
+/** The regressor q·ĥ as moment columns: π0·q + πτ·τq + πq·q² + πax·q·ax + πqq·q³. */
+function qTimesPrediction(dim: number, p: number[]): Column {
+  const u = new Float64Array(dim);
+  u[M_Q] = p[0]; u[M_TQ] = p[1]; u[M_QQ] = p[2]; u[M_QAX] = p[3]; u[M_QQQ] = p[4];
+  return u;
 }
 
 /**
@@ -214,7 +228,7 @@ export function fitModel(m: BlockMoments, variation: AeroVariation, spec: ModelS
   if (fitDrift) base.push(unit(d, M_TAU));
   const aero: Column[] = [];
   let groups: number[][] | undefined;
-  let pi: number[] | undefined;
+  let pi: number[] | undefined, piRear: number[] | undefined;
   if (variation === "constant") aero.push(unit(d, M_Q));
   else if (variation === "speed_band") {
     groups = bandGroups(spec.bandBlocks, spec.minBandBlocks);
@@ -225,13 +239,16 @@ export function fitModel(m: BlockMoments, variation: AeroVariation, spec: ModelS
       aero.push(c);
     }
   } else {
-    const p = firstStage(m);
+    const p = firstStage(m, FS_H);
     if (!p) return null;
     pi = p;
-    // q·ĥ = π0·q + πτ·τq + πq·q² + πax·q·ax + πqq·q³
-    const u = new Float64Array(d);
-    u[M_Q] = p[0]; u[M_TQ] = p[1]; u[M_QQ] = p[2]; u[M_QAX] = p[3]; u[M_QQQ] = p[4];
-    aero.push(unit(d, M_Q), u);
+    aero.push(unit(d, M_Q), qTimesPrediction(d, p));
+    if (variation === "ride_height_front_rear") {
+      const pr = firstStage(m, FS_HR);
+      if (!pr) return null;
+      piRear = pr;
+      aero.push(qTimesPrediction(d, pr));
+    }
   }
   const cols = [...base, ...aero];
   const k = cols.length;
@@ -268,6 +285,7 @@ export function fitModel(m: BlockMoments, variation: AeroVariation, spec: ModelS
     bic: Number.isFinite(bic) && B > 2 * k ? bic + parameters * Math.log(B) : null,
     groups,
     firstStage: pi,
+    firstStageRear: piRear,
   };
 }
 

@@ -54,7 +54,7 @@ export const BAND_STRIDE = 15;
 /** Per band, the current block's aero samples: n, Στ, ΣF_front, ΣF_rear, Σq (the row loop writes them). */
 export const BAND_CUR_STRIDE = 5;
 /** Length of the current block's sums (AeroAccumulator.cur). */
-export const CUR_SUMS = 16;
+export const CUR_SUMS = 17;
 /**
  * Per band, sums over the time blocks that held enough of its samples, of the block means m_f,
  * m_r and the block's mean time τ: B, Σm_f, Σm_f², Σm_r, Σm_r², Σm_f·m_r, Στ, Στ², Στ·m_f, Στ·m_r.
@@ -77,7 +77,7 @@ export class AeroAccumulator {
   private readonly bandCount: number;
   /**
    * Current block: n, Στ, Στ², Σq, Σq², Σf, Σqf, Σf², Σr, Σqr, Σr², Σq·ax, Σax, Σh (front ride-height
-   * change, mm), the samples with h and Σq³ (the row loop keeps these in locals).
+   * change, mm), the samples with h, Σq³ and Σh_rear (the row loop keeps these in locals).
    */
   readonly cur = new Float64Array(CUR_SUMS);
   /** Block-mean moments for the aero models in which ClA varies (aero-model.ts). */
@@ -124,7 +124,7 @@ export class AeroAccumulator {
       s.sf += c[5]; s.stf += tb * c[5]; s.sqf += c[6]; s.sff += c[7];
       s.sr += c[8]; s.str += tb * c[8]; s.sqr += c[9]; s.srr += c[10];
       if (n >= minSamples) this.blocks.add(tb, c[3] / n, c[5] / n, c[8] / n);
-      this.moments.addBlock(n, c[1], c[3], c[4], c[11], c[15], c[12], c[5], c[8], c[13], c[14], this.bandCur, BAND_CUR_STRIDE, 4, n >= minSamples);
+      this.moments.addBlock(n, c[1], c[3], c[4], c[11], c[15], c[12], c[5], c[8], c[13], c[14], c[16], this.bandCur, BAND_CUR_STRIDE, 4, n >= minSamples);
     }
     c.fill(0);
     const bc = this.bandCur, bb = this.bandBlocks;

@@ -3,7 +3,7 @@
  *
  * A band's mean measured load (less static load and drift) is unbiased but noisy: in a slow band the
  * aero load is a few hundred newtons and road input at the wheels moves its mean by several. The
- * chosen model (constant or ride_height ClA), fitted on the whole stint, predicts the same mean with
+ * chosen model (one ClA, or ClA linear in ride height), fitted on the whole stint, predicts the same mean with
  * far less noise, but only as well as the model fits. Each band therefore takes the model's
  * prediction plus its own residual (band mean − prediction) shrunk by the empirical-Bayes factor
  * λ = τ²/(τ² + v): v is the residual's sampling variance (from the band's 1 s block means), τ² the
@@ -44,11 +44,15 @@ export function bandPrediction(model: ModelFit, side: "front" | "rear", a: BandA
   const beta = model[side].beta;
   const q = a.sq[b] / n;
   if (model.variation === "constant") return { load: beta[0] * q, x: [q] };
+  // q·ĥ = π0·q + πτ·τq + πq·q² + πax·q·ax + πqq·q³ (the first stages of aero-model.ts), over the band.
+  const qh = (p: number[]) => p[0] * q + (p[1] * a.stq[b] + p[2] * a.sqq[b] + p[3] * a.sqax[b] + p[4] * a.sqqq[b]) / n;
   if (model.variation === "ride_height" && model.firstStage) {
-    // q·ĥ = π0·q + πτ·τq + πq·q² + πax·q·ax + πqq·q³ (the first stage of aero-model.ts), over the band.
-    const p = model.firstStage;
-    const qh = p[0] * q + (p[1] * a.stq[b] + p[2] * a.sqq[b] + p[3] * a.sqax[b] + p[4] * a.sqqq[b]) / n;
-    return { load: beta[0] * q + beta[1] * qh, x: [q, qh] };
+    const x = [q, qh(model.firstStage)];
+    return { load: beta[0] * x[0] + beta[1] * x[1], x };
+  }
+  if (model.variation === "ride_height_front_rear" && model.firstStage && model.firstStageRear) {
+    const x = [q, qh(model.firstStage), qh(model.firstStageRear)];
+    return { load: beta[0] * x[0] + beta[1] * x[1] + beta[2] * x[2], x };
   }
   return null;
 }

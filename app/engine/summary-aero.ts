@@ -50,15 +50,15 @@ export function chooseAeroModel(
   const bandBlocks = Array.from({ length: s.bandCount }, (_, b) => s.aero.bandBlocks[b * BAND_BLOCK_STRIDE]);
   const full = { ...spec, bandBlocks, minBandBlocks: MIN_BLOCKS_PER_BAND_CLA };
   const models: Partial<Record<AeroVariation, ModelFit>> = {};
-  const scores: Record<AeroVariation, number | null> = { constant: null, speed_band: null, ride_height: null };
-  for (const v of ["constant", "speed_band", "ride_height"] as const) {
+  const scores: Record<AeroVariation, number | null> = { constant: null, speed_band: null, ride_height: null, ride_height_front_rear: null };
+  for (const v of ["constant", "speed_band", "ride_height", "ride_height_front_rear"] as const) {
     const f = fitModel(m, v, full);
     if (!f) continue;
     models[v] = f;
     scores[v] = r(f.bic ?? NaN, 1);
   }
   let chosen: AeroVariation = "constant";
-  for (const v of ["speed_band", "ride_height"] as const) {
+  for (const v of ["speed_band", "ride_height", "ride_height_front_rear"] as const) {
     const sc = models[v]?.bic, best = models[chosen]?.bic;
     if (sc !== null && sc !== undefined && (best === null || best === undefined || sc < best)) chosen = v;
   }
@@ -86,7 +86,10 @@ export function chooseAeroModel(
  * Null when the model could not be fitted or the data span less than 3 mm of front ride height.
  */
 export function rideHeightSensitivity(s: SummaryState, choice: AeroVariationChoice, fit: AeroFit): RideHeightSensitivity | null {
-  const model = choice.models.ride_height;
+  // The front ride height's slope: from the front-and-rear model when the criterion chose it (the
+  // rear's own sensitivity then stays out of c1), else from the front-only model.
+  const both = choice.chosen === "ride_height_front_rear";
+  const model = both ? choice.models.ride_height_front_rear : choice.models.ride_height;
   const m = s.aero.moments;
   if (!model || !(m.hMax - m.hMin >= MIN_RIDE_HEIGHT_SPAN_MM)) return null; // suspension travel, tyre left out: the stricter reading
   const cf = fit.front.cla_m2, cr = fit.rear.cla_m2, ct = cf + cr;
@@ -96,7 +99,8 @@ export function rideHeightSensitivity(s: SummaryState, choice: AeroVariationChoi
   const c = s.model;
   const tyre = 1 + (c.forcePerMmFront * c.motionRatioFront) / s.opts.tyreRateNPerMm;
   const c1f = model.front.beta[1] / tyre, c1r = model.rear.beta[1] / tyre;
-  const vf = model.front.cov[3] / (tyre * tyre), vr = model.rear.cov[3] / (tyre * tyre);
+  const c1 = both ? 4 : 3; // c1's variance in the aero coefficients' covariance (3 × 3 or 2 × 2, row-major)
+  const vf = model.front.cov[c1] / (tyre * tyre), vr = model.rear.cov[c1] / (tyre * tyre);
   const df = Math.max(1, m.blockCount - model.parameters / 2);
   const bal = (100 * (c1f * cr - cf * c1r)) / (ct * ct);
   const balSe = (100 * Math.sqrt(cr * cr * vf + cf * cf * vr)) / (ct * ct);

@@ -78,7 +78,7 @@ export function buildSummary(s: SummaryState, ctx: FinishContext): SessionSummar
       bump_stop_contact_front_pct: r(aero.contactPct.front, 2),
       bump_stop_contact_rear_pct: r(aero.contactPct.rear, 2),
       variation_model: variation ? variation.chosen : "constant",
-      variation_criterion: { name: variation ? variation.criterion : "none: no aero fit", scores: variation ? variation.scores : { constant: null, speed_band: null, ride_height: null } },
+      variation_criterion: { name: variation ? variation.criterion : "none: no aero fit", scores: variation ? variation.scores : { constant: null, speed_band: null, ride_height: null, ride_height_front_rear: null } },
       balance_shift: bandFigures.balanceShift,
       ride_height_sensitivity: variation && fit ? rideHeightSensitivity(s, variation, fit) : null,
     },

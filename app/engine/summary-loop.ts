@@ -59,7 +59,7 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
   // Bump-stop curves (force at the damper against depth past contact); read only in contact.
   const bxF = c.bumpCurveFront?.deflectionMm ?? NO_CURVE, bfF = c.bumpCurveFront?.forceN ?? NO_CURVE;
   const bxR = c.bumpCurveRear?.deflectionMm ?? NO_CURVE, bfR = c.bumpCurveRear?.forceN ?? NO_CURVE;
-  const rhPerDamp = -0.5 / mrF;
+  const rhPerDamp = -0.5 / mrF, rhPerDampRear = -0.5 / mrR;
   const needBump = s.hasBumpStops, collectEst = !s.staticGiven, estMin = s.estMin, estMax = s.estMax;
   let estN = s.estN, refF = s.refFront, refR = s.refRear;
   // Static reference per corner: the readings when given, else the running estimate (kept in
@@ -74,14 +74,14 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
   // The current block's aero sums live in locals (see AeroAccumulator.cur for the order).
   const cur = aero.cur, bs = aero.band, bc = aero.bandCur;
   let bn = cur[0], bt = cur[1], btt = cur[2], bq = cur[3], bqq = cur[4], bf = cur[5], bqf = cur[6], bff = cur[7], br = cur[8], bqr = cur[9], brr = cur[10];
-  let bqa = cur[11], ba = cur[12], bh = cur[13], bhn = cur[14], bqqq = cur[15];
+  let bqa = cur[11], ba = cur[12], bh = cur[13], bhn = cur[14], bqqq = cur[15], bhr = cur[16];
   for (let j = 0; j < count; j++) {
     const flag = flagBuf[j];
     if (flag === 0) { ffOut[j] = NaN; frOut[j] = NaN; continue; }
     if (flag !== ROW_VALID) {
-      cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq;
+      cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq; cur[16] = bhr;
       aero.closeBlock(blockMin);
-      bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = bqa = ba = bh = bhn = bqqq = 0;
+      bn = bt = btt = bq = bqq = bf = bqf = bff = br = bqr = brr = bqa = ba = bh = bhn = bqqq = bhr = 0;
     }
     const tau = tauBuf[j], band = bandBuf[j];
     const v = mV[j];
@@ -148,7 +148,7 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
           }
           if (staticKnown) {
             const hF = (xfl + xfr - sfl - sfr) * rhPerDamp;
-            bh += hF; bhn++;
+            bh += hF; bhn++; bhr += (xrl + xrr - srl - srr) * rhPerDampRear;
             aero.addRideHeight(hF, tau, q, ff, fr);
           }
         }
@@ -156,7 +156,7 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
     }
     ffOut[j] = ff; frOut[j] = fr;
   }
-  cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq;
+  cur[0] = bn; cur[1] = bt; cur[2] = btt; cur[3] = bq; cur[4] = bqq; cur[5] = bf; cur[6] = bqf; cur[7] = bff; cur[8] = br; cur[9] = bqr; cur[10] = brr; cur[11] = bqa; cur[12] = ba; cur[13] = bh; cur[14] = bhn; cur[15] = bqqq; cur[16] = bhr;
   s.estN = estN; s.refFront = refF; s.refRear = refR;
   s.aeroWaitingStatic += waiting;
 }

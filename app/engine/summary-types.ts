@@ -69,7 +69,7 @@ export interface FuelSummary {
   static_load_change_rear_n: number | null;
 }
 
-export type AeroVariationModel = "constant" | "speed_band" | "ride_height";
+export type AeroVariationModel = "constant" | "speed_band" | "ride_height" | "ride_height_front_rear";
 
 /** Balance between the lowest and the highest band with enough aero load. */
 export interface BalanceShift {
