@@ -1,9 +1,12 @@
 /**
- * Brief links: a read-only view of one session for a driver, opened without signing in. The token is shown
- * once and only its SHA-256 is stored; a link expires, can be revoked, and counts its views.
+ * Brief links: a read-only view of one session, or of one saved comparison, for a driver, opened without
+ * signing in. The token is shown once and only its SHA-256 is stored; a link expires, can be revoked, and
+ * counts its views. Exactly one of session_id and comparison_id is set (a check constraint holds it).
  */
-import { char, index, int, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { sql } from "drizzle-orm";
+import { char, check, index, int, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { organization, user } from "./auth";
+import { savedComparisons } from "./report";
 import { analysisSessions } from "./sessions";
 
 export const briefLinks = mysqlTable(
@@ -13,9 +16,9 @@ export const briefLinks = mysqlTable(
     teamId: varchar("team_id", { length: 36 })
       .notNull()
       .references(() => organization.id, { onDelete: "cascade" }),
-    sessionId: varchar("session_id", { length: 36 })
-      .notNull()
-      .references(() => analysisSessions.id, { onDelete: "cascade" }),
+    sessionId: varchar("session_id", { length: 36 }).references(() => analysisSessions.id, { onDelete: "cascade" }),
+    /** A saved comparison instead of one session: the brief shows what the comparison holds when opened. */
+    comparisonId: varchar("comparison_id", { length: 36 }).references(() => savedComparisons.id, { onDelete: "cascade" }),
     /** SHA-256 (hex) of the token in the link; the token itself is never stored. */
     tokenHash: char("token_hash", { length: 64 }).notNull(),
     note: varchar("note", { length: 500 }),
@@ -33,6 +36,7 @@ export const briefLinks = mysqlTable(
     uniqueIndex("brief_links_token_hash_idx").on(t.tokenHash),
     index("brief_links_team_idx").on(t.teamId, t.createdAt),
     index("brief_links_recipient_idx").on(t.recipientUserId),
+    check("brief_links_one_subject", sql`(session_id is null) <> (comparison_id is null)`),
   ],
 );
 
