@@ -12,7 +12,7 @@
 import { EngineError } from "./errors";
 import { BlockSmoother } from "./filters";
 import { ingestLog } from "./ingest";
-import { addSignRows, createSignSums, signVerdicts } from "./sign-evidence";
+import { addSignRows, createSignSums, evenWindowFlags, signVerdicts } from "./sign-evidence";
 import type { SignCheck } from "./sign-evidence";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { resolveOptions } from "./summary-options";
@@ -20,8 +20,8 @@ import type { ChannelBlock, ChannelMap } from "./types";
 
 export type { SignCheck } from "./sign-evidence";
 
-const CHANNELS = ["speed", "long_accel", "lat_accel", "steer", "yaw_rate", "damper_fl", "damper_fr", "damper_rl", "damper_rr"] as const;
-const V = 0, AX = 1, AY = 2, STEER = 3, YAW = 4, D0 = 5;
+const CHANNELS = ["speed", "long_accel", "lat_accel", "steer", "yaw_rate", "damper_fl", "damper_fr", "damper_rl", "damper_rr", "time"] as const;
+const V = 0, AX = 1, AY = 2, STEER = 3, YAW = 4, D0 = 5, T = 9;
 
 /** Cuts `head` after its last line end (a preview read from the start of a file ends mid-row). */
 function wholeRows(head: Uint8Array): Uint8Array {
@@ -49,9 +49,12 @@ export async function checkChannelSigns(head: Uint8Array, map: ChannelMap): Prom
   const sm = new BlockSmoother(halves, dt, CHANNELS.map((_, i) => i === V));
   const sums = createSignSums();
   const cols: (Float64Array | null)[] = new Array(CHANNELS.length).fill(null);
+  let even = new Uint8Array(0);
   const consume = (count: number) => {
     const m = sm.mean;
-    addSignRows(sums, count, null, m[V], sm.slope[V], m[AX], m[AY], m[STEER], m[YAW], m[D0], m[D0 + 1], m[D0 + 2], m[D0 + 3]);
+    if (even.length < count) even = new Uint8Array(count);
+    evenWindowFlags(count, null, m[T], sm.centre[T], dt, even);
+    addSignRows(sums, count, even, m[V], sm.slope[V], m[AX], m[AY], m[STEER], m[YAW], m[D0], m[D0 + 1], m[D0 + 2], m[D0 + 3]);
   };
   for (const b of blocks) {
     CHANNELS.forEach((c, k) => (cols[k] = b.channels[c] ?? null));

@@ -114,6 +114,18 @@ export function addSignRows(
   s[c] = rr0; s[c + 1] = rr1; s[c + 2] = rr2; s[c + 3] = rr3;
 }
 
+/**
+ * Rows whose smoothing window spans a break in time (a logger restart, a stretch of missing rows):
+ * the window's mean time then sits off its centre row's time, and the speed's slope across it
+ * (d = dv/dt) is the jump in speed over the break, not an acceleration; one such row squared
+ * outweighs minutes of running in σ(dv/dt) and reads as a unit slip. `out[j]` = 1 where row j may
+ * count (its `flag` is not 0, or `flag` is null, and |mean time − centre time| < dt), else 0.
+ */
+export function evenWindowFlags(count: number, flag: Uint8Array | null, meanT: Float64Array, centreT: Float64Array, dt: number, out: Uint8Array): Uint8Array {
+  for (let j = 0; j < count; j++) out[j] = (flag === null || flag[j] !== 0) && Math.abs(meanT[j] - centreT[j]) < dt ? 1 : 0;
+  return out;
+}
+
 /** Pearson correlation of a pair's sums; NaN without spread. */
 function pairCorrelation(s: SignSums, o: number): number {
   const n = s[o];

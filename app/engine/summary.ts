@@ -15,7 +15,7 @@
  */
 import { BlockSmoother } from "./filters";
 import { PartUnsafe } from "./errors";
-import { addSignRows } from "./sign-evidence";
+import { addSignRows, evenWindowFlags } from "./sign-evidence";
 import { copyBlock, estimateDt } from "./summary-blocks";
 import { aeroPass, AX, AY, DFL, DFR, DRL, DRR, RHF, RHR, SLOT_CHANNELS, STEER, T, V, YAW } from "./summary-loop";
 import type { RowScratch } from "./summary-loop";
@@ -57,6 +57,8 @@ export class SummaryBuilder {
   private firstOwned = -1;
   private sm: BlockSmoother | null = null;
   private pending: ChannelBlock[] = [];
+  /** Rows that count for the sign evidence (evenWindowFlags). */
+  private signFlag = new Uint8Array(0);
   private scratch: RowScratch = { tau: new Float64Array(0), band: new Int32Array(0), flag: new Uint8Array(0), ff: new Float64Array(0), fr: new Float64Array(0) };
   private blockMin = 2;
   private blockMinUs = 2;
@@ -135,7 +137,7 @@ export class SummaryBuilder {
     startState(s, dt);
     const h1 = Math.max(1, Math.round(s.opts.damperSmoothingS / dt / 2));
     const h2 = Math.max(1, Math.round(s.opts.gateSmoothingS / dt / 2));
-    const halves = SLOT_CHANNELS.map((_, i) => (i === T ? 0 : (i >= DFL && i <= RHR) || i === V || i === AX ? h1 : h2));
+    const halves = SLOT_CHANNELS.map((_, i) => ((i >= DFL && i <= RHR) || i === V || i === AX || i === T ? h1 : h2));
     // Window sums restart at every time block (filters.ts): a part of the log then smooths exactly as the whole-log run.
     this.sm = new BlockSmoother(halves, dt, SLOT_CHANNELS.map((_, i) => i === V || i === AY || i === STEER || (i >= DFL && i <= DRR)), 16_384, { channel: T, periodS: s.opts.blockS, t0: s.t0 });
     const perBlock = s.opts.blockS / dt;
@@ -156,7 +158,9 @@ export class SummaryBuilder {
     if (x.tau.length < count) x = this.scratch = { tau: new Float64Array(count), band: new Int32Array(count), flag: new Uint8Array(count), ff: new Float64Array(count), fr: new Float64Array(count) };
     timeAndBandPass(count, ce[T], m[V], s.opts.blockS, s.edgesMs, s.bandRows, s.bandSpeedSum, s, x.tau, x.band, x.flag);
     aeroPass(s, sm, count, x, this.blockMin);
-    addSignRows(s.sign, count, x.flag, m[V], sl[V], m[AX], m[AY], m[STEER], m[YAW], m[DFL], m[DFR], m[DRL], m[DRR]);
+    if (this.signFlag.length < count) this.signFlag = new Uint8Array(x.flag.length);
+    evenWindowFlags(count, x.flag, m[T], ce[T], 1 / s.sampleRateHz, this.signFlag);
+    addSignRows(s.sign, count, this.signFlag, m[V], sl[V], m[AX], m[AY], m[STEER], m[YAW], m[DFL], m[DFR], m[DRL], m[DRR]);
     const part = this.part;
     if (part?.onSeed && !this.seedSent && (s.estN >= s.estMax || s.staticGiven) && (s.refFront === s.refFront || s.staticGiven)) {
       this.seedSent = true;
