@@ -1,0 +1,2 @@
+// Types for scripts/lib/migrate.mjs.
+export function applyMigrations(databaseUrl: string, migrationsFolder: string): Promise<number>;
