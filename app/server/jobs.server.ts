@@ -59,7 +59,7 @@ export async function claimJob(owner: string, only: { teamId?: string } = {}): P
       if (!row) return { kind: "none" as const };
       if (row.status === "running" && row.attempts >= row.maxAttempts) {
         // Its worker died on the last allowed attempt: give up and say so.
-        const why = `The worker running this job stopped ${row.attempts} times without finishing it.`;
+        const why = `The worker running this job stopped without finishing it, ${row.attempts === 1 ? "on its only attempt" : `on all ${row.attempts} attempts`} (a worker killed, or the database lost mid-job).`;
         await tx.update(jobs).set({ status: "failed", error: why, leaseOwner: null, finishedAt: sql`NOW(3)` }).where(eq(jobs.id, row.id));
         await flagUnchecked(tx, row.sessionId, why);
         return { kind: "gave_up" as const };
