@@ -1,15 +1,17 @@
 /**
- * Brief links (issue 12 item 1): an engineer or owner shares one session read-only with a driver. The token
+ * Brief links (issue 12 item 1): an engineer or owner shares one session, or one saved comparison, read-only
+ * with a driver. The token
  * is 32 random bytes (256 bits, base64url) shown once in the link; only its SHA-256 is stored, so a database
  * copy opens nothing. A link expires (14 days unless chosen otherwise), can be revoked, and counts its views.
  * Every change and every view is in the team's audit log.
  */
 import { createHash, randomBytes, randomUUID } from "node:crypto";
-import { and, desc, eq, gt, isNull, or, sql, type SQL } from "drizzle-orm";
+import { and, desc, eq, gt, inArray, isNull, or, sql, type SQL } from "drizzle-orm";
 import { data } from "react-router";
 import { user } from "../db/schema/auth";
 import { briefLinks } from "../db/schema/briefs";
 import { analysisSessions } from "../db/schema/sessions";
+import { savedComparisons } from "../db/schema/report";
 import { organization } from "../db/schema/auth";
 import { recordAudit } from "./audit.server";
 import { db } from "./db.server";
@@ -26,16 +28,44 @@ export function briefUrl(token: string): string {
   return `${env.APP_URL.replace(/\/$/, "")}/brief/${token}`;
 }
 
-export type NewBrief = { sessionId: string; note: string | null; days: number; recipientEmail: string | null };
+/** What a link shows: one session, or one saved comparison (exactly one of the two). */
+export type NewBrief = { sessionId?: string | null; comparisonId?: string | null; note: string | null; days: number; recipientEmail: string | null };
 
-/** Creates a link; returns the token (the only time it exists outside the link). Mails it when an address is given. */
-export async function createBrief(team: { id: string; name: string }, actor: { id: string; name: string }, input: NewBrief) {
+/** The name and ids of what a new link will show, checked against the team; throws 404 / 400 like the page shows them. */
+async function briefSubject(teamId: string, input: NewBrief): Promise<{ sessionId: string | null; comparisonId: string | null; name: string; kind: "session" | "comparison" }> {
+  if (input.comparisonId) {
+    const [comparison] = await db
+      .select({ id: savedComparisons.id, name: savedComparisons.name, sessionIds: savedComparisons.sessionIds })
+      .from(savedComparisons)
+      .where(and(eq(savedComparisons.teamId, teamId), eq(savedComparisons.id, input.comparisonId)));
+    if (!comparison) throw data("No such saved comparison in this team.", { status: 404 });
+    const withFigures = await comparisonSessions(teamId, comparison.sessionIds);
+    if (withFigures.length === 0) throw data("None of this comparison's sessions has figures, so there is nothing to brief.", { status: 400 });
+    return { sessionId: null, comparisonId: comparison.id, name: comparison.name, kind: "comparison" };
+  }
   const [session] = await db
     .select({ id: analysisSessions.id, name: analysisSessions.name, summary: analysisSessions.summary })
     .from(analysisSessions)
-    .where(and(eq(analysisSessions.teamId, team.id), eq(analysisSessions.id, input.sessionId)));
+    .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, input.sessionId ?? "")));
   if (!session) throw data("No such session in this team.", { status: 404 });
   if (!session.summary) throw data("This session has no figures yet, so there is nothing to brief; wait until the log has been read.", { status: 400 });
+  return { sessionId: session.id, comparisonId: null, name: session.name, kind: "session" };
+}
+
+/** A comparison's sessions that still exist in the team and have figures, in the comparison's order. */
+async function comparisonSessions(teamId: string, ids: string[]) {
+  if (ids.length === 0) return [];
+  const rows = await db
+    .select({ id: analysisSessions.id, name: analysisSessions.name, sessionDate: analysisSessions.sessionDate, summary: analysisSessions.summary })
+    .from(analysisSessions)
+    .where(and(eq(analysisSessions.teamId, teamId), inArray(analysisSessions.id, ids), sql`${analysisSessions.summary} is not null`));
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  return ids.flatMap((id) => (byId.has(id) ? [byId.get(id)!] : []));
+}
+
+/** Creates a link; returns the token (the only time it exists outside the link). Mails it when an address is given. */
+export async function createBrief(team: { id: string; name: string }, actor: { id: string; name: string }, input: NewBrief) {
+  const subject = await briefSubject(team.id, input);
   const days = Math.min(Math.max(Math.round(input.days), 1), BRIEF_MAX_DAYS);
   const token = randomBytes(32).toString("base64url");
   const id = randomUUID();
@@ -49,7 +79,8 @@ export async function createBrief(team: { id: string; name: string }, actor: { i
     await tx.insert(briefLinks).values({
       id,
       teamId: team.id,
-      sessionId: session.id,
+      sessionId: subject.sessionId,
+      comparisonId: subject.comparisonId,
       tokenHash: hashBriefToken(token),
       note: input.note,
       recipientUserId,
@@ -64,11 +95,11 @@ export async function createBrief(team: { id: string; name: string }, actor: { i
       action: "brief_created",
       subjectType: "brief",
       subjectId: id,
-      detail: { session: session.name, days, to: input.recipientEmail },
+      detail: { [subject.kind]: subject.name, days, to: input.recipientEmail },
     });
   });
   if (input.recipientEmail) {
-    await sendMail(briefMail(input.recipientEmail, actor.name, team.name, session.name, briefUrl(token), input.note, expiresAt));
+    await sendMail(briefMail(input.recipientEmail, actor.name, team.name, subject.kind === "comparison" ? `comparison “${subject.name}”` : subject.name, briefUrl(token), input.note, expiresAt));
     await recordAudit(db, { teamId: team.id, actorUserId: actor.id, action: "brief_mailed", subjectType: "brief", subjectId: id, detail: { to: input.recipientEmail } });
   }
   return { id, token, url: briefUrl(token), expiresAt };
@@ -105,7 +136,8 @@ export async function listBriefs(teamId: string) {
     .select({
       id: briefLinks.id,
       sessionId: briefLinks.sessionId,
-      sessionName: analysisSessions.name,
+      comparisonId: briefLinks.comparisonId,
+      sessionName: sql<string>`coalesce(${analysisSessions.name}, ${savedComparisons.name})`,
       note: briefLinks.note,
       recipientEmail: briefLinks.recipientEmail,
       expiresAt: briefLinks.expiresAt,
@@ -116,13 +148,14 @@ export async function listBriefs(teamId: string) {
       createdByName: user.name,
     })
     .from(briefLinks)
-    .innerJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(savedComparisons, eq(savedComparisons.id, briefLinks.comparisonId))
     .leftJoin(user, eq(user.id, briefLinks.createdBy))
     .where(eq(briefLinks.teamId, teamId))
     .orderBy(desc(briefLinks.createdAt))
     .limit(200);
   const now = Date.now();
-  return rows.map((r) => ({ ...r, state: r.revokedAt ? ("revoked" as const) : r.expiresAt.getTime() <= now ? ("expired" as const) : ("live" as const) }));
+  return rows.map((r) => ({ ...r, kind: r.comparisonId ? ("comparison" as const) : ("session" as const), state: r.revokedAt ? ("revoked" as const) : r.expiresAt.getTime() <= now ? ("expired" as const) : ("live" as const) }));
 }
 
 /**
@@ -140,39 +173,89 @@ export async function openBriefFor(recipient: { id: string; email: string }, bri
   return openWhere(and(eq(briefLinks.id, briefId), or(eq(briefLinks.recipientUserId, recipient.id), eq(briefLinks.recipientEmail, recipient.email)))!);
 }
 
-async function openWhere(which: SQL) {
+export type OpenedBrief =
+  | { kind: "session"; sessionName: string; sessionDate: string | null; teamName: string; note: string | null; expiresAt: Date; summary: unknown }
+  | {
+      kind: "comparison";
+      comparisonName: string;
+      teamName: string;
+      note: string | null;
+      expiresAt: Date;
+      sessions: { name: string; sessionDate: string | null; summary: unknown }[];
+    };
+
+async function openWhere(which: SQL): Promise<OpenedBrief | null> {
   const [row] = await db
-    .select({ brief: briefLinks, sessionName: analysisSessions.name, sessionDate: analysisSessions.sessionDate, summary: analysisSessions.summary, teamName: organization.name })
+    .select({
+      brief: briefLinks,
+      sessionName: analysisSessions.name,
+      sessionDate: analysisSessions.sessionDate,
+      summary: analysisSessions.summary,
+      comparisonName: savedComparisons.name,
+      comparisonSessionIds: savedComparisons.sessionIds,
+      teamName: organization.name,
+    })
     .from(briefLinks)
-    .innerJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(savedComparisons, eq(savedComparisons.id, briefLinks.comparisonId))
     .innerJoin(organization, eq(organization.id, briefLinks.teamId))
     .where(and(which, isNull(briefLinks.revokedAt), gt(briefLinks.expiresAt, new Date())));
   if (!row) return null;
+  let opened: OpenedBrief;
+  if (row.brief.comparisonId) {
+    if (row.comparisonName === null || !row.comparisonSessionIds) return null;
+    // Only the comparison's own sessions, of the link's own team; a session deleted since is left out.
+    const sessions = await comparisonSessions(row.brief.teamId, row.comparisonSessionIds);
+    if (sessions.length === 0) return null;
+    opened = {
+      kind: "comparison",
+      comparisonName: row.comparisonName,
+      teamName: row.teamName,
+      note: row.brief.note,
+      expiresAt: row.brief.expiresAt,
+      sessions: sessions.map((x) => ({ name: x.name, sessionDate: x.sessionDate, summary: x.summary })),
+    };
+  } else {
+    if (row.sessionName === null) return null;
+    opened = { kind: "session", sessionName: row.sessionName, sessionDate: row.sessionDate, teamName: row.teamName, note: row.brief.note, expiresAt: row.brief.expiresAt, summary: row.summary };
+  }
   const now = new Date();
+  const subject: Record<string, string> = opened.kind === "comparison" ? { comparison: opened.comparisonName } : { session: opened.sessionName };
   await db.transaction(async (tx) => {
     await tx.update(briefLinks).set({ viewCount: sql`${briefLinks.viewCount} + 1`, lastViewedAt: now }).where(eq(briefLinks.id, row.brief.id));
-    await recordAudit(tx, { teamId: row.brief.teamId, actorUserId: null, action: "brief_viewed", subjectType: "brief", subjectId: row.brief.id, detail: { session: row.sessionName } });
+    await recordAudit(tx, { teamId: row.brief.teamId, actorUserId: null, action: "brief_viewed", subjectType: "brief", subjectId: row.brief.id, detail: subject });
   });
-  return {
-    sessionName: row.sessionName,
-    sessionDate: row.sessionDate,
-    teamName: row.teamName,
-    note: row.brief.note,
-    expiresAt: row.brief.expiresAt,
-    summary: row.summary,
-  };
+  return opened;
 }
 
 /** Live links shared with this user (by account or by their e-mail address), for their dashboard. */
 export async function briefsSharedWith(userId: string, email: string) {
   return db
-    .select({ id: briefLinks.id, sessionName: analysisSessions.name, note: briefLinks.note, expiresAt: briefLinks.expiresAt, teamName: organization.name, createdAt: briefLinks.createdAt })
+    .select({
+      id: briefLinks.id,
+      sessionName: sql<string>`coalesce(${analysisSessions.name}, ${savedComparisons.name})`,
+      note: briefLinks.note,
+      expiresAt: briefLinks.expiresAt,
+      teamName: organization.name,
+      createdAt: briefLinks.createdAt,
+    })
     .from(briefLinks)
-    .innerJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
+    .leftJoin(savedComparisons, eq(savedComparisons.id, briefLinks.comparisonId))
     .innerJoin(organization, eq(organization.id, briefLinks.teamId))
     .where(and(or(eq(briefLinks.recipientUserId, userId), eq(briefLinks.recipientEmail, email)), isNull(briefLinks.revokedAt), gt(briefLinks.expiresAt, new Date())))
     .orderBy(desc(briefLinks.createdAt))
     .limit(50);
+}
+
+/** The team's saved comparisons, newest first, for the same picker. */
+export async function briefableComparisons(teamId: string) {
+  return db
+    .select({ id: savedComparisons.id, name: savedComparisons.name, sessionIds: savedComparisons.sessionIds })
+    .from(savedComparisons)
+    .where(eq(savedComparisons.teamId, teamId))
+    .orderBy(desc(savedComparisons.createdAt))
+    .limit(100);
 }
 
 /** The team's sessions that have figures, newest first, for the "create a Brief link" picker. */

@@ -14,6 +14,8 @@ import { baseURL, openBrowser, type OpenBrowser } from "./helpers/browser";
 import { organization, user } from "~/db/schema/auth";
 import { createBrief } from "~/server/brief.server";
 import { storeDemoSession } from "../server/report-support";
+import { saveComparison } from "~/server/report/annotations.server";
+import { savedComparisons } from "~/db/schema/report";
 
 const axeSource = readFileSync(createRequire(import.meta.url).resolve("axe-core/axe.min.js"), "utf8");
 const SHOTS = ".data/screens";
@@ -28,6 +30,7 @@ describe("accessibility and small screens", () => {
   let briefPath = "";
   let reportPath = "";
   let comparePath = "";
+  let comparisonBriefPath = "";
   const pageErrors: string[] = [];
 
   beforeAll(async () => {
@@ -46,6 +49,10 @@ describe("accessibility and small screens", () => {
     const other = await storeDemoSession("marlin-splitter", { teamId: org.id, carId: car.id, setupId: (v2 ?? v1).id, name: "Kestrel Bank, low splitter", sessionDate: "2026-06-02" });
     reportPath = `/t/${team}/sessions/${session.id}`;
     comparePath = `/t/${team}/compare?ids=${session.id},${other.id}`;
+    await saveComparison(org.id, owner.id, "Splitter against wing", [session.id, other.id]);
+    const [saved] = await db.select().from(savedComparisons).where(eq(savedComparisons.teamId, org.id));
+    const comparisonBrief = await createBrief({ id: org.id, name: org.name }, { id: owner.id, name: owner.name }, { comparisonId: saved.id, note: "Turn 7 in both.", days: 14, recipientEmail: null });
+    comparisonBriefPath = `/brief/${comparisonBrief.token}`;
     mkdirSync(SHOTS, { recursive: true });
     browser = await openBrowser();
     browser.page.on("pageerror", (e) => pageErrors.push(e.message));
@@ -94,7 +101,7 @@ describe("accessibility and small screens", () => {
   ] as const;
 
   it("signed-out pages: 0 serious violations, no sideways scroll at 390 px, a skip link to #main", async () => {
-    for (const [path, name] of [...signedOut, [briefPath, "brief"] as const]) {
+    for (const [path, name] of [...signedOut, [briefPath, "brief"] as const, [comparisonBriefPath, "brief-comparison"] as const]) {
       for (const width of [1280, 390]) {
         const r = await audit(path, name, width);
         expect(r.serious.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(" ")).join(", ")})`), path).toEqual([]);

@@ -144,7 +144,7 @@ describe("Balance report in the browser", () => {
     // Brief link: the Brief links page opens with this session chosen.
     await page.getByRole("link", { name: "Brief link…" }).click();
     await page.waitForURL(/\/t\/harrowgate\/briefs\?session=/);
-    expect(await page.locator('select[name="sessionId"]').inputValue()).toBe(splitterId);
+    expect(await page.locator('select[name="subject"]').inputValue()).toBe(`session:${splitterId}`);
     // Delete: two steps; the box must be ticked; then the Sessions list says so and the report is gone.
     await page.goto(`/t/harrowgate/sessions/${splitterId}`, { waitUntil: "networkidle" });
     await page.getByRole("button", { name: "Delete session…" }).click();

@@ -2,16 +2,25 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireMember } from "~/server/permissions.server";
 import { readFormFields } from "~/server/body.server";
-import { briefableSessions, createBrief, listBriefs, revokeBrief } from "~/server/brief.server";
+import { briefableComparisons, briefableSessions, createBrief, listBriefs, revokeBrief } from "~/server/brief.server";
 import { BRIEF_DEFAULT_DAYS, BRIEF_MAX_DAYS } from "~/lib/brief-words";
 import { Button, Field, FormAlert, SelectField } from "~/components/ui/form";
 import { EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import type { Route } from "./+types/briefs";
 
+/** What the link shows: "session:<id>" or "comparison:<id>" (the picker's values); a bare sessionId is still read. */
+const subjectSchema = z
+  .string({ error: "Choose a session or a saved comparison." })
+  .regex(/^(session|comparison):[A-Za-z0-9-]{1,36}$/, "Choose a session or a saved comparison.")
+  .transform((v) => {
+    const [kind, id] = v.split(":") as ["session" | "comparison", string];
+    return kind === "session" ? { sessionId: id, comparisonId: null } : { sessionId: null, comparisonId: id };
+  });
+
 const createSchema = z.object({
   intent: z.literal("create"),
-  sessionId: z.string().min(1, "Choose a session.").max(36),
+  subject: subjectSchema,
   days: z.coerce.number({ error: "Enter a number of days." }).int("Whole days only.").min(1, "At least 1 day.").max(BRIEF_MAX_DAYS, `At most ${BRIEF_MAX_DAYS} days.`),
   note: z.string().normalize("NFC").trim().max(500, "Keep the note to 500 characters.").transform((v) => v || null),
   email: z
@@ -27,12 +36,14 @@ const revokeSchema = z.object({ intent: z.literal("revoke"), briefId: z.string()
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { share: ["create"] });
-  const [briefs, sessions] = await Promise.all([listBriefs(ctx.team.id), briefableSessions(ctx.team.id)]);
-  const preselect = new URL(request.url).searchParams.get("session") ?? "";
+  const [briefs, sessions, comparisons] = await Promise.all([listBriefs(ctx.team.id), briefableSessions(ctx.team.id), briefableComparisons(ctx.team.id)]);
+  const search = new URL(request.url).searchParams;
+  const preselect = search.get("comparison") ? `comparison:${search.get("comparison")}` : search.get("session") ? `session:${search.get("session")}` : "";
   return {
     team: ctx.team,
     preselect,
     sessions,
+    comparisons: comparisons.map((c) => ({ id: c.id, name: c.name, count: c.sessionIds.length })),
     briefs: briefs.map((b) => ({ ...b, expiresAt: b.expiresAt.toISOString(), revokedAt: b.revokedAt?.toISOString() ?? null, lastViewedAt: b.lastViewedAt?.toISOString() ?? null, createdAt: b.createdAt.toISOString() })),
   };
 }
@@ -47,14 +58,15 @@ export async function action({ request, params }: Route.ActionArgs) {
     return { intent: "revoke", errors: {}, link: null, done: "Link revoked: it now opens nothing." };
   }
   const ctx = await requireMember(request, params.teamSlug, { share: ["create"] });
-  const parsed = createSchema.safeParse({ ...fields, intent: "create" });
+  const subject = fields.subject ?? (fields.sessionId ? `session:${fields.sessionId}` : undefined);
+  const parsed = createSchema.safeParse({ ...fields, subject, intent: "create" });
   if (!parsed.success) {
     const errors: Record<string, string> = {};
     for (const issue of parsed.error.issues) errors[String(issue.path[0] ?? "form")] ??= issue.message;
     return data({ intent: "create", errors, link: null }, { status: 400 });
   }
   const made = await createBrief(ctx.team, { id: ctx.user.id, name: ctx.user.name }, {
-    sessionId: parsed.data.sessionId,
+    ...parsed.data.subject,
     note: parsed.data.note,
     days: parsed.data.days,
     recipientEmail: parsed.data.email,
@@ -65,7 +77,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 const when = (iso: string | null) => (iso ? iso.slice(0, 16).replace("T", " ") : "—");
 
 export default function Briefs({ loaderData, actionData }: Route.ComponentProps) {
-  const { briefs, sessions, preselect } = loaderData;
+  const { briefs, sessions, comparisons, preselect } = loaderData;
   const nav = useNavigation();
   const sending = nav.state === "submitting" ? nav.formData?.get("intent") : null;
   const errors = (actionData?.errors ?? {}) as Record<string, string>;
@@ -74,8 +86,9 @@ export default function Briefs({ loaderData, actionData }: Route.ComponentProps)
       <header>
         <h1 className="text-2xl font-semibold">Driver briefs</h1>
         <p className="text-sm text-ink-soft">
-          A Brief link shows one session to a driver without signing in: the balance in plain words, the balance against
-          speed, the side view, your note and the cautions. Nothing else of the team. It stops working when it expires or
+          A Brief link shows one session, or one saved comparison, to a driver without signing in: the balance in plain
+          words, the balance against speed (for a session also the side view), your note and the cautions. Nothing else of
+          the team. It stops working when it expires or
           when you revoke it.
         </p>
       </header>
@@ -94,11 +107,14 @@ export default function Briefs({ loaderData, actionData }: Route.ComponentProps)
           <Form method="post" className="grid gap-x-4 sm:grid-cols-2" noValidate>
             <input type="hidden" name="intent" value="create" />
             <SelectField
-              label="Session"
-              name="sessionId"
+              label="Session or saved comparison"
+              name="subject"
               defaultValue={preselect}
-              options={sessions.map((s) => ({ value: s.id, label: `${s.name}${s.sessionDate ? ` (${s.sessionDate})` : ""}` }))}
-              error={errors.sessionId}
+              options={[
+                ...sessions.map((s) => ({ value: `session:${s.id}`, label: `${s.name}${s.sessionDate ? ` (${s.sessionDate})` : ""}` })),
+                ...comparisons.map((c) => ({ value: `comparison:${c.id}`, label: `Comparison: ${c.name} (${c.count} sessions)` })),
+              ]}
+              error={errors.subject}
             />
             <Field label="Works for (days)" name="days" type="number" min={1} max={BRIEF_MAX_DAYS} defaultValue={String(BRIEF_DEFAULT_DAYS)} required error={errors.days} />
             <Field label="Send to (e-mail, optional)" name="email" type="email" autoComplete="off" error={errors.email} hint="The driver gets the link by e-mail; with an account on that address it also shows on their dashboard." />
@@ -121,7 +137,7 @@ export default function Briefs({ loaderData, actionData }: Route.ComponentProps)
             {briefs.map((b) => (
               <li key={b.id} className="flex flex-wrap items-start justify-between gap-2 py-2">
                 <div>
-                  <p className="font-medium">{b.sessionName}</p>
+                  <p className="font-medium">{b.kind === "comparison" ? `Comparison: ${b.sessionName}` : b.sessionName}</p>
                   <p className="text-ink-soft">
                     {b.state === "live" ? `Works until ${when(b.expiresAt)} UTC` : b.state === "revoked" ? `Revoked ${when(b.revokedAt)} UTC` : `Expired ${when(b.expiresAt)} UTC`}
                     {b.recipientEmail ? ` · sent to ${b.recipientEmail}` : ""} · by {b.createdByName ?? "a former member"}

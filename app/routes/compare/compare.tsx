@@ -40,7 +40,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     }
   }
   const [notes, saved] = await Promise.all([result ? listAnnotations(ctx.team.id, result.sessions.map((x) => x.id)) : [], listSavedComparisons(ctx.team.id)]);
-  return { team: ctx.team, filters, ids, pickable, choices, result, problem, notes, saved, canSave: can(ctx.role, { session: ["annotate"] }) };
+  return { team: ctx.team, filters, ids, pickable, choices, result, problem, notes, saved, canSave: can(ctx.role, { session: ["annotate"] }), canBrief: can(ctx.role, { share: ["create"] }) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -100,7 +100,7 @@ function downloadCsv(name: string, text: string) {
 }
 
 export default function Compare({ loaderData }: Route.ComponentProps) {
-  const { team, filters, ids, pickable, choices, result, problem, notes, saved, canSave } = loaderData;
+  const { team, filters, ids, pickable, choices, result, problem, notes, saved, canSave, canBrief } = loaderData;
   const navigation = useNavigation();
   const busy = navigation.state !== "idle" && navigation.location?.pathname.endsWith("/compare");
   const base = teamPath(team.slug);
@@ -163,6 +163,11 @@ export default function Compare({ loaderData }: Route.ComponentProps) {
               <span key={c.id}>
                 {i > 0 && " · "}
                 <Link to={`?ids=${c.sessionIds.join(",")}`} className="text-accent hover:underline">{c.name}</Link>
+                {canBrief && (
+                  <Link to={`${base}/briefs?comparison=${encodeURIComponent(c.id)}`} className="ml-1 text-xs text-ink-soft hover:text-accent hover:underline" aria-label={`Brief link for ${c.name}`}>
+                    (Brief link…)
+                  </Link>
+                )}
               </span>
             ))}
           </div>
