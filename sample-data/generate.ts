@@ -37,7 +37,9 @@ export interface LogSpec {
   dropouts?: { share: number; channels: ChannelName[]; gapChannel?: ChannelName; gapS?: number };
   metadata: Record<string, string>;
   /** Simulation extras: sensor noise levels and lap-to-lap pace (sim.ts SimOptions). */
-  sim?: Pick<SimOptions, "latNoiseMs2" | "steerNoiseDeg" | "paceSpread" | "paceDrift">;
+  sim?: Partial<Omit<SimOptions, "laps" | "rateHz" | "seed" | "airDensityKgM3" | "bandEdgesKmh">>;
+  /** Share of whole rows the logger failed to write (left out of the file, time jumping over them). */
+  droppedRows?: number;
 }
 
 const mm = (channel: ChannelName, column: string, invert = false): ColumnSpec => ({ channel, column, unit: "mm", factor: 1, invert, decimals: 2 });
@@ -139,8 +141,16 @@ export function mapFor(spec: LogSpec): ChannelMap {
 /** Export columns from simulated ones: unit conversion, sign, dropouts. */
 export function exportColumns(spec: LogSpec, cols: SimColumns, timeOffsetS = 0): ExportChannel[] {
   const rng = new Prng(spec.seed * 7919 + Math.round(timeOffsetS));
+  // Rows the logger did not write: one draw per row from its own generator (the cells' draws stay as they were).
+  let keep: number[] | null = null;
+  if (spec.droppedRows) {
+    const rowRng = new Prng(spec.seed * 104729 + 17);
+    keep = [];
+    for (let i = 0; i < cols.time.length; i++) if (!(rowRng.next() < spec.droppedRows)) keep.push(i);
+  }
   return spec.columns.map((c) => {
-    const src = cols[c.channel as keyof SimColumns];
+    const all = cols[c.channel as keyof SimColumns];
+    const src = keep ? Float64Array.from(keep, (i) => all[i]) : all;
     const k = c.factor * (c.invert ? -1 : 1);
     const values = Float64Array.from(src, (v) => (c.channel === "time" ? (v + timeOffsetS) * k : v * k));
     const d = spec.dropouts;

@@ -41,6 +41,15 @@ export interface SimOptions {
   damperNoiseMm?: number;
   /** Road input at each wheel and body heave seen at the dampers (rms, mm; defaults 0.9 and 0.25). */
   roadNoiseMm?: number; bodyNoiseMm?: number;
+  /** Damper potentiometer resolution (mm; readings rounded to it; default 0: none beyond the export's decimals). */
+  damperStepMm?: number;
+  /**
+   * Motion ratio rising with travel: the wheel force from the spring is Ks·MR·x·(1 + r·x), x damper
+   * travel from static (mm), r per mm (default 0: the constant ratio the car file states).
+   */
+  motionRatioRisePerMm?: number;
+  /** Aero load lagging dynamic pressure (first-order time constant, s; default 0). */
+  aeroLagS?: number;
   /** Lap-to-lap pace: a spread (sd of a factor on corner speeds, default 0) and a drift over the stint (default 0). */
   paceSpread?: number; paceDrift?: number;
 }
@@ -83,12 +92,21 @@ function lag(x: Float64Array, dt: number, tau: number): Float64Array {
   return y;
 }
 
+/**
+ * Wheel travel (mm) from damper travel x: dx/dx_w = MR·(1 + r·x) (the rising ratio's local value),
+ * so x_w = ln(1 + r·x)/(r·MR), x/MR when r = 0.
+ */
+function wheelTravelMm(x: number, mr: number, rise: number): number {
+  return rise === 0 ? x / mr : Math.log(1 + rise * x) / (rise * mr);
+}
+
 /** Damper travel (mm) of one corner from its spring-force change (N), with the bump stop engaging at the gap. */
-function damperTravelMm(dF: number, a: SimAxle): number {
+function damperTravelMm(dF: number, a: SimAxle, rise = 0): number {
   const k = a.springNPerMm * a.motionRatio;
-  const x = dF / k;
+  // Spring force at the wheel Ks·MR·x·(1 + r·x) = dF, solved for x (the linear x when r = 0).
+  const x = rise === 0 ? dF / k : (-1 + Math.sqrt(Math.max(0, 1 + (4 * rise * dF) / k))) / (2 * rise);
   if (x <= a.bumpGapMm || a.bumpRateNPerMm <= 0) return x;
-  return a.bumpGapMm + (dF - k * a.bumpGapMm) / ((a.springNPerMm + a.bumpRateNPerMm) * a.motionRatio);
+  return a.bumpGapMm + (dF - k * a.bumpGapMm * (1 + rise * a.bumpGapMm)) / ((a.springNPerMm + a.bumpRateNPerMm) * a.motionRatio);
 }
 
 function corneringStiffness(cc: number, fz: number, fz0: number, sens: number): number {
@@ -138,6 +156,10 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
   const kwR = car.rear.springNPerMm * car.rear.motionRatio ** 2;
   const rearSens = car.claRearPerMmDrop ?? 0;
   const damperNoise = o.damperNoiseMm ?? 0.04;
+  const rise = o.motionRatioRisePerMm ?? 0, step = o.damperStepMm ?? 0;
+  const quant = (x: number) => (step > 0 ? Math.round(x / step) * step : x);
+  // Aero load follows dynamic pressure with a lag (flow and ride height settling): the lagged speed's q.
+  const Vaero = o.aeroLagS ? lag(V, dt, o.aeroLagS) : V;
   // Physical damper travel from static (load, road, body and kerbs; no sensor noise), and the running gate.
   const travel = [0, 1, 2, 3].map(() => new Float64Array(n));
   const runningRow = new Uint8Array(n);
@@ -146,7 +168,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const t = i * dt;
     const fuel = car.fuelBurnKgPerS * t;
     const mass = car.massKg - fuel;
-    const q = 0.5 * rho * V[i] * V[i];
+    const q = 0.5 * rho * Vaero[i] * Vaero[i];
     const lt = (-mass * axChassis[i] * h) / L;
     const fuelF = -fuel * G * frontShare, fuelR = -fuel * G * (1 - frontShare);
     // Each axle's ClA depends on its ride height, which depends on its load: iterate.
@@ -164,8 +186,8 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     const latF = latTotal * car.frontWeightFraction * car.front.rollSpringShare, latR = latTotal * (1 - car.frontWeightFraction) * car.rear.rollSpringShare;
     const axleF = fa + lt + fuelF, axleR = ra - lt + fuelR;
     // ay > 0 (left turn) loads the right-hand wheels.
-    const xfl = damperTravelMm(axleF / 2 - latF, car.front), xfr = damperTravelMm(axleF / 2 + latF, car.front);
-    const xrl = damperTravelMm(axleR / 2 - latR, car.rear), xrr = damperTravelMm(axleR / 2 + latR, car.rear);
+    const xfl = damperTravelMm(axleF / 2 - latF, car.front, rise), xfr = damperTravelMm(axleF / 2 + latF, car.front, rise);
+    const xrl = damperTravelMm(axleR / 2 - latR, car.rear, rise), xrr = damperTravelMm(axleR / 2 + latR, car.rear, rise);
     if (V[i] >= 20 / 3.6 && Math.abs(axChassis[i]) <= 0.6 * G) runningRow[i] = 1;
     // Kerb strike on the inside wheels shortly after some corner exits.
     if (o.kerbs !== false && kerb <= 0 && Math.abs(K[i]) > 1 / 70 && i > 0 && Math.abs(K[i]) < Math.abs(K[i - 1]) && rng.next() < 0.02) kerb = Math.round(0.12 / dt);
@@ -182,12 +204,12 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     travel[1][i] = xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf);
     travel[2][i] = xrl + road[2][i] + body[i];
     travel[3][i] = xrr + road[3][i] + body[i];
-    cols.damper_fl[i] = st.fl + travel[0][i] + damperNoise * rng.gauss();
-    cols.damper_fr[i] = st.fr + travel[1][i] + damperNoise * rng.gauss();
-    cols.damper_rl[i] = st.rl + travel[2][i] + damperNoise * rng.gauss();
-    cols.damper_rr[i] = st.rr + travel[3][i] + damperNoise * rng.gauss();
-    rhF[i] = -((xfl + xfr) / 2) / car.front.motionRatio - axleF / 2 / car.tyreRateNPerMm;
-    rhR[i] = -((xrl + xrr) / 2) / car.rear.motionRatio - axleR / 2 / car.tyreRateNPerMm;
+    cols.damper_fl[i] = quant(st.fl + travel[0][i] + damperNoise * rng.gauss());
+    cols.damper_fr[i] = quant(st.fr + travel[1][i] + damperNoise * rng.gauss());
+    cols.damper_rl[i] = quant(st.rl + travel[2][i] + damperNoise * rng.gauss());
+    cols.damper_rr[i] = quant(st.rr + travel[3][i] + damperNoise * rng.gauss());
+    rhF[i] = -(wheelTravelMm(xfl, car.front.motionRatio, rise) + wheelTravelMm(xfr, car.front.motionRatio, rise)) / 2 - axleF / 2 / car.tyreRateNPerMm;
+    rhR[i] = -(wheelTravelMm(xrl, car.rear.motionRatio, rise) + wheelTravelMm(xrr, car.rear.motionRatio, rise)) / 2 - axleR / 2 / car.tyreRateNPerMm;
     cols.ride_height_front[i] = car.front.staticRideHeightMm + rhF[i] + 0.4 * rng.gauss();
     cols.ride_height_rear[i] = car.rear.staticRideHeightMm + rhR[i] + 0.4 * rng.gauss();
     // Steering: the steady-state relation at the path's demand (the chassis follows with a lag).

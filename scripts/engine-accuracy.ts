@@ -41,6 +41,8 @@ export interface Scenario {
   laps: number;
   withStatic: boolean;
   sim: Partial<SimOptions>;
+  /** Share of rows the logger failed to write (generate.ts LogSpec.droppedRows). */
+  droppedRows?: number;
 }
 
 const base: Scenario = { name: "splitter 50 Hz", car: MARLIN_SR2_SPLITTER, rateHz: 50, laps: 4, withStatic: true, sim: { ...ISSUE_NOISE, paceSpread: 0.01, paceDrift: 0.03 } };
@@ -57,6 +59,13 @@ export const SCENARIOS: Scenario[] = [
   { ...base, name: "rear sensitive too", car: { ...MARLIN_SR2_SPLITTER, claRearPerMmDrop: 0.015 } },
   { ...base, name: "splitter 8 laps", laps: 8 },
   { ...base, name: "Vesper GT 50 Hz", car: { ...VESPER_GT4R, claFrontPerMmDrop: 0.02 } },
+  // Where real logs differ from the engine's assumptions (sample-data/sim.ts options).
+  { ...base, name: "dampers in 0.1 mm steps", sim: { ...base.sim, damperStepMm: 0.1 } },
+  { ...base, name: "motion ratio +0.1 %/mm", sim: { ...base.sim, motionRatioRisePerMm: 0.001 } },
+  { ...base, name: "aero lag 0.1 s", sim: { ...base.sim, aeroLagS: 0.1 } },
+  { ...base, name: "motion ratio +0.4 %/mm", sim: { ...base.sim, motionRatioRisePerMm: 0.004 } },
+  { ...base, name: "1 % rows dropped", droppedRows: 0.01 },
+  { ...base, name: "all real-log effects 200 Hz", rateHz: 200, droppedRows: 0.01, sim: { ...base.sim, damperStepMm: 0.1, motionRatioRisePerMm: 0.001, aeroLagS: 0.1, damperNoiseMm: 0.08 } },
 ];
 
 export interface RunResult {
@@ -67,7 +76,7 @@ export interface RunResult {
 }
 
 function specOf(sc: Scenario, seed: number): LogSpec {
-  return { ...SPLITTER, car: sc.car, rateHz: sc.rateHz, laps: sc.laps, seed, withStatic: sc.withStatic, sim: sc.sim as LogSpec["sim"] };
+  return { ...SPLITTER, car: sc.car, rateHz: sc.rateHz, laps: sc.laps, seed, withStatic: sc.withStatic, sim: sc.sim, droppedRows: sc.droppedRows };
 }
 
 export async function runOne(sc: Scenario, seed: number, fuelGiven: boolean, extra: SummaryOptions = {}): Promise<RunResult> {
