@@ -38,6 +38,28 @@ export class StorageLimitError extends Error {
   }
 }
 
+/**
+ * The store has no room for the file (disk full, quota, or a file-size limit): the upload route answers
+ * 507 Insufficient Storage (RFC 4918, section 11.5) with this sentence. Nothing of the file is kept.
+ */
+export class StorageFullError extends Error {
+  readonly status = 507;
+  constructor(readonly code: string) {
+    super("The server's file store is full, so the file was not stored and nothing of it was kept. Tell whoever runs this Rakeline server to make room, then send the file again.");
+    this.name = "StorageFullError";
+  }
+}
+
+/** ENOSPC (no space), EDQUOT (quota), EFBIG (file-size limit, e.g. RLIMIT_FSIZE) anywhere in the error's causes. */
+export function storageFullCode(error: unknown): string | null {
+  let e = error as { code?: unknown; cause?: unknown } | undefined;
+  for (let depth = 0; e && depth < 5; depth++) {
+    if (typeof e.code === "string" && ["ENOSPC", "EDQUOT", "EFBIG"].includes(e.code)) return e.code;
+    e = e.cause as typeof e;
+  }
+  return null;
+}
+
 export function storageConfigFrom(source: Record<string, string | undefined>): StorageConfig {
   const dir = path.resolve(source.UPLOAD_DIR || ".data/uploads");
   if (!source.S3_BUCKET) return { kind: "fs", dir };
@@ -156,7 +178,8 @@ export function createStorage(config: StorageConfig) {
         await rename(tmp, final);
       } catch (error) {
         await rm(tmp, { force: true });
-        throw error;
+        const full = storageFullCode(error);
+        throw full ? new StorageFullError(full) : error;
       }
       return { storage: "fs", key, bytes: guard.bytes, sha256: guard.digest() };
     }
