@@ -211,7 +211,11 @@ export function createAppListener({ build, clientDir, mode = "production", https
  * requests in flight finish (up to `drainMs`), then exit.
  */
 export async function startHttpServer({ listener, host, port, drainMs = 10_000, onClose }) {
+  let closing = false;
   const server = http.createServer({ requestTimeout: 60 * 60 * 1000, headersTimeout: 60_000 }, (req, res) => {
+    // While draining, a kept-alive connection carries this one request and closes: the client's next
+    // request goes to a server that is taking requests (another instance, or this one once restarted).
+    if (closing) res.setHeader("Connection", "close");
     listener(req, res).catch((error) => {
       console.error(error);
       sendPlain(res, 500, "Internal server error.");
@@ -225,7 +229,6 @@ export async function startHttpServer({ listener, host, port, drainMs = 10_000, 
       resolve();
     });
   });
-  let closing = false;
   const stop = (signal) => {
     if (closing) return;
     closing = true;
