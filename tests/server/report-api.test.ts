@@ -12,6 +12,10 @@ import { BAND_CSV_FIELDS } from "~/lib/report/csv";
 import { appUrl, args, type CookieJar } from "./auth-support";
 import { garageWorld } from "./garage-support";
 import { storeDemoSession } from "./report-support";
+import { eq } from "drizzle-orm";
+import { db } from "~/server/db.server";
+import { analysisSessions } from "~/db/schema/sessions";
+import { summaryTextOf } from "~/server/report/session.server";
 
 let w: Awaited<ReturnType<typeof garageWorld>>;
 let own: Awaited<ReturnType<typeof storeDemoSession>>;
@@ -110,5 +114,27 @@ describe("GET /api/sessions/:id/traces", () => {
     const etag = res.headers.get("etag")!;
     expect((await call(tracesRoute.loader as Loader, `/api/sessions/${own.id}/traces`, own.id, { token, headers: { "if-none-match": etag } })).status).toBe(304);
     expect((await call(tracesRoute.loader as Loader, `/api/sessions/${rivalId}/traces`, rivalId, { token })).status).toBe(404);
+  });
+});
+
+describe("GET /api/sessions/:id passes the stored summary text through", () => {
+  it("answers the stored summary unchanged, and null while a session has no summary of record", async () => {
+    const other = await storeDemoSession("marlin-splitter", { teamId: w.team.id, carId: w.carId, setupId: w.setupId, name: "Not read yet" });
+    const before = await call(summaryRoute.loader as Loader, `/api/sessions/${other.id}`, other.id, { token });
+    const { traces: _traces, ...stored } = other.summary;
+    expect((await before.json()).summary).toEqual(JSON.parse(JSON.stringify(stored)));
+    await db.update(analysisSessions).set({ summary: null, status: "received", updatedAt: new Date() }).where(eq(analysisSessions.id, other.id));
+    const res = await call(summaryRoute.loader as Loader, `/api/sessions/${other.id}`, other.id, { token });
+    expect(res.status).toBe(200);
+    const body = await res.json();
+    expect(body.summary).toBeNull();
+    expect(body.session).toMatchObject({ id: other.id, state: "received" });
+  });
+  it("takes only an object with bands, aero and car as a summary of record (summaryOf's rule on the text)", () => {
+    expect(summaryTextOf(null)).toBeNull();
+    expect(summaryTextOf("[]")).toBeNull();
+    expect(summaryTextOf('{"bands":[],"aero":{}}')).toBeNull();
+    const text = '{"car":{"wheelbase_mm":2500},"aero":{"cla_total_m2":1.2},"bands":[]}';
+    expect(summaryTextOf(text)).toBe(text);
   });
 });

@@ -27,12 +27,15 @@ import type { Route } from "./+types/session";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { session: ["read"] });
   const { sessionId } = ids(params, "sessionId");
-  const { head, summary } = await getSessionReport(ctx.team.id, sessionId);
   const canReanalyse = can(ctx.role, { session: ["upload"] });
-  const [notes, history, setupChoices] = await Promise.all([
-    listAnnotations(ctx.team.id, [head.id]),
-    sessionHistory(ctx.team.id, head.id),
-    canReanalyse ? carSetupVersions(ctx.team.id, head.car.id) : Promise.resolve([]),
+  // The reads are independent (each filters by the team): one round of queries, not two in a row. An
+  // unknown or other team's id answers 404 from getSessionReport; the others then found nothing.
+  const report = getSessionReport(ctx.team.id, sessionId);
+  const [{ head, summary }, notes, history, setupChoices] = await Promise.all([
+    report,
+    listAnnotations(ctx.team.id, [sessionId]),
+    sessionHistory(ctx.team.id, sessionId),
+    canReanalyse ? report.then(({ head }) => carSetupVersions(ctx.team.id, head.car.id)) : Promise.resolve([]),
   ]);
   // Traces are fetched by the charts from the data API; the page carries the summary only.
   const lean = summary ? { ...summary, traces: undefined } : null;

@@ -43,6 +43,11 @@ export async function cachedJson(request: Request, etag: string, body: () => unk
   return new Response(JSON.stringify(await body()), { status: 200, headers: headers(etag, "application/json; charset=utf-8") });
 }
 
+/** JSON already serialised (parts joined as they are), with the validators; the caller has checked If-None-Match. */
+export function jsonTextResponse(etag: string, text: string): Response {
+  return new Response(text, { status: 200, headers: headers(etag, "application/json; charset=utf-8") });
+}
+
 /** CSV as a download, with the validators. */
 export async function cachedCsv(request: Request, etag: string, fileName: string, body: () => string | Promise<string>): Promise<Response> {
   if (notModified(request, etag)) return notModifiedResponse(etag);

@@ -2,7 +2,7 @@
  * Reading one session for the Balance report and the data API: the session row with its car, setup
  * version, venue and driver names, scoped to the team (another team's id is "not found").
  */
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { data } from "react-router";
 import { alias } from "drizzle-orm/mysql-core";
 import { db } from "~/server/db.server";
@@ -132,16 +132,59 @@ function notFound(api: boolean | undefined): never {
   throw data(NOT_FOUND, { status: 404 });
 }
 
-/** The session's last change (for ETags), or a thrown 404. */
-export async function sessionVersion(teamId: string, sessionId: string, api = true) {
-  const rows = await db
+type VersionFields = { updatedAt: Date; checkedAt: Date | null; status: string };
+const versionString = (r: VersionFields) => `${r.updatedAt.getTime()}:${r.checkedAt?.getTime() ?? ""}:${r.status}`;
+
+// The data API's hot reads are prepared once per process (the SQL is built once; only the ids change).
+let versionQuery: ReturnType<typeof prepareVersionQuery> | undefined;
+function prepareVersionQuery() {
+  return db
     .select({ updatedAt: analysisSessions.updatedAt, checkedAt: analysisSessions.checkedAt, status: analysisSessions.status })
     .from(analysisSessions)
-    .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, sessionId)))
-    .limit(1);
+    .where(and(eq(analysisSessions.teamId, sql.placeholder("teamId")), eq(analysisSessions.id, sql.placeholder("sessionId"))))
+    .limit(1)
+    .prepare();
+}
+
+/** The session's last change (for ETags), or a thrown 404. */
+export async function sessionVersion(teamId: string, sessionId: string, api = true) {
+  const rows = await (versionQuery ??= prepareVersionQuery()).execute({ teamId, sessionId });
   if (!rows[0]) notFound(api);
-  const r = rows[0];
-  return `${r.updatedAt.getTime()}:${r.checkedAt?.getTime() ?? ""}:${r.status}`;
+  return versionString(rows[0]);
+}
+
+let apiQuery: ReturnType<typeof prepareApiQuery> | undefined;
+function prepareApiQuery() {
+  return db
+    // The summary as the stored JSON text: the data API passes it through without parsing and re-serialising it.
+    .select({ ...headColumns, summaryText: sql<string | null>`${analysisSessions.summary}` })
+    .from(analysisSessions)
+    .innerJoin(cars, eq(cars.id, analysisSessions.carId))
+    .innerJoin(setups, eq(setups.id, analysisSessions.setupId))
+    .innerJoin(setupSheets, eq(setupSheets.id, setups.sheetId))
+    .leftJoin(venues, eq(venues.id, analysisSessions.venueId))
+    .leftJoin(driver, eq(driver.id, analysisSessions.driverUserId))
+    .where(and(eq(analysisSessions.teamId, sql.placeholder("teamId")), eq(analysisSessions.id, sql.placeholder("sessionId"))))
+    .limit(1)
+    .prepare();
+}
+
+/**
+ * A summary of record's stored text, when it is one (summaryOf's test on the text: an object with bands,
+ * aero and car), else null. The stored text is what JSON.stringify wrote, so it is valid JSON as it stands.
+ */
+export function summaryTextOf(text: string | null): string | null {
+  if (!text || text.charCodeAt(0) !== 123 /* { */) return null;
+  return text.includes('"bands":[') && text.includes('"aero":{') && text.includes('"car":{') ? text : null;
+}
+
+/** The session's details, its version (for the ETag) and its summary of record as JSON text. Throws a JSON 404. */
+export async function getSessionForApi(teamId: string, sessionId: string) {
+  const rows = await (apiQuery ??= prepareApiQuery()).execute({ teamId, sessionId });
+  const row = rows[0];
+  if (!row) notFound(true);
+  const { summaryText, ...head } = row;
+  return { head: headOf(head as HeadRow), version: versionString(row as VersionFields), summaryText: summaryTextOf(summaryText) };
 }
 
 /** A summary of record is present once the engine has read the log; until then the page says so. */
