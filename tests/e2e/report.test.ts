@@ -113,6 +113,43 @@ describe("Balance report in the browser", () => {
     const pages = pdf.toString("latin1").match(/\/Type\s*\/Page(?!s)/g) ?? [];
     expect(pages.length).toBe(1);
   });
+  it("an engineer saves a comparison and makes a Brief link to it; the link opens signed out with both sessions' headlines and the overlay drawn", async () => {
+    const page = browser.page;
+    const engineer = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "engineer@harrowgate.example", password: DEMO_PASSWORD } });
+    expect(engineer.status()).toBe(200);
+    await page.setViewportSize({ width: 1280, height: 900 });
+    await page.goto(`/t/harrowgate/compare?ids=${sessionId},${splitterId}`, { waitUntil: "networkidle" });
+    await page.fill('input[name="name"]', "Splitter against wing");
+    await page.getByRole("button", { name: "Save comparison" }).click();
+    await page.getByText("Saved as “Splitter against wing”.").waitFor();
+    await page.reload({ waitUntil: "networkidle" });
+    await page.getByRole("link", { name: "Brief link for Splitter against wing" }).click();
+    await page.waitForURL(/\/t\/harrowgate\/briefs\?comparison=/);
+    expect(await page.locator('select[name="subject"]').inputValue()).toMatch(/^comparison:/);
+    await page.fill('textarea[name="note"]', "Turn 7 in both runs.");
+    await page.getByRole("button", { name: "Make the link" }).click();
+    const link = await page.getByTestId("brief-link").innerText();
+    expect(link).toMatch(/\/brief\/[A-Za-z0-9_-]{43}$/);
+    // Opened by someone who is not signed in: a fresh context without the team's cookies.
+    const outsider = await browser.context.browser()!.newContext({ baseURL });
+    const driverPage = await outsider.newPage();
+    const errors: string[] = [];
+    driverPage.on("pageerror", (e) => errors.push(e.message));
+    const opened = await driverPage.goto(new URL(link).pathname, { waitUntil: "networkidle" });
+    expect(opened?.status()).toBe(200);
+    expect(opened?.headers()["x-robots-tag"]).toBe("noindex, nofollow");
+    expect(await driverPage.getByTestId("brief-comparison-name").innerText()).toBe("Splitter against wing");
+    expect(await driverPage.getByTestId("brief-headline").count()).toBe(2);
+    expect(await driverPage.getByText("Turn 7 in both runs.").count()).toBe(1);
+    await driverPage.waitForSelector('figure[data-drawn="yes"] canvas');
+    for (const write of ["Re-analyse", "Delete session…", "Add note", "Save comparison"]) expect(await driverPage.getByRole("button", { name: write }).count(), write).toBe(0);
+    await driverPage.screenshot({ path: `${SHOTS}/brief-comparison-1280.png`, fullPage: true });
+    await driverPage.setViewportSize({ width: 390, height: 844 });
+    await driverPage.screenshot({ path: `${SHOTS}/brief-comparison-390.png`, fullPage: true });
+    expect(errors).toEqual([]);
+    await outsider.close();
+  });
+
   it("the owner re-analyses, edits and deletes a note, makes a Brief link from the report, and deletes the session after confirming", async () => {
     const page = browser.page;
     const owner = await browser.context.request.post("/api/auth/sign-in/email", { headers: { origin: baseURL }, data: { email: "demo@harrowgate.example", password: DEMO_PASSWORD } });
