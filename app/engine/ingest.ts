@@ -4,7 +4,7 @@
  * first chunk (for the header) and the partial last row of each chunk are kept.
  */
 import { EngineError, PartUnsafe } from "./errors";
-import { scanHeader } from "./inspect";
+import { bareCrToLf, scanHeader } from "./inspect";
 import { validateChannelMap } from "./mapping";
 import { RowParser } from "./parse-rows";
 import { ALL_CHANNELS } from "./types";
@@ -170,10 +170,12 @@ function createSink(header: LogHeader, checked: CheckedMap, firstLine: number, o
     carry = EMPTY;
     feed(chunk.subarray(firstLf + 1));
   };
+  // CR-only or mixed line ends (inspect.ts): bare CRs become LF before the row parser sees them.
+  const normalise = header.lineEnding === "cr" || header.lineEnding === "mixed" ? bareCrToLf() : null;
   return {
     parser,
     mapped,
-    feed,
+    feed: normalise ? (chunk) => feed(normalise(chunk)) : feed,
     get atRowEnd() {
       return carry.length === 0;
     },

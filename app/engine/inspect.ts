@@ -69,6 +69,31 @@ interface Line {
   number: number;
 }
 
+/** True when a CR is not followed by LF (a CR that ends a head cut mid-file is undecided and not counted). */
+function hasBareCr(bytes: Uint8Array, isWholeFile: boolean): boolean {
+  for (let i = bytes.indexOf(13); i >= 0; i = bytes.indexOf(13, i + 1)) {
+    if (i + 1 < bytes.length ? bytes[i + 1] !== 10 : isWholeFile) return true;
+  }
+  return false;
+}
+
+/**
+ * A converter of a byte stream, chunk by chunk, that turns every CR not followed by LF into LF (a copy of
+ * the chunk; CRLF stays). A CRLF split between two chunks is one line end: the CR at the end of a chunk
+ * becomes LF, and an LF that starts the next chunk is then dropped.
+ */
+export function bareCrToLf(): (chunk: Uint8Array) => Uint8Array {
+  let endedWithCr = false;
+  return (chunk) => {
+    const out = chunk.slice(endedWithCr && chunk[0] === 10 ? 1 : 0);
+    for (let i = out.indexOf(13); i >= 0; i = out.indexOf(13, i + 1)) {
+      if (out[i + 1] !== 10) out[i] = 10;
+    }
+    if (chunk.length) endedWithCr = chunk[chunk.length - 1] === 13;
+    return out;
+  };
+}
+
 function readLines(bytes: Uint8Array, from: number, isWholeFile: boolean): { lines: Line[]; crlf: boolean } {
   const lines: Line[] = [];
   let crlf = false;
@@ -153,10 +178,10 @@ function unitFromName(name: string): string | null {
 export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan {
   checkIsText(bytes);
   const bom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
-  if (bytes.indexOf(10) < 0 && bytes.indexOf(13) >= 0) {
-    throw new EngineError("no_header", "no header found: the lines end with a carriage return only (an old Mac line ending); save the export with LF or CRLF line ends");
-  }
-  const { lines, crlf } = readLines(bytes, bom ? 3 : 0, isWholeFile);
+  // A CR not followed by LF ends a line too (old Mac exports, or such lines mixed in): the head is read
+  // with those CRs as LF (same length, so offsets hold), and the row parser's input is treated alike.
+  const bareCr = hasBareCr(bytes, isWholeFile);
+  const { lines, crlf } = readLines(bareCr ? bareCrToLf()(bytes) : bytes, bom ? 3 : 0, isWholeFile);
   const found = detectDelimiter(lines);
   const noHeader = (why: string) =>
     new EngineError("no_header", `no header found: ${why}. Expected a line of column names followed by rows of numbers separated by commas, semicolons or tabs`);
@@ -233,7 +258,7 @@ export function scanHeader(bytes: Uint8Array, isWholeFile: boolean): HeaderScan 
     textSamples,
     unitsRow,
     bom,
-    lineEnding: crlf ? "crlf" : "lf",
+    lineEnding: bareCr ? (bytes.indexOf(10) < 0 ? "cr" : "mixed") : crlf ? "crlf" : "lf",
     headerLine: lines[h].number,
     notes,
   };

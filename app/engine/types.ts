@@ -94,7 +94,8 @@ export interface LogHeader {
   unitsRow: boolean;
   /** True when the file starts with a UTF-8 byte-order mark. */
   bom: boolean;
-  lineEnding: "lf" | "crlf";
+  /** "cr": lines end with a carriage return only (old Mac); "mixed": bare CRs beside LF or CRLF. Both are read as line ends. */
+  lineEnding: "lf" | "crlf" | "cr" | "mixed";
   /** 1-based line number of the header in the file. */
   headerLine: number;
   /** Plain-language remarks for the mapping screen (duplicate names renamed, dialect found…). */

@@ -37,12 +37,6 @@ describe("ingestLog error paths", () => {
     expect(e.code).toBe("no_header");
   });
 
-  it("lines ended by a carriage return only", async () => {
-    const e = await failure(new TextEncoder().encode(stint(300).replace(/\n/g, "\r")));
-    expect(e.code).toBe("no_header");
-    expect(e.message).toMatch(/carriage return only/);
-  });
-
   it("too few rows: says how many there are", async () => {
     const e = await failure(bytesOf([stint(150)]));
     expect(e.code).toBe("too_few_rows");
