@@ -24,6 +24,8 @@ export interface SimCar {
   claFrontM2: number; claRearM2: number; claFrontPerMmDrop: number; cdaM2: number;
   /** Rear ClA change per mm the rear drops (share of claRearM2 per mm; default 0: rear out of ground effect). */
   claRearPerMmDrop?: number;
+  /** Front ClA's curvature in ride height: share of claFrontM2 per mm² of drop (default 0: linear; ground effect steepens as the gap closes). */
+  claFrontPerMm2Drop?: number;
   powerW: number; muLat: number; muBrake: number; cornerSpeedFactor: number;
   tyreRateNPerMm: number; loadSensitivity: number;
   fuelBurnKgPerS: number;
@@ -177,7 +179,7 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
       const dF = fa + lt + fuelF, dR = ra - lt + fuelR;
       const dropF = dF / 2 / kwF + dF / 2 / car.tyreRateNPerMm;
       const dropR = dR / 2 / kwR + dR / 2 / car.tyreRateNPerMm;
-      fa = car.claFrontM2 * q * (1 + car.claFrontPerMmDrop * dropF);
+      fa = car.claFrontM2 * q * (1 + car.claFrontPerMmDrop * dropF + (car.claFrontPerMm2Drop ?? 0) * dropF * dropF);
       ra = car.claRearM2 * q * (1 + rearSens * dropR);
     }
     aeroF[i] = fa;

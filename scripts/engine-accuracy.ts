@@ -1,12 +1,13 @@
 /**
- * npx tsx scripts/engine-accuracy.ts [--quick] [--only NAME] [--json FILE]
+ * npx tsx scripts/engine-accuracy.ts [--quick] [--seeds N] [--only NAME] [--json FILE]
  *
  * The engine against the simulator's truth over a spread of generated stints (sample-data/sim.ts):
  * several seeds, fuel given and not, 10/50/200 Hz, sensor noise at and above the engine issue's
  * levels, lap-speed drift, weaker and stronger front ride-height sensitivity, a car whose rear is
  * ride-height sensitive too, and the closed GT. Prints, per scenario, the worst error over its runs:
  * band balance (points), per-axle band ClA (m²), understeer gradient (deg/g), ride-height change
- * (mm) and the balance shift (points), then the worst single cases.
+ * (mm) and the balance shift (points), the share of bands whose 95 % balance interval holds the
+ * truth, then the worst single cases.
  *
  * Tolerances printed beside them are the engine issue's (band balance 1 point, shift 0.75 point,
  * understeer 0.15 deg/g); ride height 0.5 mm is the truth tests' own bar. Bands are judged as the
@@ -56,6 +57,7 @@ export const SCENARIOS: Scenario[] = [
   { ...base, name: "splitter pace drift 6%", sim: { ...base.sim, paceSpread: 0.02, paceDrift: 0.06 } },
   { ...base, name: "weak splitter (0.02/mm)", car: { ...MARLIN_SR2_SPLITTER, claFrontPerMmDrop: 0.02 } },
   { ...base, name: "strong splitter (0.05/mm)", car: { ...MARLIN_SR2_SPLITTER, claFrontPerMmDrop: 0.05 } },
+  { ...base, name: "splitter ClA curved in ride height", car: { ...MARLIN_SR2_SPLITTER, claFrontPerMmDrop: 0.02, claFrontPerMm2Drop: 0.0012 } },
   { ...base, name: "rear sensitive too", car: { ...MARLIN_SR2_SPLITTER, claRearPerMmDrop: 0.015 } },
   { ...base, name: "splitter 8 laps", laps: 8 },
   { ...base, name: "Vesper GT 50 Hz", car: { ...VESPER_GT4R, claFrontPerMmDrop: 0.02 } },
@@ -71,6 +73,8 @@ export const SCENARIOS: Scenario[] = [
 export interface RunResult {
   scenario: string; seed: number; fuelGiven: boolean;
   balance: number[]; claF: number[]; claR: number[]; us: number[]; usMissing: number; rh: number[];
+  /** Per checked band: 1 when the balance's 95 % interval holds the truth, 0 when not. */
+  covered: number[];
   shift: number | null; shiftTruth: number | null; shiftBandsAgree: boolean; model: string;
   bandLabels: string[];
 }
@@ -92,13 +96,15 @@ export async function runOne(sc: Scenario, seed: number, fuelGiven: boolean, ext
 
 export function compare(name: string, seed: number, fuelGiven: boolean, s: SessionSummary, truth: SimTruth, massKg: number): RunResult {
   const rate = s.sample_rate_hz ?? 1;
-  const out: RunResult = { scenario: name, seed, fuelGiven, balance: [], claF: [], claR: [], us: [], usMissing: 0, rh: [], shift: null, shiftTruth: null, shiftBandsAgree: true, model: s.aero.variation_model, bandLabels: [] };
+  const out: RunResult = { scenario: name, seed, fuelGiven, balance: [], claF: [], claR: [], us: [], usMissing: 0, rh: [], covered: [], shift: null, shiftTruth: null, shiftBandsAgree: true, model: s.aero.variation_model, bandLabels: [] };
   s.bands.forEach((band, b) => {
     const t = truth.bands[b];
     out.bandLabels.push(`${band.min_kmh}-${band.max_kmh}`);
     const aeroOk = t.balance_front_pct !== null && band.aero_samples >= 20 * rate && t.aero_load_front_n! + t.aero_load_rear_n! >= 0.05 * massKg * G;
     if (aeroOk && band.mean_dynamic_pressure_pa) {
       out.balance[b] = band.balance_front_pct === null ? NaN : band.balance_front_pct - t.balance_front_pct!;
+      const ci = band.balance_front_ci95_pct;
+      if (ci) out.covered.push(ci[0] <= t.balance_front_pct! && t.balance_front_pct! <= ci[1] ? 1 : 0);
       // ClA per axle from the band's mean aero load over the band's mean q (the engine's q; truth's load).
       out.claF[b] = (band.aero_load_front_n! - t.aero_load_front_n!) / band.mean_dynamic_pressure_pa;
       out.claR[b] = (band.aero_load_rear_n! - t.aero_load_rear_n!) / band.mean_dynamic_pressure_pa;
@@ -136,10 +142,11 @@ async function main(): Promise<void> {
   const quick = args.includes("--quick");
   const only = args.includes("--only") ? args[args.indexOf("--only") + 1] : undefined;
   const jsonOut = args.includes("--json") ? args[args.indexOf("--json") + 1] : undefined;
-  const seeds = quick ? [41, 42] : [41, 42, 43];
+  const nSeeds = args.includes("--seeds") ? Number(args[args.indexOf("--seeds") + 1]) : quick ? 2 : 3;
+  const seeds = Array.from({ length: nSeeds }, (_, i) => 41 + i);
   const all: RunResult[] = [];
   console.log("errors are engine − truth (our computed numbers); worst |error| over seeds × fuel given/not");
-  console.log(`${"scenario".padEnd(28)}${"fuel".padEnd(6)}${"bal".padStart(7)}${"bal80".padStart(7)}${"claF".padStart(7)}${"claR".padStart(7)}${"shift".padStart(7)}${"US".padStart(7)}${"USmiss".padStart(7)}${"RH".padStart(7)}  model`);
+  console.log(`${"scenario".padEnd(28)}${"fuel".padEnd(6)}${"bal".padStart(7)}${"bal80".padStart(7)}${"claF".padStart(7)}${"claR".padStart(7)}${"shift".padStart(7)}${"US".padStart(7)}${"USmiss".padStart(7)}${"RH".padStart(7)}${"cover".padStart(7)}  model`);
   for (const sc of SCENARIOS) {
     if (only && !sc.name.includes(only)) continue;
     for (const fuelGiven of [true, false]) {
@@ -151,7 +158,9 @@ async function main(): Promise<void> {
       const shift = worst(rs.map((r) => r.shift ?? undefined)), us = worst(rs.flatMap((r) => r.us)), rh = worst(rs.flatMap((r) => r.rh));
       const miss = rs.reduce((a, r) => a + r.usMissing, 0);
       const models = [...new Set(rs.map((r) => r.model))].join(",");
-      console.log(`${sc.name.padEnd(28)}${(fuelGiven ? "given" : "no").padEnd(6)}${f(bal)}${f(bal80)}${f(claF, 3)}${f(claR, 3)}${f(shift)}${f(us, 3)}${String(miss).padStart(7)}${f(rh)}  ${models}${rs.some((r) => !r.shiftBandsAgree) ? " (shift bands differ)" : ""}`);
+      const cov = rs.flatMap((r) => r.covered);
+      const cover = cov.length ? (100 * cov.reduce((x, y) => x + y, 0)) / cov.length : NaN;
+      console.log(`${sc.name.padEnd(28)}${(fuelGiven ? "given" : "no").padEnd(6)}${f(bal)}${f(bal80)}${f(claF, 3)}${f(claR, 3)}${f(shift)}${f(us, 3)}${String(miss).padStart(7)}${f(rh)}${f(cover, 0)}%  ${models}${rs.some((r) => !r.shiftBandsAgree) ? " (shift bands differ)" : ""}`);
     }
   }
   console.log("\nlimits: bal 1.00, shift 0.75, US 0.150 deg/g, RH 0.50 mm; bal80 = mean signed balance error of the 80–120 band");

@@ -57,10 +57,11 @@ export const BAND_CUR_STRIDE = 5;
 export const CUR_SUMS = 17;
 /**
  * Per band, sums over the time blocks that held enough of its samples, of the block means m_f,
- * m_r and the block's mean time τ: B, Σm_f, Σm_f², Σm_r, Σm_r², Σm_f·m_r, Στ, Στ², Στ·m_f, Στ·m_r.
- * They give the band loads' sampling spread from block means (autocorrelated samples).
+ * m_r, the block's mean time τ and mean dynamic pressure q: B, Σm_f, Σm_f², Σm_r, Σm_r², Σm_f·m_r,
+ * Στ, Στ², Στ·m_f, Στ·m_r, Σq, Σq², Σq·m_f, Σq·m_r, Στ·q. They give the band loads' sampling spread
+ * from block means (autocorrelated samples).
  */
-export const BAND_BLOCK_STRIDE = 10;
+export const BAND_BLOCK_STRIDE = 15;
 const BS = BAND_STRIDE; // band stride: n, Στ, Σq, ΣF_front, ΣF_rear, Σdamp_front, Σdamp_rear, ΣRH_f, n_RH_f, ΣRH_r, n_RH_r, Στq, Σq², Σq·ax, Σq³
 
 /**
@@ -134,6 +135,8 @@ export class AeroAccumulator {
         const t = bc[oc + 1] / nb, mf = bc[oc + 2] / nb, mr = bc[oc + 3] / nb, o = b * BAND_BLOCK_STRIDE;
         bb[o]++; bb[o + 1] += mf; bb[o + 2] += mf * mf; bb[o + 3] += mr; bb[o + 4] += mr * mr; bb[o + 5] += mf * mr;
         bb[o + 6] += t; bb[o + 7] += t * t; bb[o + 8] += t * mf; bb[o + 9] += t * mr;
+        const qb = bc[oc + 4] / nb;
+        bb[o + 10] += qb; bb[o + 11] += qb * qb; bb[o + 12] += qb * mf; bb[o + 13] += qb * mr; bb[o + 14] += t * qb;
       }
     }
     bc.fill(0);
@@ -141,18 +144,27 @@ export class AeroAccumulator {
 
   /**
    * Sampling spread of one band's mean axle loads from its block means, the fitted drift taken out
-   * of each (u = m − drift·τ): the number of blocks and the variances and covariance of u_f, u_r.
-   * The fit's intercept is common to every sample of the band and is not part of this spread.
+   * of each (u = m − drift·τ) and the part that follows the block's dynamic pressure too (the aero
+   * load rises with q across a band: the same q in the truth, not an error of the mean): the number
+   * of blocks and the residual variances and covariance of u_f, u_r about their line in q. The
+   * fit's intercept is common to every sample of the band and is not part of this spread.
    */
   bandBlockSpread(band: number, driftFront: number, driftRear: number): { blocks: number; varF: number; varR: number; cov: number } {
     const bb = this.bandBlocks, o = band * BAND_BLOCK_STRIDE, B = bb[o];
-    if (B < 2) return { blocks: B, varF: NaN, varR: NaN, cov: NaN };
-    const [sf, sff, sr, srr, sfr, st, stt, stf, str] = [bb[o + 1], bb[o + 2], bb[o + 3], bb[o + 4], bb[o + 5], bb[o + 6], bb[o + 7], bb[o + 8], bb[o + 9]];
+    if (B < 3) return { blocks: B, varF: NaN, varR: NaN, cov: NaN };
+    const [sf, sff, sr, srr, sfr, st, stt, stf, str, sq, sqq, sqf, sqr, stq] = [bb[o + 1], bb[o + 2], bb[o + 3], bb[o + 4], bb[o + 5], bb[o + 6], bb[o + 7], bb[o + 8], bb[o + 9], bb[o + 10], bb[o + 11], bb[o + 12], bb[o + 13], bb[o + 14]];
     const df = driftFront, dr = driftRear;
-    const uf = (sf - df * st) / B, ur = (sr - dr * st) / B;
-    const varF = (sff - 2 * df * stf + df * df * stt - B * uf * uf) / (B - 1);
-    const varR = (srr - 2 * dr * str + dr * dr * stt - B * ur * ur) / (B - 1);
-    const cov = (sfr - dr * stf - df * str + df * dr * stt - B * uf * ur) / (B - 1);
+    const uf = (sf - df * st) / B, ur = (sr - dr * st) / B, qm = sq / B;
+    // Centred sums of squares and products (B − 1 times the sample (co)variances).
+    const cff = sff - 2 * df * stf + df * df * stt - B * uf * uf;
+    const crr = srr - 2 * dr * str + dr * dr * stt - B * ur * ur;
+    const cfr = sfr - dr * stf - df * str + df * dr * stt - B * uf * ur;
+    const cqq = sqq - B * qm * qm;
+    const cqf = sqf - df * stq - B * qm * uf, cqr = sqr - dr * stq - B * qm * ur;
+    // Residuals about the line in q (one more degree of freedom used); without spread in q, about the mean.
+    const k = cqq > 1e-9 * (sqq + 1) ? 1 / cqq : 0;
+    const dof = k > 0 ? B - 2 : B - 1;
+    const varF = (cff - cqf * cqf * k) / dof, varR = (crr - cqr * cqr * k) / dof, cov = (cfr - cqf * cqr * k) / dof;
     return { blocks: B, varF: Math.max(0, varF), varR: Math.max(0, varR), cov };
   }
 

@@ -5,15 +5,16 @@
  * aero load is a few hundred newtons and road input at the wheels moves its mean by several. The
  * chosen model (one ClA, or ClA linear in ride height), fitted on the whole stint, predicts the same mean with
  * far less noise, but only as well as the model fits. Each band therefore takes the model's
- * prediction plus its own residual (band mean − prediction) shrunk by the empirical-Bayes factor
- * λ = τ²/(τ² + v): v is the residual's sampling variance (from the band's 1 s block means), τ² the
- * model's misfit at that band, estimated by the method of moments of DerSimonian & Laird
- * (Controlled Clinical Trials 7, 1986, from memory) with the centre fixed at the model (the residuals
- * of a right model average zero) and each band taken on its own, τ² = max(0, r² − v): a misfit
- * pooled over all bands would hide one that only the slow band shows (its aero load is small, so
- * what is a few newtons there is points of balance). A residual well above its noise keeps λ near 1
- * (the band's own mean); one within the noise is pooled. Efron & Morris (JASA 70, 1975) on why such
- * shrinkage beats the separate means (from memory).
+ * prediction plus its own residuals (band mean − prediction, both axles) shrunk by the
+ * empirical-Bayes factor λ = τ²/(1 + τ²): τ² is the model's misfit between bands in units of each
+ * band's residual sampling covariance Σ (from its 1 s block means, about their line in q), estimated
+ * by the method of moments of DerSimonian & Laird (Controlled Clinical Trials 7, 1986, from memory)
+ * with the centre fixed at the model (the residuals of a right model average zero). Residuals well
+ * above their noise give λ near 1 (the bands' own means); residuals within it are pooled. Both axles
+ * are judged together against Σ because road input and heave move both axles' means at once.
+ * Efron & Morris (JASA 70, 1975) on why such shrinkage beats the separate means (from memory).
+ * What it cannot see: a misfit in one band alone while the others agree with the model is partly
+ * pooled away; the interval carries that move (below).
  */
 import type { ModelFit } from "./aero-model";
 import type { BandAeroSums } from "./aero";
@@ -27,7 +28,7 @@ export interface BandPoolInput {
 
 export interface PooledBand {
   load: number;
-  /** Variance of the pooled load from sampling and model (N²), without the static load's own. */
+  /** Variance of the pooled load for its interval (N²): sampling, model, and the pooling's own move; without the static load's. */
   variance: number;
   /** Weight of the band's own residual (1 = the band's mean as measured). */
   lambda: number;
@@ -64,21 +65,56 @@ function quadForm(cov: number[], x: number[]): number {
   return Number.isFinite(v) ? Math.max(0, v) : 0;
 }
 
+/** One band's pooled loads on both axles, with the common weight of its own residual. */
+export interface PooledPair {
+  front: PooledBand;
+  rear: PooledBand;
+  lambda: number;
+  /** Covariance of the two pooled loads for the balance's interval (N²). */
+  cov: number;
+}
+
+/** A band's residuals against the model and their Mahalanobis size z² = rᵀΣ⁻¹r; null when it cannot count. */
+function residual(model: ModelFit, a: BandAeroSums, b: number, x: BandPair): { pf: { load: number; x: number[] }; pr: { load: number; x: number[] }; rf: number; rr: number; z2: number } | null {
+  const pf = bandPrediction(model, "front", a, b), pr = bandPrediction(model, "rear", a, b);
+  const vf = x.front.variance, vr = x.rear.variance, c = x.cov, det = vf * vr - c * c;
+  if (!pf || !pr || x.front.blocks < MIN_POOL_BLOCKS || !(vf > 0) || !(vr > 0) || !(det > 0)) return null;
+  const rf = x.front.load - pf.load, rr = x.rear.load - pr.load;
+  return { pf, pr, rf, rr, z2: (rf * rf * vr - 2 * rf * rr * c + rr * rr * vf) / det };
+}
+
+export interface BandPair { front: BandPoolInput; rear: BandPoolInput; cov: number }
+
 /**
- * Pooled loads of one axle over all bands (null entries where a band has no load). Bands without
- * a usable prediction or spread keep their own mean (λ = 1).
+ * Pooled loads of both axles over all bands (null where a band has no load). Each band's residuals
+ * r = (r_f, r_r) are sized against their sampling covariance Σ (block means; road input and heave
+ * move both axles at once): z² = rᵀΣ⁻¹r has mean 2(1 + τ²) when the model's misfit has covariance
+ * τ²Σ, so over the k bands that count τ² = max(0, Σz²/(2k) − 1), and every band takes the weight
+ * λ = τ²/(1 + τ²) of its own residual. Bands without a usable prediction or spread keep their own
+ * means (λ = 1).
  */
-export function poolBands(model: ModelFit | undefined, side: "front" | "rear", a: BandAeroSums, input: (BandPoolInput | null)[]): (PooledBand | null)[] {
-  const pred = input.map((x, b) => (x && model ? bandPrediction(model, side, a, b) : null));
+export function poolBands(model: ModelFit | undefined, a: BandAeroSums, input: (BandPair | null)[]): (PooledPair | null)[] {
+  const res = input.map((x, b) => (x && model ? residual(model, a, b, x) : null));
+  let zs = 0, k = 0;
+  for (const r of res) if (r) { zs += r.z2; k++; }
+  const tau2 = k > 0 ? Math.max(0, zs / (2 * k) - 1) : Infinity;
+  const lambda = Number.isFinite(tau2) ? tau2 / (1 + tau2) : 1;
   return input.map((x, b) => {
     if (!x) return null;
-    const p = pred[b];
-    if (!p || !model || x.blocks < MIN_POOL_BLOCKS || !(x.variance > 0)) return { load: x.load, variance: x.variance, lambda: 1, prediction: p ? p.load : NaN };
-    // The band's own misfit: τ² = max(0, r² − v) (the moment estimator on this band alone).
-    const r = x.load - p.load, v = x.variance;
-    const tau2 = Math.max(0, r * r - v);
-    const lambda = tau2 / (tau2 + v);
-    const predVar = quadForm(model[side].cov, p.x);
-    return { load: p.load + lambda * (x.load - p.load), variance: lambda * x.variance + (1 - lambda) ** 2 * predVar, lambda, prediction: p.load };
+    const r = res[b];
+    if (!r || !model) {
+      const pf = model ? bandPrediction(model, "front", a, b) : null, pr = model ? bandPrediction(model, "rear", a, b) : null;
+      return { front: { ...x.front, lambda: 1, prediction: pf ? pf.load : NaN }, rear: { ...x.rear, lambda: 1, prediction: pr ? pr.load : NaN }, lambda: 1, cov: x.cov };
+    }
+    // λ·v + (1 − λ)²·Var(prediction) is the pooled load's error variance when the misfit is τ²Σ; a
+    // misfit in one band alone hides in the pooled τ², so the interval also carries what pooling
+    // moved the band from its own mean, ((1 − λ)·r)².
+    const pooled = (p: { load: number; x: number[] }, res: number, v: number, side: "front" | "rear"): PooledBand => ({
+      load: p.load + lambda * res,
+      variance: lambda * v + (1 - lambda) ** 2 * (quadForm(model[side].cov, p.x) + res * res),
+      lambda,
+      prediction: p.load,
+    });
+    return { front: pooled(r.pf, r.rf, x.front.variance, "front"), rear: pooled(r.pr, r.rr, x.rear.variance, "rear"), lambda, cov: lambda * x.cov + (1 - lambda) ** 2 * r.rf * r.rr };
   });
 }

@@ -53,12 +53,11 @@ export function bandStage(s: SummaryState, aero: AeroStage, warn: Warn): BandSta
     };
   });
   const model = aero.variation && aero.variation.chosen !== "speed_band" ? aero.variation.models[aero.variation.chosen] : undefined;
-  const pooledF = poolBands(model, "front", a, raw.map((x) => x && x.front));
-  const pooledR = poolBands(model, "rear", a, raw.map((x) => x && x.rear));
+  const pooled = poolBands(model, a, raw.map((x) => x && { front: x.front, rear: x.rear, cov: x.spread.cov / x.spread.blocks }));
   for (let b = 0; b < s.bandCount; b++) {
     const label = `${edges[b]}–${edges[b + 1]} km/h`;
     const n = a.n[b];
-    const pf = pooledF[b], pr = pooledR[b], spread = raw[b]?.spread ?? null;
+    const pair = pooled[b], pf = pair?.front ?? null, pr = pair?.rear ?? null, spread = raw[b]?.spread ?? null;
     const loadF = pf ? pf.load : NaN;
     const loadR = pr ? pr.load : NaN;
     const qMean = n > 0 ? a.sq[b] / n : NaN;
@@ -81,7 +80,7 @@ export function bandStage(s: SummaryState, aero: AeroStage, warn: Warn): BandSta
       if (Number.isFinite(bal)) {
         const total = loadF + loadR;
         const gF = (100 * loadR) / (total * total), gR = (-100 * loadF) / (total * total);
-        const v = gF * gF * vF + gR * gR * vR + (2 * gF * gR * spread.cov * pf.lambda * pr.lambda) / spread.blocks;
+        const v = gF * gF * vF + gR * gR * vR + 2 * gF * gR * pair!.cov;
         balCi = interval95(bal, Math.sqrt(Math.max(0, v)), spread.blocks - 1);
       }
     }

@@ -1,0 +1,16 @@
+import { analyseLog } from "../app/engine/analyse";
+import { DEFAULT_BAND_EDGES_KMH } from "../app/engine/bands";
+import { writeExport } from "../sample-data/export-writer";
+import { exportColumns, LOGS, mapFor } from "../sample-data/generate";
+import { carFile, KESTREL_BANK } from "../sample-data/scenario";
+import { simulateStint } from "../sample-data/sim";
+import { SCENARIOS } from "./engine-accuracy";
+const sc = SCENARIOS.find((s) => s.name === process.argv[2])!;
+const seed = Number(process.argv[3]);
+const SPL = LOGS.find((l) => l.file === "marlin-kestrel-splitter.csv")!;
+const spec = { ...SPL, car: sc.car, rateHz: sc.rateHz, laps: sc.laps, seed, withStatic: sc.withStatic, sim: sc.sim };
+const { columns, truth } = simulateStint(sc.car, KESTREL_BANK, { laps: sc.laps, rateHz: sc.rateHz, seed, airDensityKgM3: 1.225, bandEdgesKmh: [...DEFAULT_BAND_EDGES_KMH], ...sc.sim });
+const bytes = new TextEncoder().encode([...writeExport(exportColumns(spec, columns), spec.metadata, spec.dialect)].join(""));
+const s = await analyseLog((async function* () { yield bytes; })(), carFile(sc.car, sc.withStatic), mapFor(spec), { fuel: { startKg: 29.6, endKg: 29.6 - truth.fuel_burnt_kg } });
+console.log(JSON.stringify(s.aero.variation_criterion.scores));
+s.bands.forEach((b, i) => console.log(b.min_kmh, "F", b.aero_load_front_n, "truth", truth.bands[i].aero_load_front_n?.toFixed(1), "R", b.aero_load_rear_n, "truth", truth.bands[i].aero_load_rear_n?.toFixed(1), "bal", b.balance_front_pct, truth.bands[i].balance_front_pct?.toFixed(2), "ci", b.balance_front_ci95_pct));
