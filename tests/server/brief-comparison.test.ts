@@ -16,6 +16,9 @@ import { briefHeadline } from "~/lib/brief-words";
 import { balanceOverlay } from "~/lib/report/overlay";
 import * as briefsPage from "~/routes/brief/briefs";
 import * as briefPage from "~/routes/brief/brief";
+import * as sharedPage from "~/routes/brief/shared";
+import * as dashboard from "~/routes/teams/dashboard";
+import { waitForMailTo } from "./helpers/mail";
 import { args, formRequest, getRequest, outcome } from "./auth-support";
 import { garageWorld, type Who } from "./garage-support";
 import { storeDemoSession } from "./report-support";
@@ -91,6 +94,20 @@ describe("Brief link to a saved comparison", () => {
     expect(body.preselect).toBe(`comparison:${comparisonId}`);
     expect(body.comparisons).toEqual([{ id: comparisonId, name: "Splitter against wing", count: 2 }]);
     expect(body.briefs.find((x) => x.kind === "comparison")?.sessionName).toBe("Splitter against wing");
+  });
+
+  it("sent to the team's driver: the mail names the comparison, their dashboard lists it, and it opens for them there", async () => {
+    expect((await create("owner", { subject: `comparison:${comparisonId}`, email: "driver@harrowgate.example", note: "Both runs, turn 7" })).status).toBe(200);
+    const mail = await waitForMailTo("driver@harrowgate.example", 15_000);
+    expect(mail.subject).toBe("Driver brief: comparison “Splitter against wing”");
+    const dash = await outcome(() => dashboard.loader(args(getRequest(`/t/${w.team.slug}`, w.jars.driver), { teamSlug: w.team.slug })));
+    const shared = (dash.body as { sharedBriefs: { id: string; sessionName: string }[] }).sharedBriefs;
+    const mine = shared.find((x) => x.sessionName === "Splitter against wing");
+    expect(mine).toBeDefined();
+    const opened = await outcome(() => sharedPage.loader(args(getRequest(`/brief/shared/${mine!.id}`, w.jars.driver), { briefId: mine!.id })));
+    expect(opened.status).toBe(200);
+    expect((opened.body as { brief: ComparisonBrief }).brief.sessions).toHaveLength(2);
+    expect((await outcome(() => sharedPage.loader(args(getRequest(`/brief/shared/${mine!.id}`, w.jars.analyst), { briefId: mine!.id })))).status).toBe(404);
   });
 
   it("a session deleted since is left out; with none left the link opens nothing", async () => {
