@@ -7,9 +7,9 @@
 // and its file. Runs in the browser-test stage because it needs the build (npm test builds it first).
 import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { existsSync } from "node:fs";
+import { existsSync, rmSync } from "node:fs";
 import path from "node:path";
-import { inArray } from "drizzle-orm";
+import { eq, inArray } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { rawUploads } from "~/db/schema/sessions";
 import { createApiToken } from "~/server/api-tokens.server";
@@ -71,6 +71,11 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await stopServer("SIGKILL");
+  // The loop's uploads (a few hundred small files) are not kept in the shared test folder.
+  if (w) {
+    await db.delete(rawUploads).where(eq(rawUploads.teamId, w.teamId)).catch(() => undefined);
+    rmSync(path.join((storage().config as { dir: string }).dir, "teams", w.teamId), { recursive: true, force: true });
+  }
   await pool.end().catch(() => undefined);
 });
 

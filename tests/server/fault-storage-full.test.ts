@@ -4,7 +4,9 @@
 // to the user (507 Insufficient Storage, RFC 4918 section 11.5, with a sentence saying the store is full),
 // no part file or half-written object left, no upload or session row; once there is room again the same
 // upload works.
-import { existsSync, readdirSync, readFileSync } from "node:fs";
+import { spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { Writable } from "node:stream";
 import { eq } from "drizzle-orm";
@@ -109,5 +111,37 @@ describe("fault: the upload store is full", () => {
     expect((res.body as { error: string }).error).toMatch(/file store is full/);
     expect(await snapshot()).toEqual(before);
     console.log("fault: store full mid-upload (API) → 507, 0 sessions, 0 upload rows, no part file or object: held");
+  });
+
+  it("a real write refused by the operating system (RLIMIT_FSIZE via ulimit -f: EFBIG) is the same StorageFullError, nothing left", () => {
+    // POSIX setrlimit(): writing past RLIMIT_FSIZE fails with EFBIG once SIGXFSZ is ignored (Node ignores it).
+    const dir = mkdtempSync(path.join(os.tmpdir(), "rakeline-full-"));
+    try {
+      const script = `
+        import { readdirSync } from "node:fs";
+        import { Readable } from "node:stream";
+        import { createStorage } from ${JSON.stringify(path.resolve("app/server/storage.server.ts"))};
+        const dir = ${JSON.stringify(dir)};
+        const store = createStorage({ kind: "fs", dir });
+        const list = (d) => { try { return readdirSync(d, { recursive: true }); } catch { return []; } };
+        try {
+          await store.putStream(Readable.from([Buffer.alloc(2 * 1024 * 1024, 0x31)]), { keyPrefix: "teams/t1" });
+          console.log(JSON.stringify({ stored: true }));
+        } catch (e) {
+          console.log(JSON.stringify({ name: e.name, code: e.code, status: e.status, message: e.message, parts: list(dir + "/.partial"), objects: list(dir + "/teams") }));
+        }`;
+      // ulimit -f counts 512-byte blocks in bash: 256 blocks = 128 KiB.
+      const child = spawnSync("bash", ["-c", `ulimit -f 256 && exec "${process.execPath}" --import tsx --input-type=module -e "$SCRIPT"`], {
+        env: { ...process.env, SCRIPT: script },
+        encoding: "utf8",
+        timeout: 30_000,
+      });
+      const outcome = JSON.parse(child.stdout.trim().split("\n").pop() || "{}");
+      expect(outcome, child.stderr).toMatchObject({ name: "StorageFullError", code: "EFBIG", status: 507, parts: [], objects: [] });
+      expect(outcome.message).toMatch(/file store is full/);
+      console.log(`fault: a 2 MiB upload into a store limited to 128 KiB per file by the OS (EFBIG) → StorageFullError 507, no part file, no object: held`);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });
