@@ -45,6 +45,7 @@ export type PrivateDb = {
 export async function startPrivateDatabase(): Promise<PrivateDb> {
   let server = await startMariaDB(faultInstance, { fresh: true });
   await applyMigrations(server.url, path.resolve("drizzle"));
+  const sharedUrl = process.env.DATABASE_URL;
   process.env.DATABASE_URL = server.url;
   let down = false;
   return {
@@ -69,6 +70,9 @@ export async function startPrivateDatabase(): Promise<PrivateDb> {
     },
     async stop() {
       if (!down) await server.stop();
+      // Whatever runs after this file in the same process talks to the shared test database again.
+      if (sharedUrl === undefined) delete process.env.DATABASE_URL;
+      else process.env.DATABASE_URL = sharedUrl;
     },
     connect: () => mysql.createConnection({ uri: server.url, timezone: "Z" }),
   };
