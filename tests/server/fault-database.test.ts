@@ -179,6 +179,47 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     );
   }, 90_000);
 
+  it("Drop a log's upload (POST /api/t/:team/uploads) while the file streams in: 503, no file or part file kept, the same upload works once the database is back", async () => {
+    const { support, auth } = app;
+    const bytes = readFileSync(`${support.LOGS}/vesper-coldwater-comma.csv`);
+    const partDir = path.join((app.storage.storage().config as { dir: string }).dir, ".partial");
+    const parts = () => (existsSync(partDir) ? readdirSync(partDir) : []);
+    const before = { files: teamFiles(w.teamId).length, parts: parts().length, uploads: (await stored(w.teamId)).uploads.length };
+    // A client sending the file slowly: the first half now, the rest once the database is gone.
+    const boundary = "----fault";
+    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="vesper-coldwater-comma.csv"\r\nContent-Type: text/csv\r\n\r\n`);
+    const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
+    let controller!: ReadableStreamDefaultController<Uint8Array>;
+    const body = new ReadableStream<Uint8Array>({ start: (c) => void (controller = c) });
+    controller.enqueue(new Uint8Array(Buffer.concat([head, bytes.subarray(0, bytes.length >> 1)])));
+    const request = new Request(`${auth.appUrl}/api/t/${w.slug}/uploads`, {
+      method: "POST",
+      headers: { origin: auth.appUrl, cookie: w.jar.header(), "content-type": `multipart/form-data; boundary=${boundary}` },
+      body,
+      duplex: "half",
+    } as RequestInit);
+    const pending = auth.outcome(() => app.uploadsRoute.action(auth.args(request, { teamSlug: w.slug }) as never));
+    // Signed in and streaming into storage: its part file is there.
+    await (await import("./fault-support")).until("the upload's part file", () => parts().length > before.parts, 20_000);
+    await pdb.kill();
+    controller.enqueue(new Uint8Array(bytes.subarray(bytes.length >> 1)));
+    controller.enqueue(new Uint8Array(tail));
+    controller.close();
+    const during = await pending;
+    expect(during.status).toBe(503);
+    expect((during.body as { error: string }).error).toMatch(/database is not answering/);
+    // No row can point at the file, so it is not kept; nor is its part file.
+    expect(teamFiles(w.teamId).length).toBe(before.files);
+    expect(parts().length).toBe(before.parts);
+
+    await pdb.restart();
+    expect((await stored(w.teamId)).uploads.length).toBe(before.uploads);
+    const again = await auth.outcome(() => app.uploadsRoute.action(auth.args(support.uploadRequest(w.slug, w.jar, "vesper-coldwater-comma.csv", bytes), { teamSlug: w.slug }) as never));
+    expect(again.status).toBe(201);
+    expect(teamFiles(w.teamId).length).toBe(before.files + 1);
+    console.log("fault: MariaDB killed while a page upload streamed in → 503 once the file arrived, no file, part file or row kept; the same upload after restart → 201: held");
+  }, 90_000);
+
   it("headless POST /api/sessions: 503 while down, no partial session, the stored file reused once the database is back", async () => {
     const { support, auth } = app;
     const made = await app.tokens.createApiToken(w.userId, w.slug, "Pit laptop");
@@ -216,7 +257,8 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     await pdb.restart();
     const after = await stored(w.teamId);
     expect(after).toMatchObject({ sessions: before.sessions, bands: before.bands, results: before.results, jobs: before.jobs, uploadedEvents: before.uploadedEvents });
-    const waitingUpload = after.uploads.filter((u) => u.status === "stored");
+    const isNew = (u: { id: string }) => !before.uploads.some((b) => b.id === u.id);
+    const waitingUpload = after.uploads.filter((u) => u.status === "stored" && isNew(u));
     expect(waitingUpload).toHaveLength(1);
 
     const retried = await post();
@@ -226,7 +268,7 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     expect(done.results).toBe(before.results + 1);
     expect(done.jobs).toBe(before.jobs + 1);
     // The waiting upload became the session's; the retry's own copy of the same bytes was dropped.
-    expect(done.uploads.filter((u) => u.status === "stored")).toEqual([]);
+    expect(done.uploads.filter((u) => u.status === "stored" && isNew(u))).toEqual([]);
     expect(done.uploads.find((u) => u.id === waitingUpload[0].id)?.status).toBe("attached");
     expect(teamFiles(w.teamId).length).toBe(filesBefore + 1);
     console.log(
