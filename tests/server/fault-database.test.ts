@@ -247,7 +247,7 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     await pdb.kill();
     const during = await pending;
     expect(during.status).toBe(503);
-    expect((during.body as { error: string }).error).toMatch(/database is not answering/);
+    expect((during.body as { error: string }).error).toMatch(/database is not answering, so no session was stored. Send the same request again/);
     // The file this request stored is kept (its row is committed; removing it needs the database).
     expect(teamFiles(w.teamId).length).toBe(filesBefore + 1);
     const whileDown = await post();

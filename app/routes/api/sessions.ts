@@ -4,7 +4,7 @@
 import { requireApiAccess } from "~/server/api-access.server";
 import { env } from "~/server/env.server";
 import { apiUpload } from "~/server/ingest/api-upload.server";
-import { databaseDownResponse, isDatabaseDown } from "~/server/ingest/db-errors.server";
+import { DATABASE_DOWN_MESSAGE_API, databaseDownResponse, isDatabaseDown } from "~/server/ingest/db-errors.server";
 import { refuseDeclaredOversize, UploadRefusal } from "~/server/ingest/upload.server";
 import { listSessionsApi, sessionApiSchema, type SessionRow } from "~/server/sessions/list.server";
 import type { Route } from "./+types/sessions";
@@ -48,7 +48,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
       { headers: { "Cache-Control": "private, no-cache", Vary: "Authorization, Cookie" } },
     );
   } catch (error) {
-    if (isDatabaseDown(error)) return databaseDownResponse();
+    if (isDatabaseDown(error)) return databaseDownResponse("The database is not answering. Try again in a minute.");
     throw error;
   }
 }
@@ -65,7 +65,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     return Response.json(answer.body, { status: answer.status });
   } catch (error) {
     if (error instanceof UploadRefusal) return Response.json({ error: error.message }, { status: error.status });
-    if (isDatabaseDown(error)) return databaseDownResponse();
+    if (isDatabaseDown(error)) return databaseDownResponse(DATABASE_DOWN_MESSAGE_API);
     throw error;
   }
 }

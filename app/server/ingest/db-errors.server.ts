@@ -39,6 +39,10 @@ export function isDuplicateKey(error: unknown): boolean {
 export const DATABASE_DOWN_MESSAGE =
   "The database is not answering, so nothing was stored. Your file and the details you typed are still on this page: try again in a minute.";
 
-export function databaseDownResponse(): Response {
-  return Response.json({ error: DATABASE_DOWN_MESSAGE }, { status: 503, headers: { "Retry-After": "30" } });
+/** For a script (the headless API), which has no page holding its input: send the same request again. */
+export const DATABASE_DOWN_MESSAGE_API =
+  "The database is not answering, so no session was stored. Send the same request again in a minute (a file already stored is used again, not stored twice).";
+
+export function databaseDownResponse(message: string = DATABASE_DOWN_MESSAGE): Response {
+  return Response.json({ error: message }, { status: 503, headers: { "Retry-After": "30" } });
 }
