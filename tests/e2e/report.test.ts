@@ -167,7 +167,7 @@ describe("Balance report in the browser", () => {
     await page.getByRole("button", { name: "Add note" }).click();
     const notes = page.getByTestId("notes");
     await notes.getByText("Understeer in the long right-hander").waitFor();
-    await notes.getByRole("button", { name: "Edit" }).first().click();
+    await notes.getByRole("button", { name: "Edit the note on whole session" }).click();
     await notes.locator('input[name="body"]').fill("Understeer in the long right-hander, worse on new tyres");
     await notes.getByRole("button", { name: "Save note" }).click();
     await notes.getByText("worse on new tyres").waitFor();
@@ -175,7 +175,7 @@ describe("Balance report in the browser", () => {
     await page.setViewportSize({ width: 390, height: 844 });
     await page.screenshot({ path: `${SHOTS}/report-owner-390.png`, fullPage: true });
     await page.setViewportSize({ width: 1280, height: 900 });
-    await notes.getByRole("button", { name: "Delete" }).first().click();
+    await notes.getByRole("button", { name: "Delete the note on whole session" }).click();
     await notes.getByRole("button", { name: "Delete this note" }).click();
     await page.getByText("worse on new tyres").waitFor({ state: "detached" });
     // Brief link: the Brief links page opens with this session chosen.
@@ -204,7 +204,8 @@ describe("Balance report in the browser", () => {
     for (const name of ["Re-analyse", "Delete session…"]) expect(await page.getByRole("button", { name, exact: true }).count(), name).toBe(0);
     expect(await page.getByRole("link", { name: "Brief link…" }).count()).toBe(0);
     // The analyst wrote the hairpin note in the first test: that one, and only that one, can be edited.
-    const editable = page.getByTestId("notes").locator("li", { has: page.getByRole("button", { name: "Edit", exact: true }) });
+    // Each button names its note (WCAG 2.5.3: the visible word starts the accessible name).
+    const editable = page.getByTestId("notes").locator("li", { has: page.getByRole("button", { name: /^Edit the note on / }) });
     expect(await editable.count()).toBe(1);
     expect(await editable.innerText()).toContain("Front locking into the hairpin");
   });

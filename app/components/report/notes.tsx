@@ -76,8 +76,8 @@ function EditableNote({ note }: { note: NoteView }) {
         </fetcher.Form>
       ) : (
         <span className="inline-flex gap-1 print:hidden">
-          <button type="button" className={small} onClick={() => setMode("edit")}>Edit</button>
-          <button type="button" className={small} onClick={() => setMode("delete")}>Delete</button>
+          <button type="button" className={small} onClick={() => setMode("edit")} aria-label={`Edit the note on ${noteWhere(note)}`}>Edit</button>
+          <button type="button" className={small} onClick={() => setMode("delete")} aria-label={`Delete the note on ${noteWhere(note)}`}>Delete</button>
         </span>
       )}
       {error && <p role="alert" className="w-full text-xs text-danger">{error}</p>}
