@@ -32,7 +32,10 @@ export function briefUrl(token: string): string {
 export type NewBrief = { sessionId?: string | null; comparisonId?: string | null; note: string | null; days: number; recipientEmail: string | null };
 
 /** The name and ids of what a new link will show, checked against the team; throws 404 / 400 like the page shows them. */
-async function briefSubject(teamId: string, input: NewBrief): Promise<{ sessionId: string | null; comparisonId: string | null; name: string; kind: "session" | "comparison" }> {
+async function briefSubject(
+  teamId: string,
+  input: NewBrief,
+): Promise<{ sessionId: string | null; comparisonId: string | null; comparisonSessionIds: string[] | null; name: string; kind: "session" | "comparison" }> {
   if (input.comparisonId) {
     const [comparison] = await db
       .select({ id: savedComparisons.id, name: savedComparisons.name, sessionIds: savedComparisons.sessionIds })
@@ -41,7 +44,7 @@ async function briefSubject(teamId: string, input: NewBrief): Promise<{ sessionI
     if (!comparison) throw data("No such saved comparison in this team.", { status: 404 });
     const withFigures = await comparisonSessions(teamId, comparison.sessionIds);
     if (withFigures.length === 0) throw data("None of this comparison's sessions has figures, so there is nothing to brief.", { status: 400 });
-    return { sessionId: null, comparisonId: comparison.id, name: comparison.name, kind: "comparison" };
+    return { sessionId: null, comparisonId: comparison.id, comparisonSessionIds: comparison.sessionIds, name: comparison.name, kind: "comparison" };
   }
   const [session] = await db
     .select({ id: analysisSessions.id, name: analysisSessions.name, summary: analysisSessions.summary })
@@ -49,7 +52,7 @@ async function briefSubject(teamId: string, input: NewBrief): Promise<{ sessionI
     .where(and(eq(analysisSessions.teamId, teamId), eq(analysisSessions.id, input.sessionId ?? "")));
   if (!session) throw data("No such session in this team.", { status: 404 });
   if (!session.summary) throw data("This session has no figures yet, so there is nothing to brief; wait until the log has been read.", { status: 400 });
-  return { sessionId: session.id, comparisonId: null, name: session.name, kind: "session" };
+  return { sessionId: session.id, comparisonId: null, comparisonSessionIds: null, name: session.name, kind: "session" };
 }
 
 /** A comparison's sessions that still exist in the team and have figures, in the comparison's order. */
@@ -81,6 +84,7 @@ export async function createBrief(team: { id: string; name: string }, actor: { i
       teamId: team.id,
       sessionId: subject.sessionId,
       comparisonId: subject.comparisonId,
+      comparisonSessionIds: subject.comparisonSessionIds,
       tokenHash: hashBriefToken(token),
       note: input.note,
       recipientUserId,
@@ -203,9 +207,11 @@ async function openWhere(which: SQL): Promise<OpenedBrief | null> {
   if (!row) return null;
   let opened: OpenedBrief;
   if (row.brief.comparisonId) {
-    if (row.comparisonName === null || !row.comparisonSessionIds) return null;
-    // Only the comparison's own sessions, of the link's own team; a session deleted since is left out.
-    const sessions = await comparisonSessions(row.brief.teamId, row.comparisonSessionIds);
+    // The sessions the comparison held when the link was made (a link from before that was stored: what it
+    // holds now), of the link's own team; a session deleted since is left out.
+    const ids = row.brief.comparisonSessionIds ?? row.comparisonSessionIds;
+    if (row.comparisonName === null || !ids) return null;
+    const sessions = await comparisonSessions(row.brief.teamId, ids);
     if (sessions.length === 0) return null;
     opened = {
       kind: "comparison",

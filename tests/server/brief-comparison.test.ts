@@ -110,6 +110,15 @@ describe("Brief link to a saved comparison", () => {
     expect((await outcome(() => sharedPage.loader(args(getRequest(`/brief/shared/${mine!.id}`, w.jars.analyst), { briefId: mine!.id })))).status).toBe(404);
   });
 
+  it("saving the comparison again with another session does not widen a link made before", async () => {
+    const token = tokenOf((await create("engineer", { subject: `comparison:${comparisonId}` })).body);
+    await saveComparison(w.team.id, w.userIds.analyst, "Splitter against wing", [a.id, notShared]);
+    const seen = await open(token);
+    expect((seen.body as { brief: ComparisonBrief }).brief.sessions.map((x) => x.name)).toEqual(["Kestrel Bank, high wing", "Kestrel Bank, low splitter"]);
+    expect(JSON.stringify(seen.body)).not.toContain("Kestrel Bank, not in the comparison");
+    await saveComparison(w.team.id, w.userIds.analyst, "Splitter against wing", [a.id, b.id]);
+  });
+
   it("a session deleted since is left out; with none left the link opens nothing", async () => {
     const token = tokenOf((await create("owner", { subject: `comparison:${comparisonId}` })).body);
     await db.delete(analysisSessions).where(eq(analysisSessions.id, b.id));

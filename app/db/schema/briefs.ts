@@ -6,6 +6,7 @@
 import { sql } from "drizzle-orm";
 import { char, check, index, int, mysqlTable, timestamp, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { organization, user } from "./auth";
+import { jsonText } from "./garage";
 import { savedComparisons } from "./report";
 import { analysisSessions } from "./sessions";
 
@@ -19,6 +20,8 @@ export const briefLinks = mysqlTable(
     sessionId: varchar("session_id", { length: 36 }).references(() => analysisSessions.id, { onDelete: "cascade" }),
     /** A saved comparison instead of one session: the brief shows what the comparison holds when opened. */
     comparisonId: varchar("comparison_id", { length: 36 }).references(() => savedComparisons.id, { onDelete: "cascade" }),
+    /** The comparison's sessions when the link was made: saving the comparison again with others later does not widen what the link shows. */
+    comparisonSessionIds: jsonText<string[]>()("comparison_session_ids"),
     /** SHA-256 (hex) of the token in the link; the token itself is never stored. */
     tokenHash: char("token_hash", { length: 64 }).notNull(),
     note: varchar("note", { length: 500 }),

@@ -1,0 +1,1 @@
+ALTER TABLE `brief_links` ADD `comparison_session_ids` longtext;
