@@ -161,6 +161,8 @@ describe("Balance report in the browser", () => {
     await page.getByRole("button", { name: "Re-analyse" }).click();
     await page.getByTestId("job-state").waitFor();
     expect(await page.getByTestId("job-state").innerText()).toMatch(/Re-analysis (queued|running) since/);
+    // The job's state is said once: the processing panel does not repeat the queued detail beside the box.
+    expect(await page.getByText("Re-analysis queued: the server will read the stored file again.").count()).toBe(0);
     expect(await page.getByRole("button", { name: "Queued" }).isDisabled()).toBe(true);
     // A note: added, edited, deleted, all without a reload.
     await page.fill('input[name="body"]', "Understeer in the long right-hander");

@@ -25,7 +25,8 @@ export function diffLines(diff: unknown): string[] {
   return [String(diff)];
 }
 
-export function ProcessingState({ head, compact }: { head: SessionHead; compact?: boolean }) {
+/** jobShown: a box above already says the open job's state, so the same "queued" detail is not said twice. */
+export function ProcessingState({ head, compact, jobShown }: { head: SessionHead; compact?: boolean; jobShown?: boolean }) {
   const badge = (
     <span data-testid="session-state" data-state={head.status} className={`rounded border px-2 py-0.5 text-xs font-medium ${head.status === "flagged" ? "border-caution/40 bg-caution-bg text-caution" : "border-rule text-ink-soft"}`}>
       {head.status}
@@ -36,7 +37,7 @@ export function ProcessingState({ head, compact }: { head: SessionHead; compact?
   return (
     <div className="space-y-2 text-sm">
       <p>{STATE_WORDS[head.status]}</p>
-      {head.statusDetail && <p className="text-ink-soft">{head.statusDetail}</p>}
+      {head.statusDetail && !(jobShown && /queued/i.test(head.statusDetail)) && <p className="text-ink-soft">{head.statusDetail}</p>}
       {head.checkedAt && <p className="text-ink-soft">Server re-check: {new Date(head.checkedAt).toISOString().slice(0, 16).replace("T", " ")} UTC{lines.length === 0 ? ", no figure differs beyond rounding." : ":"}</p>}
       {lines.length > 0 && (
         <ul className="num list-disc pl-5 text-xs">

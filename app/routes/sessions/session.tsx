@@ -197,7 +197,7 @@ export default function BalanceReport({ loaderData }: Route.ComponentProps) {
         </Panel>
         <Panel title="Processing">
           <JobState job={history.openJob} />
-          <ProcessingState head={head} />
+          <ProcessingState head={head} jobShown={history.openJob !== null} />
           {may.reanalyse && <ReanalyseForm action={`${apiBase}/reanalyse`} setups={setupChoices} currentSetupId={head.setup.id} busy={history.openJob !== null} />}
           <ResultHistory results={history.results} />
         </Panel>
