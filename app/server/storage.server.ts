@@ -60,6 +60,32 @@ export function storageFullCode(error: unknown): string | null {
   return null;
 }
 
+/**
+ * The store does not answer (an S3-compatible store unreachable or failing with 5xx, a disk that errors):
+ * the upload route answers 503 with this sentence. Nothing of the file is kept.
+ */
+export class StorageUnavailableError extends Error {
+  readonly status = 503;
+  constructor(readonly detail: string) {
+    super("The server's file store is not answering, so the file was not stored and nothing of it was kept. Send it again in a minute.");
+    this.name = "StorageUnavailableError";
+  }
+}
+
+const UNREACHABLE = new Set(["ECONNREFUSED", "ECONNRESET", "ETIMEDOUT", "EHOSTUNREACH", "ENETUNREACH", "ENOTFOUND", "EAI_AGAIN", "EPIPE", "EIO", "EROFS"]);
+
+/** A network failure or a 5xx from the store (the AWS SDK puts the HTTP status in $metadata), or a disk I/O error. */
+export function storeUnavailableDetail(error: unknown): string | null {
+  let e = error as { code?: unknown; cause?: unknown; message?: unknown; $metadata?: { httpStatusCode?: number } } | undefined;
+  for (let depth = 0; e && depth < 5; depth++) {
+    if (typeof e.code === "string" && UNREACHABLE.has(e.code)) return e.code;
+    const status = e.$metadata?.httpStatusCode;
+    if (typeof status === "number" && status >= 500) return `HTTP ${status}`;
+    e = e.cause as typeof e;
+  }
+  return null;
+}
+
 export function storageConfigFrom(source: Record<string, string | undefined>): StorageConfig {
   const dir = path.resolve(source.UPLOAD_DIR || ".data/uploads");
   if (!source.S3_BUCKET) return { kind: "fs", dir };
@@ -179,7 +205,10 @@ export function createStorage(config: StorageConfig) {
       } catch (error) {
         await rm(tmp, { force: true });
         const full = storageFullCode(error);
-        throw full ? new StorageFullError(full) : error;
+        if (full) throw new StorageFullError(full);
+        // The disk's own failure (EIO, a read-only file system), not the source's.
+        const down = (error as { syscall?: string }).syscall && ["EIO", "EROFS"].includes(String((error as { code?: string }).code)) ? String((error as { code?: string }).code) : null;
+        throw down ? new StorageUnavailableError(down) : error;
       }
       return { storage: "fs", key, bytes: guard.bytes, sha256: guard.digest() };
     }
@@ -197,7 +226,10 @@ export function createStorage(config: StorageConfig) {
       await upload.abort().catch(() => undefined);
       // A small file may have been stored in one PUT before the source failed: remove it.
       await deleteObject("s3", key).catch(() => undefined);
-      // The source's problem (cut off, too large, refused) says more than the store's reaction to it.
+      // The source's problem (cut off, too large, refused) says more than the store's reaction to it,
+      // unless the store itself went away (then the source was only cut off by that).
+      const storeDown = stored.status === "rejected" ? storeUnavailableDetail(stored.reason) : null;
+      if (storeDown && !(fed.status === "rejected" && fed.reason instanceof StorageLimitError)) throw new StorageUnavailableError(storeDown);
       throw fed.status === "rejected" ? fed.reason : (stored as PromiseRejectedResult).reason;
     }
     return { storage: "s3", key, bytes: guard.bytes, sha256: guard.digest() };

@@ -71,6 +71,8 @@ export async function startPrivateDatabase(): Promise<PrivateDb> {
     async stop() {
       if (!down) await server.stop();
       // Whatever runs after this file in the same process talks to the shared test database again.
+      // (db.server.ts keeps its pool on globalThis: the caller ends it; it is not kept for anything after.)
+      delete (globalThis as { __rakelineDb?: unknown }).__rakelineDb;
       if (sharedUrl === undefined) delete process.env.DATABASE_URL;
       else process.env.DATABASE_URL = sharedUrl;
     },

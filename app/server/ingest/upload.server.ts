@@ -7,7 +7,7 @@
 import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 import busboy from "busboy";
-import { formatBytes, putStream, deleteObject, StorageFullError, StorageLimitError, type StoredObject } from "../storage.server";
+import { formatBytes, putStream, deleteObject, StorageFullError, StorageLimitError, StorageUnavailableError, type StoredObject } from "../storage.server";
 import { extensionProblem, textProblem } from "./text-check.server";
 
 /** RAKELINE_UPLOAD_MAX_BYTES, default 2 GiB. */
@@ -22,7 +22,7 @@ const MAX_FIELD_BYTES = 256 * 1024;
 
 export class UploadRefusal extends Error {
   constructor(
-    readonly status: 400 | 413 | 415 | 507,
+    readonly status: 400 | 413 | 415 | 503 | 507,
     message: string,
   ) {
     super(message);
@@ -117,6 +117,10 @@ export async function receiveUpload(request: Request, keyPrefix: string, options
   const discard = async () => {
     if (stored) await deleteObject(stored.storage, stored.key).catch(() => undefined);
   };
+  if (storeError instanceof StorageUnavailableError) {
+    await discard();
+    throw new UploadRefusal(503, storeError.message);
+  }
   if (storeError instanceof StorageFullError) {
     await discard();
     throw new UploadRefusal(507, storeError.message);
