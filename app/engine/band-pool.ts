@@ -106,15 +106,17 @@ export function poolBands(model: ModelFit | undefined, a: BandAeroSums, input: (
       const pf = model ? bandPrediction(model, "front", a, b) : null, pr = model ? bandPrediction(model, "rear", a, b) : null;
       return { front: { ...x.front, lambda: 1, prediction: pf ? pf.load : NaN }, rear: { ...x.rear, lambda: 1, prediction: pr ? pr.load : NaN }, lambda: 1, cov: x.cov };
     }
-    // λ·v + (1 − λ)²·Var(prediction) is the pooled load's error variance when the misfit is τ²Σ; a
-    // misfit in one band alone hides in the pooled τ², so the interval also carries what pooling
-    // moved the band from its own mean, ((1 − λ)·r)².
+    // The interval's variance with τ² estimated, not known (Morris, JASA 78, 1983, from memory), for
+    // shrinkage B = 1 − λ over k residuals: v·(1 − B·(k − 2)/k) + (2/(k − 2))·B²·r², plus B² times the
+    // prediction's own variance. The r² term also keeps some of what pooling moved the band from its
+    // own mean in the interval (a misfit in one band alone hides in the pooled τ²).
+    const B = 1 - lambda, kk = Math.max(3, 2 * k), morris = 2 / (kk - 2);
     const pooled = (p: { load: number; x: number[] }, res: number, v: number, side: "front" | "rear"): PooledBand => ({
       load: p.load + lambda * res,
-      variance: lambda * v + (1 - lambda) ** 2 * (quadForm(model[side].cov, p.x) + res * res),
+      variance: v * (1 - (B * (kk - 2)) / kk) + morris * B * B * res * res + B * B * quadForm(model[side].cov, p.x),
       lambda,
       prediction: p.load,
     });
-    return { front: pooled(r.pf, r.rf, x.front.variance, "front"), rear: pooled(r.pr, r.rr, x.rear.variance, "rear"), lambda, cov: lambda * x.cov + (1 - lambda) ** 2 * r.rf * r.rr };
+    return { front: pooled(r.pf, r.rf, x.front.variance, "front"), rear: pooled(r.pr, r.rr, x.rear.variance, "rear"), lambda, cov: x.cov * (1 - (B * (kk - 2)) / kk) + morris * B * B * r.rf * r.rr };
   });
 }

@@ -28,7 +28,15 @@ const MIN_BLOCKS_PER_BAND_CLA = 20;
 /** Front ride-height span (mm of block means) before a sensitivity per mm is given. */
 const MIN_RIDE_HEIGHT_SPAN_MM = 3;
 
-export const CRITERION_NAME = "BIC on 1 s block means of both axles' loads (lower is better; Schwarz 1978)";
+/**
+ * How much lower a model with more parameters must score to be chosen: a BIC difference over 6 is
+ * "strong" evidence (Kass & Raftery, JASA 90, 1995, from memory). Below it the simpler model stands:
+ * an extra ride-height term that barely earns its place loosens the static load (fitted beside it
+ * when the car file gives no static readings) and moves every band with it.
+ */
+const STRONG_EVIDENCE_BIC = 6;
+
+export const CRITERION_NAME = "BIC on 1 s block means of both axles' loads (lower is better; Schwarz 1978); a model with more parameters must be lower by more than 6 (strong evidence, Kass & Raftery 1995)";
 
 export interface AeroVariationChoice {
   chosen: AeroVariation;
@@ -57,10 +65,17 @@ export function chooseAeroModel(
     models[v] = f;
     scores[v] = r(f.bic ?? NaN, 1);
   }
+  // From the fewest parameters up: a larger model replaces the one chosen so far only when its
+  // criterion is lower by more than STRONG_EVIDENCE_BIC; one with as many or fewer, when lower at all.
   let chosen: AeroVariation = "constant";
-  for (const v of ["speed_band", "ride_height", "ride_height_front_rear"] as const) {
-    const sc = models[v]?.bic, best = models[chosen]?.bic;
-    if (sc !== null && sc !== undefined && (best === null || best === undefined || sc < best)) chosen = v;
+  const order = (["constant", "ride_height", "speed_band", "ride_height_front_rear"] as const)
+    .filter((v) => models[v]).sort((x, y) => models[x]!.parameters - models[y]!.parameters);
+  for (const v of order) {
+    const sc = models[v]!.bic, cur = models[chosen];
+    if (sc === null) continue;
+    if (!cur || cur.bic === null) { chosen = v; continue; }
+    const margin = models[v]!.parameters > cur.parameters ? STRONG_EVIDENCE_BIC : 0;
+    if (sc < cur.bic - margin) chosen = v;
   }
   const model = models[chosen];
   if (chosen !== "constant" && model) {

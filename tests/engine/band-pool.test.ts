@@ -37,8 +37,9 @@ describe("band loads pooled with the aero model", () => {
     const out = poolBands(m, sums([400, 1000]), [band(240, 240), band(540, 540)]);
     expect(out[0]!.lambda).toBeCloseTo(0.99, 9);
     expect(out[0]!.front.load).toBeCloseTo(200 + 0.99 * 40, 9);
-    // Interval variance λ·v + (1 − λ)²·r² = 0.99·16 + 0.0001·1600 = 16 (computed by us).
-    expect(out[0]!.front.variance).toBeCloseTo(16, 9);
+    // Interval variance (Morris 1983, k = 4 residuals, B = 1 − λ = 0.01): v·(1 − B·(k − 2)/k) + (2/(k − 2))·B²·r²
+    // = 16·(1 − 0.005) + 1·0.0001·1600 = 15.92 + 0.16 = 16.08 (computed by us).
+    expect(out[0]!.front.variance).toBeCloseTo(16.08, 9);
   });
 
   it("judges both axles against their covariance: a shift common to both is expected when they move together", () => {

@@ -100,17 +100,24 @@ describe("band balance intervals against repeated stints", () => {
   // spread of each band's balance across them, against the standard error its interval implies
   // (half-width / 1.96). An SD from eight values lies within × 0.58–1.42 of the true one 95 % of the
   // time (χ² with 7 degrees of freedom), so the interval must not be narrower than that allows
-  // (sd/se < 1.6) and may be up to about twice too wide (sd/se > 0.3): the fit's static-load
-  // uncertainty is added to each axle as if front and rear were independent, which is conservative.
-  it("matches the seed-to-seed spread of each band's balance", async () => {
+  // (sd/se < 1.6). It is wider than the spread by design: the band's load is pooled with the aero
+  // model (app/engine/band-pool.ts), and its interval carries the model's possible misfit and the
+  // static load's uncertainty on each axle as if independent, which the seed-to-seed spread does not
+  // show; so the interval is judged against the simulator's truth instead: a 95 % interval must hold
+  // the band's true balance in at least 6 of the 8 stints (at a true 95 % rate that fails with
+  // probability ≈ 0.6 %, binomial, computed by us), and be at most about seven times the spread
+  // (sd/se > 0.15, ours).
+  it("matches the seed-to-seed spread of each band's balance and holds the truth", async () => {
     const seeds = [101, 102, 103, 104, 105, 106, 107, 108];
     const runs: SessionSummary[] = [];
+    const truths: SimTruth[] = [];
     for (const seed of seeds) {
       const spec = { ...LOGS[0], seed };
-      const { columns } = simulate(spec);
+      const { columns, truth } = simulate(spec);
       const bytes = new TextEncoder().encode([...writeExport(exportColumns(spec, columns), spec.metadata, spec.dialect)].join(""));
       const car = JSON.parse(readFileSync(join(ROOT, "sample-data", "cars", spec.carFile), "utf8"));
       runs.push(await analyseLog((async function* () { yield bytes; })(), car, mapFor(spec)));
+      truths.push(truth);
     }
     let checked = 0;
     for (let b = 0; b < runs[0].bands.length; b++) {
@@ -120,8 +127,13 @@ describe("band balance intervals against repeated stints", () => {
       const mean = values.reduce((x, y) => x + y, 0) / values.length;
       const sd = Math.sqrt(values.reduce((x, y) => x + (y - mean) ** 2, 0) / (values.length - 1));
       const se = withCi.reduce((x, y) => x + (y.balance_front_ci95_pct![1] - y.balance_front_ci95_pct![0]) / 2 / 1.96, 0) / withCi.length;
-      expect(sd / se).toBeGreaterThan(0.3);
+      expect(sd / se).toBeGreaterThan(0.15);
       expect(sd / se).toBeLessThan(1.6);
+      const held = withCi.filter((x, i) => {
+        const t = truths[i].bands[b].balance_front_pct!;
+        return x.balance_front_ci95_pct![0] <= t && t <= x.balance_front_ci95_pct![1];
+      }).length;
+      expect(held).toBeGreaterThanOrEqual(6);
       checked++;
     }
     expect(checked).toBeGreaterThanOrEqual(3);
