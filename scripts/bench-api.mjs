@@ -6,8 +6,13 @@
 // repeat read of a summary the client already holds (If-None-Match, answered 304 without the summary), and
 // GET /healthz, which touches no database: the floor of the HTTP stack on this machine at this load.
 // The 1-minute load average is printed beside each row (the machine may be shared).
+// Then the CPU each signed-in page's server render costs (scripts/bench-render.mjs, target < 10 ms), beside
+// the latencies: under load the two read together say whether a page is slow by its own work or by waiting.
 // BENCH_SECONDS (default 10) sets each route's run; BENCH_CONNECTIONS (default 50) the clients.
+import { spawnSync } from "node:child_process";
 import os from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
 import autocannon from "autocannon";
 import { instances } from "./lib/env.mjs";
 import { latencyFigures } from "./lib/cluster-bench.mjs";
@@ -69,4 +74,6 @@ for (const route of routes) {
   console.log(`  ${route.name.padEnd(34)} ${fmt(f.p50)} ${fmt(f.p95)} ${fmt(f.p99)} ${(f.count / seconds).toFixed(0).padStart(8)} ${String(errors).padStart(7)} ${os.loadavg()[0].toFixed(1).padStart(5)}   ${route.target}`);
   if (non2xx) console.log(`    statuses: ${JSON.stringify(statuses)}`);
 }
-process.exit(0);
+console.log("");
+const render = spawnSync(process.execPath, [path.join(path.dirname(fileURLToPath(import.meta.url)), "bench-render.mjs")], { stdio: "inherit" });
+process.exit(render.status ?? 1);

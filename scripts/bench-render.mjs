@@ -36,7 +36,13 @@ const pages = [
   { name: "team dashboard", url: `${base}${team}`, cookie },
   { name: "Garage", url: `${base}${team}/garage`, cookie },
   { name: "team settings", url: `${base}${team}/settings`, cookie },
+  { name: "Sessions list", url: `${base}${team}/sessions`, cookie },
 ];
+// The newest session's Balance report, when the demo seed has stored one.
+const newest = await fetch(`${base}/api/sessions?team=${team.split("/").pop()}&limit=1`, { headers: { cookie } })
+  .then((r) => (r.ok ? r.json() : null))
+  .catch(() => null);
+if (newest?.sessions?.[0]) pages.push({ name: "Balance report", url: `${base}${team}/sessions/${newest.sessions[0].id}`, cookie });
 const results = await measureRenderCpu(repoRoot, pages);
 console.log(`Server render, in-process through React Router's handler (NODE_ENV=${process.env.NODE_ENV}), ${results[0].runs} renders each:`);
 console.log(`  ${"page".padEnd(24)} ${"status".padStart(6)} ${"CPU ms/render".padStart(14)} ${"wall ms".padStart(8)}   target < 10 ms CPU (signed in)`);
