@@ -6,11 +6,9 @@
  * Throws a JSON Response: 401 without a usable token or session, 400 when a user of several teams names
  * none, 404 for a team the caller is not in, 403 when the role lacks `permission`.
  */
-import { eq } from "drizzle-orm";
-import { member, organization } from "../db/schema/auth";
 import { can, isRole, type Permission, type Role } from "../lib/access";
 import { authenticateToken } from "./api-tokens.server";
-import { db } from "./db.server";
+import { membershipsOfUser } from "./permissions.server";
 import { requireSameOrigin } from "./same-origin.server";
 import { getSignedIn } from "./session.server";
 
@@ -52,11 +50,7 @@ async function resolve(request: Request, teamSlug: string | undefined): Promise<
   requireSameOrigin(request);
   const signedIn = await getSignedIn(request);
   if (!signedIn) throw json(401, "Sign in, or send an API token as Authorization: Bearer <token>.", { "WWW-Authenticate": 'Bearer realm="rakeline"' });
-  const teams = await db
-    .select({ id: organization.id, slug: organization.slug, role: member.role })
-    .from(member)
-    .innerJoin(organization, eq(member.organizationId, organization.id))
-    .where(eq(member.userId, signedIn.user.id));
+  const teams = await membershipsOfUser(signedIn.user.id);
   const wanted = teamSlug ?? new URL(request.url).searchParams.get("team") ?? undefined;
   let team: (typeof teams)[number] | undefined;
   if (wanted) {

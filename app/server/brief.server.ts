@@ -235,7 +235,8 @@ async function openWhere(which: SQL): Promise<OpenedBrief | null> {
 }
 
 /** Live links shared with this user (by account or by their e-mail address), for their dashboard. */
-export async function briefsSharedWith(userId: string, email: string) {
+let sharedWithStatement: ReturnType<typeof prepareSharedWith> | undefined;
+function prepareSharedWith() {
   return db
     .select({
       id: briefLinks.id,
@@ -249,9 +250,21 @@ export async function briefsSharedWith(userId: string, email: string) {
     .leftJoin(analysisSessions, eq(analysisSessions.id, briefLinks.sessionId))
     .leftJoin(savedComparisons, eq(savedComparisons.id, briefLinks.comparisonId))
     .innerJoin(organization, eq(organization.id, briefLinks.teamId))
-    .where(and(or(eq(briefLinks.recipientUserId, userId), eq(briefLinks.recipientEmail, email)), isNull(briefLinks.revokedAt), gt(briefLinks.expiresAt, new Date())))
+    .where(
+      and(
+        or(eq(briefLinks.recipientUserId, sql.placeholder("userId")), eq(briefLinks.recipientEmail, sql.placeholder("email"))),
+        isNull(briefLinks.revokedAt),
+        gt(briefLinks.expiresAt, sql.placeholder("now")),
+      ),
+    )
     .orderBy(desc(briefLinks.createdAt))
-    .limit(50);
+    .limit(50)
+    .prepare();
+}
+
+/** Live Brief links sent to this user (by account or address), newest first: every dashboard reads it (prepared once). */
+export async function briefsSharedWith(userId: string, email: string) {
+  return (sharedWithStatement ??= prepareSharedWith()).execute({ userId, email, now: new Date() });
 }
 
 /** The team's saved comparisons, newest first, for the same picker. */

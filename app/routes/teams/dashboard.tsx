@@ -3,36 +3,35 @@ import { Caution, EmptyState, Panel } from "~/components/ui/panels";
 import { ErrorView } from "~/components/ui/error-view";
 import { can, ROLE_LABELS } from "~/lib/access";
 import { requireMember } from "~/server/permissions.server";
-import { listMembers } from "~/server/teams.server";
-import { listCars } from "~/server/garage-cars.server";
+import { recentlyChangedCars, teamCounts } from "~/server/dashboard.server";
 import { briefsSharedWith } from "~/server/brief.server";
-import { listSessionsPage, sessionPageSchema } from "~/server/sessions/list.server";
+import { recentSessions } from "~/server/sessions/list.server";
 import type { Route } from "./+types/dashboard";
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const ctx = await requireMember(request, params.teamSlug, { car: ["read"] });
   const readsSessions = can(ctx.role, { session: ["read"] });
-  const [members, cars, briefs, sessions] = await Promise.all([
-    listMembers(ctx.team.id),
-    listCars(ctx.team.id, { sort: "updated", dir: "desc" }),
+  const [counts, cars, briefs, sessions] = await Promise.all([
+    teamCounts(ctx.team.id),
+    recentlyChangedCars(ctx.team.id),
     briefsSharedWith(ctx.user.id, ctx.user.email),
-    readsSessions ? listSessionsPage(ctx.team.id, sessionPageSchema.parse({})) : null,
+    readsSessions ? recentSessions(ctx.team.id, 5) : null,
   ]);
   return {
     team: ctx.team,
     role: ctx.role,
-    memberCount: members.length,
-    carCount: cars.length,
+    memberCount: counts.members,
+    carCount: counts.cars,
     canBrief: can(ctx.role, { share: ["create"] }),
     sharedBriefs: briefs.map((b) => ({ id: b.id, sessionName: b.sessionName, teamName: b.teamName, note: b.note, expiresAt: b.expiresAt.toISOString() })),
     recentSessions: sessions
-      ? sessions.rows.slice(0, 5).map((r) => ({
+      ? sessions.map((r) => ({
           id: r.id, date: r.date, run: r.run, car: r.car.name, venue: r.venue?.name ?? null, state: r.state,
           claTotalM2: r.claTotalM2, balanceFrontPct: r.balanceFrontPct,
         }))
       : null,
     canUpload: can(ctx.role, { session: ["upload"] }),
-    recentCars: cars.slice(0, 5).map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
+    recentCars: cars.map((c) => ({ id: c.id, name: c.name, category: c.category, massKg: c.massKg, setupSheets: c.setupSheets })),
   };
 }
 

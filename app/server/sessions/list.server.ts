@@ -165,6 +165,21 @@ export async function listSessionsPage(teamId: string, q: z.infer<typeof session
   return { rows: rows.slice(0, SESSIONS_PER_PAGE).map(toRow), hasNext: rows.length > SESSIONS_PER_PAGE };
 }
 
+// The dashboard's newest sessions, in the list's default order (date, then stored, newest first): prepared
+// once, as every dashboard render reads it.
+let recentStatement: ReturnType<typeof prepareRecent> | undefined;
+function prepareRecent() {
+  return baseQuery([eq(analysisSessions.teamId, sql.placeholder("teamId"))])
+    .orderBy(desc(SORT_COLUMNS.date), desc(analysisSessions.createdAt), desc(analysisSessions.id))
+    .limit(sql.placeholder("limit"))
+    .prepare();
+}
+
+/** The team's newest `limit` sessions, as the Sessions list's first page shows them. */
+export async function recentSessions(teamId: string, limit = 5): Promise<SessionRow[]> {
+  return (await (recentStatement ??= prepareRecent()).execute({ teamId, limit })).map(toRow);
+}
+
 /** Does the team have any session at all (the empty list says what to do first)? */
 export async function teamHasSessions(teamId: string): Promise<boolean> {
   const [row] = await db.select({ id: analysisSessions.id }).from(analysisSessions).where(eq(analysisSessions.teamId, teamId)).limit(1);
