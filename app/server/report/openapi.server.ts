@@ -33,7 +33,7 @@ const errors = (...codes: number[]) =>
   Object.fromEntries(
     codes.map((c) => [
       String(c),
-      json("Error", { 400: "Bad query", 401: "No valid API token or signed-in session", 403: "Your role does not allow this", 404: "Not found in your team", 409: "Not read yet", 413: "Too large", 415: "Not a log file", 422: "The engine refused the file", 503: "Database unavailable" }[c] ?? "Error"),
+      json("Error", { 400: "Bad query", 401: "No valid API token or signed-in session", 403: "Your role does not allow this", 404: "Not found in your team", 409: "Not read yet", 413: "Too large", 415: "Not a log file", 422: "The engine refused the file", 503: "Database or file store unavailable; send the same request again", 507: "The file store is full; nothing was kept" }[c] ?? "Error"),
     ]),
   );
 const sessionId = { name: "sessionId", in: "path", required: true, schema: { type: "string" } };
@@ -95,7 +95,7 @@ export function openApiDocument() {
           responses: {
             "201": { description: "Stored and analysed", content: { "application/json": { schema: { type: "object", required: ["id", "url"], properties: { id: { type: "string" }, url: { type: "string" }, summary: { type: "object" } } } } } },
             "200": { description: "The same file was already stored in this team", content: { "application/json": { schema: { type: "object", properties: { id: { type: "string" }, url: { type: "string" }, duplicate: { type: "boolean" } } } } } },
-            ...errors(400, 401, 404, 413, 415, 422, 503),
+            ...errors(400, 401, 404, 413, 415, 422, 503, 507),
           },
         },
       },
