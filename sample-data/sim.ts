@@ -156,6 +156,8 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
   const fz0f = car.massKg * G * car.frontWeightFraction, fz0r = car.massKg * G * (1 - car.frontWeightFraction);
   const kwF = car.front.springNPerMm * car.front.motionRatio ** 2;
   const kwR = car.rear.springNPerMm * car.rear.motionRatio ** 2;
+  // Wheel force per mm of damper travel from the springs (Ks·MR), for road input and heave.
+  const kF = car.front.springNPerMm * car.front.motionRatio, kR = car.rear.springNPerMm * car.rear.motionRatio;
   const rearSens = car.claRearPerMmDrop ?? 0;
   const damperNoise = o.damperNoiseMm ?? 0.04;
   const rise = o.motionRatioRisePerMm ?? 0, step = o.damperStepMm ?? 0;
@@ -202,10 +204,14 @@ export function simulateStint(car: SimCar, track: TrackLayout, o: SimOptions): {
     cols.long_accel[i] = axChassis[i] + 0.3 * rng.gauss();
     cols.yaw_rate[i] = yawChassis[i] + 0.3 * rng.gauss();
     const st = car.staticDamperMm;
-    travel[0][i] = xfl + road[0][i] + body[i] + (insideLeft ? kf : 0);
-    travel[1][i] = xfr + road[1][i] + body[i] + (insideLeft ? 0 : kf);
-    travel[2][i] = xrl + road[2][i] + body[i];
-    travel[3][i] = xrr + road[3][i] + body[i];
+    // Road input and heave move the wheels against their springs and stops: a force with zero mean,
+    // so the travel is the spring-and-stop curve at the load plus that force (the linear spring's
+    // travel of `road + body` mm), not the load's travel plus a displacement that carries no force.
+    const nF = (k: number) => kF * (road[k][i] + body[i]), nR = (k: number) => kR * (road[k][i] + body[i]);
+    travel[0][i] = damperTravelMm(axleF / 2 - latF + nF(0), car.front, rise) + (insideLeft ? kf : 0);
+    travel[1][i] = damperTravelMm(axleF / 2 + latF + nF(1), car.front, rise) + (insideLeft ? 0 : kf);
+    travel[2][i] = damperTravelMm(axleR / 2 - latR + nR(2), car.rear, rise);
+    travel[3][i] = damperTravelMm(axleR / 2 + latR + nR(3), car.rear, rise);
     cols.damper_fl[i] = quant(st.fl + travel[0][i] + damperNoise * rng.gauss());
     cols.damper_fr[i] = quant(st.fr + travel[1][i] + damperNoise * rng.gauss());
     cols.damper_rl[i] = quant(st.rl + travel[2][i] + damperNoise * rng.gauss());

@@ -59,6 +59,7 @@ export const SCENARIOS: Scenario[] = [
   { ...base, name: "strong splitter (0.05/mm)", car: { ...MARLIN_SR2_SPLITTER, claFrontPerMmDrop: 0.05 } },
   { ...base, name: "splitter ClA curved in ride height", car: { ...MARLIN_SR2_SPLITTER, claFrontPerMmDrop: 0.02, claFrontPerMm2Drop: 0.0012 } },
   { ...base, name: "rear sensitive too", car: { ...MARLIN_SR2_SPLITTER, claRearPerMmDrop: 0.015 } },
+  { ...base, name: "rear sensitive, no static", withStatic: false, car: { ...MARLIN_SR2_SPLITTER, claRearPerMmDrop: 0.015 } },
   { ...base, name: "splitter 8 laps", laps: 8 },
   { ...base, name: "Vesper GT 50 Hz", car: { ...VESPER_GT4R, claFrontPerMmDrop: 0.02 } },
   // Where real logs differ from the engine's assumptions (sample-data/sim.ts options).

@@ -59,7 +59,11 @@ export function chooseAeroModel(
   const full = { ...spec, bandBlocks, minBandBlocks: MIN_BLOCKS_PER_BAND_CLA };
   const models: Partial<Record<AeroVariation, ModelFit>> = {};
   const scores: Record<AeroVariation, number | null> = { constant: null, speed_band: null, ride_height: null, ride_height_front_rear: null };
-  for (const v of ["constant", "speed_band", "ride_height", "ride_height_front_rear"] as const) {
+  // Both axles' ride heights only beside a known static load: with the static load fitted too, a
+  // second ride-height term can trade the static load against the aero's shape in q (both reach
+  // q = 0 only by extrapolation), and every band moves with it.
+  const offered = spec.withIntercept ? (["constant", "speed_band", "ride_height"] as const) : (["constant", "speed_band", "ride_height", "ride_height_front_rear"] as const);
+  for (const v of offered) {
     const f = fitModel(m, v, full);
     if (!f) continue;
     models[v] = f;

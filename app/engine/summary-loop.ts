@@ -101,7 +101,10 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
       let cf = 0, cr = 0;
       if (staticKnown || !needBump) {
         if (needBump) {
-          const cfl = xfl - sfl - gapF, cfr = xfr - sfr - gapF, crl = xrl - srl - gapR, crr = xrr - srr - gapR;
+          // On the unsmoothed travel: a stop's force is convex in travel, so the force at the smoothed
+          // travel misses what the wheel's quicker motion presses into the stop (the mean force is the
+          // mean of the force, not the force at the mean travel).
+          const cfl = cFL[j] - sfl - gapF, cfr = cFR[j] - sfr - gapF, crl = cRL[j] - srl - gapR, crr = cRR[j] - srr - gapR;
           // Stop forces at the damper, summed per axle; the wheel sees MR times that (virtual work).
           cf = (cfl > 0 ? stopForceN(cfl, bxF, bfF) : 0) + (cfr > 0 ? stopForceN(cfr, bxF, bfF) : 0);
           cr = (crl > 0 ? stopForceN(crl, bxR, bfR) : 0) + (crr > 0 ? stopForceN(crr, bxR, bfR) : 0);
