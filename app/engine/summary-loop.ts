@@ -59,6 +59,9 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
   // Bump-stop curves (force at the damper against depth past contact); read only in contact.
   const bxF = c.bumpCurveFront?.deflectionMm ?? NO_CURVE, bfF = c.bumpCurveFront?.forceN ?? NO_CURVE;
   const bxR = c.bumpCurveRear?.deflectionMm ?? NO_CURVE, bfR = c.bumpCurveRear?.forceN ?? NO_CURVE;
+  // Linear stops: the curve's two rows from (0, 0); then force = rate·max(0, depth) = (d + |d|)·rate/2.
+  const linF = bxF.length === 2 && bxF[0] === 0 && bfF[0] === 0 && bxF[1] > 0, linR = bxR.length === 2 && bxR[0] === 0 && bfR[0] === 0 && bxR[1] > 0;
+  const halfRateF = linF ? (0.5 * bfF[1]) / bxF[1] : 0, halfRateR = linR ? (0.5 * bfR[1]) / bxR[1] : 0;
   const rhPerDamp = -0.5 / mrF, rhPerDampRear = -0.5 / mrR;
   const needBump = s.hasBumpStops, collectEst = !s.staticGiven, estMin = s.estMin, estMax = s.estMax;
   let estN = s.estN, refF = s.refFront, refR = s.refRear;
@@ -106,8 +109,12 @@ export function aeroPass(s: SummaryState, sm: BlockSmoother, count: number, x: R
           // mean of the force, not the force at the mean travel).
           const cfl = cFL[j] - sfl - gapF, cfr = cFR[j] - sfr - gapF, crl = cRL[j] - srl - gapR, crr = cRR[j] - srr - gapR;
           // Stop forces at the damper, summed per axle; the wheel sees MR times that (virtual work).
-          cf = (cfl > 0 ? stopForceN(cfl, bxF, bfF) : 0) + (cfr > 0 ? stopForceN(cfr, bxF, bfF) : 0);
-          cr = (crl > 0 ? stopForceN(crl, bxR, bfR) : 0) + (crr > 0 ? stopForceN(crr, bxR, bfR) : 0);
+          // A linear stop (a two-row curve from zero force) without branches: the raw travel crosses the
+          // gap back and forth with the road, and a branch per corner would be mispredicted each time.
+          if (linF) cf = (cfl + Math.abs(cfl) + cfr + Math.abs(cfr)) * halfRateF;
+          else cf = (cfl > 0 ? stopForceN(cfl, bxF, bfF) : 0) + (cfr > 0 ? stopForceN(cfr, bxF, bfF) : 0);
+          if (linR) cr = (crl + Math.abs(crl) + crr + Math.abs(crr)) * halfRateR;
+          else cr = (crl > 0 ? stopForceN(crl, bxR, bfR) : 0) + (crr > 0 ? stopForceN(crr, bxR, bfR) : 0);
         }
         // Axle load from the springs (ΔFw = Ks·MR·Δx, summed over the axle's corners) and the stops,
         // less the longitudinal load transfer the springs carry (ΔFz,front = −m·ax·h/L).
