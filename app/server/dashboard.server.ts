@@ -2,10 +2,11 @@
  * What the team dashboard reads on every render, as prepared statements (built once, not per request:
  * Drizzle's query building costs more CPU than the round trip itself; `npm run bench:render`).
  */
-import { and, asc, count, desc, eq, isNull, sql } from "drizzle-orm";
+import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
 import { member, organization } from "../db/schema/auth";
-import { cars, setupSheets } from "../db/schema/garage";
+import { cars } from "../db/schema/garage";
 import { db } from "./db.server";
+import { setupSheetCounts } from "./garage-cars.server";
 
 function prepareCounts() {
   const teamId = sql.placeholder("teamId");
@@ -20,12 +21,7 @@ function prepareCounts() {
 }
 
 function prepareRecentCars() {
-  const setupCount = db
-    .select({ carId: setupSheets.carId, sheets: count().as("sheets") })
-    .from(setupSheets)
-    .where(eq(setupSheets.teamId, sql.placeholder("teamId")))
-    .groupBy(setupSheets.carId)
-    .as("setup_count");
+  const setupCount = setupSheetCounts(sql.placeholder("teamId"));
   return db
     .select({
       id: cars.id,

@@ -38,6 +38,19 @@ const SORT_COLUMN = {
   updated: cars.updatedAt,
 } as const;
 
+/**
+ * Each car's setup-sheet count in the team, as a subquery to left-join on `carId` (the Garage list and
+ * the dashboard's prepared query); `teamId` may be a placeholder.
+ */
+export function setupSheetCounts(teamId: string | ReturnType<typeof sql.placeholder>) {
+  return db
+    .select({ carId: setupSheets.carId, sheets: count().as("sheets") })
+    .from(setupSheets)
+    .where(eq(setupSheets.teamId, teamId))
+    .groupBy(setupSheets.carId)
+    .as("setup_count");
+}
+
 /** The team's cars that are not archived (an archived car stays only for the sessions that used it). */
 export async function listCars(teamId: string, query: CarListQuery = {}) {
   const filters = [eq(cars.teamId, teamId), isNull(cars.archivedAt)];
@@ -48,12 +61,7 @@ export async function listCars(teamId: string, query: CarListQuery = {}) {
   if (query.category) filters.push(eq(cars.category, query.category));
   const column = SORT_COLUMN[query.sort ?? "name"];
   const order = query.dir === "desc" ? desc(column) : asc(column);
-  const setupCount = db
-    .select({ carId: setupSheets.carId, sheets: count().as("sheets") })
-    .from(setupSheets)
-    .where(eq(setupSheets.teamId, teamId))
-    .groupBy(setupSheets.carId)
-    .as("setup_count");
+  const setupCount = setupSheetCounts(teamId);
   return db
     .select({
       id: cars.id,
