@@ -16,6 +16,17 @@ const axis = (label: string): uPlot.Axis => ({ label, stroke: GREY, grid: { stro
 
 export type BriefData = { sessionName: string; sessionDate: string | null; teamName: string; note: string | null; expiresAt: string; summary: SessionSummary };
 
+/** The engineer's note for the driver, when there is one (every kind of Driver brief shows it). */
+export function EngineerNote({ note }: { note: string | null }) {
+  if (!note) return null;
+  return (
+    <section className="rounded border border-rule bg-panel px-4 py-3">
+      <h2 className="mb-1 text-sm font-semibold">From your engineer</h2>
+      <p className="whitespace-pre-line">{note}</p>
+    </section>
+  );
+}
+
 export function BriefView({ brief }: { brief: BriefData }) {
   const s = brief.summary;
   const { headline, speed } = briefHeadline(s);
@@ -45,12 +56,7 @@ export function BriefView({ brief }: { brief: BriefData }) {
         <h1 className="text-2xl font-semibold" data-testid="brief-headline">{headline}</h1>
         {speed && <p className="text-sm text-ink-soft">Read from the fastest speed band with a balance: {speed}.</p>}
       </header>
-      {brief.note && (
-        <section className="rounded border border-rule bg-panel px-4 py-3">
-          <h2 className="mb-1 text-sm font-semibold">From your engineer</h2>
-          <p className="whitespace-pre-line">{brief.note}</p>
-        </section>
-      )}
+      <EngineerNote note={brief.note} />
       <section className="rounded border border-rule bg-panel px-4 py-3">
         <UPlotChart
           title="Balance against speed (% of the aero load on the front axle, 95 % whiskers)"

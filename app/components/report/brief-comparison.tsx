@@ -15,6 +15,7 @@ import { fmt } from "~/lib/report/format";
 import { briefHeadline } from "~/lib/brief-words";
 import { SESSION_COLOURS } from "./compare-chart";
 import { ScrollRegion } from "./accessible";
+import { EngineerNote } from "~/components/brief/brief-view";
 
 export type ComparisonBriefData = {
   comparisonName: string;
@@ -52,12 +53,7 @@ export function ComparisonBriefView({ brief }: { brief: ComparisonBriefData }) {
         <p className="text-sm text-ink-soft">Driver brief from {brief.teamName} · a comparison of {brief.sessions.length} sessions</p>
         <h1 className="text-2xl font-semibold" data-testid="brief-comparison-name">{brief.comparisonName}</h1>
       </header>
-      {brief.note && (
-        <section className="rounded border border-rule bg-panel px-4 py-3">
-          <h2 className="mb-1 text-sm font-semibold">From your engineer</h2>
-          <p className="whitespace-pre-line">{brief.note}</p>
-        </section>
-      )}
+      <EngineerNote note={brief.note} />
       <section className="rounded border border-rule bg-panel px-4 py-3">
         <h2 className="mb-2 text-sm font-semibold">How each session balances at speed</h2>
         <ol className="space-y-2" data-testid="brief-headlines">
