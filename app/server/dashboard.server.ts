@@ -2,11 +2,11 @@
  * What the team dashboard reads on every render, as prepared statements (built once, not per request:
  * Drizzle's query building costs more CPU than the round trip itself; `npm run bench:render`).
  */
-import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
+import { asc, desc, eq, sql } from "drizzle-orm";
 import { member, organization } from "../db/schema/auth";
 import { cars } from "../db/schema/garage";
 import { db } from "./db.server";
-import { setupSheetCounts } from "./garage-cars.server";
+import { liveCarsQuery } from "./garage-cars.server";
 
 function prepareCounts() {
   const teamId = sql.placeholder("teamId");
@@ -21,21 +21,7 @@ function prepareCounts() {
 }
 
 function prepareRecentCars() {
-  const setupCount = setupSheetCounts(sql.placeholder("teamId"));
-  return db
-    .select({
-      id: cars.id,
-      name: cars.name,
-      category: cars.category,
-      massKg: cars.massKg,
-      setupSheets: sql<number>`coalesce(${setupCount.sheets}, 0)`.mapWith(Number),
-    })
-    .from(cars)
-    .leftJoin(setupCount, eq(setupCount.carId, cars.id))
-    .where(and(eq(cars.teamId, sql.placeholder("teamId")), isNull(cars.archivedAt)))
-    .orderBy(desc(cars.updatedAt), asc(cars.id))
-    .limit(5)
-    .prepare();
+  return liveCarsQuery(sql.placeholder("teamId")).orderBy(desc(cars.updatedAt), asc(cars.id)).limit(5).prepare();
 }
 
 let counts: ReturnType<typeof prepareCounts> | undefined;

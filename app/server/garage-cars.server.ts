@@ -4,7 +4,7 @@
 import { randomUUID } from "node:crypto";
 import { data } from "react-router";
 import { z } from "zod";
-import { and, asc, count, desc, eq, isNull, like, or, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, isNull, like, or, sql, type SQL } from "drizzle-orm";
 import { cars, setupSheets, setups, type Car, type NewCar } from "../db/schema/garage";
 import { user } from "../db/schema/auth";
 import { summariseCornerWeights } from "../lib/garage/corner-weights";
@@ -38,30 +38,19 @@ const SORT_COLUMN = {
   updated: cars.updatedAt,
 } as const;
 
+type TeamKey = string | ReturnType<typeof sql.placeholder>;
+
 /**
- * Each car's setup-sheet count in the team, as a subquery to left-join on `carId` (the Garage list and
- * the dashboard's prepared query); `teamId` may be a placeholder.
+ * The team's live cars with their setup-sheet counts, filtered by `extra` and not yet ordered: the Garage
+ * list and the dashboard's prepared query (where `teamId` is a placeholder) share it.
  */
-export function setupSheetCounts(teamId: string | ReturnType<typeof sql.placeholder>) {
-  return db
+export function liveCarsQuery(teamId: TeamKey, extra: SQL[] = []) {
+  const setupCount = db
     .select({ carId: setupSheets.carId, sheets: count().as("sheets") })
     .from(setupSheets)
     .where(eq(setupSheets.teamId, teamId))
     .groupBy(setupSheets.carId)
     .as("setup_count");
-}
-
-/** The team's cars that are not archived (an archived car stays only for the sessions that used it). */
-export async function listCars(teamId: string, query: CarListQuery = {}) {
-  const filters = [eq(cars.teamId, teamId), isNull(cars.archivedAt)];
-  if (query.q) {
-    const pattern = `%${query.q.replace(/[\\%_]/g, (c) => "\\" + c)}%`;
-    filters.push(or(like(cars.name, pattern), like(cars.category, pattern))!);
-  }
-  if (query.category) filters.push(eq(cars.category, query.category));
-  const column = SORT_COLUMN[query.sort ?? "name"];
-  const order = query.dir === "desc" ? desc(column) : asc(column);
-  const setupCount = setupSheetCounts(teamId);
   return db
     .select({
       id: cars.id,
@@ -75,8 +64,20 @@ export async function listCars(teamId: string, query: CarListQuery = {}) {
     })
     .from(cars)
     .leftJoin(setupCount, eq(setupCount.carId, cars.id))
-    .where(and(...filters))
-    .orderBy(order, asc(cars.id));
+    .where(and(eq(cars.teamId, teamId), isNull(cars.archivedAt), ...extra));
+}
+
+/** The team's cars that are not archived (an archived car stays only for the sessions that used it). */
+export async function listCars(teamId: string, query: CarListQuery = {}) {
+  const filters: SQL[] = [];
+  if (query.q) {
+    const pattern = `%${query.q.replace(/[\\%_]/g, (c) => "\\" + c)}%`;
+    filters.push(or(like(cars.name, pattern), like(cars.category, pattern))!);
+  }
+  if (query.category) filters.push(eq(cars.category, query.category));
+  const column = SORT_COLUMN[query.sort ?? "name"];
+  const order = query.dir === "desc" ? desc(column) : asc(column);
+  return liveCarsQuery(teamId, filters).orderBy(order, asc(cars.id));
 }
 
 export async function listCategories(teamId: string): Promise<string[]> {
