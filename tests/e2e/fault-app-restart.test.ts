@@ -16,6 +16,7 @@ import { createApiToken } from "~/server/api-tokens.server";
 import { db, pool } from "~/server/db.server";
 import { storage } from "~/server/storage.server";
 import { ingestWorld } from "../server/ingest-support";
+import { sleep } from "../server/helpers/wait";
 
 const offset = Number(process.env.RAKELINE_TEST_PORT_OFFSET || 0);
 // Clear of the served test app (3100+), the S3 fake (3600+), worker health (3700+) and the fault database (3900+).
@@ -28,7 +29,6 @@ let token = "";
 let server: ChildProcess | null = null;
 let serverLog = "";
 
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 async function startServer(): Promise<void> {
   const child = spawn(process.execPath, [path.join("scripts", "serve.mjs")], {

@@ -11,22 +11,12 @@ import { PassThrough, Readable } from "node:stream";
 import { afterAll, describe, expect, it } from "vitest";
 import { startJobLoop } from "~/server/ingest/job-loop.server";
 import { createStorage, storage } from "~/server/storage.server";
+import { sleep, until } from "./helpers/wait";
 
 const dirs: string[] = [];
 afterAll(() => {
   for (const dir of dirs) rmSync(dir, { recursive: true, force: true });
 });
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-async function until<T>(what: string, probe: () => T | null | undefined | false, timeoutMs = 20_000): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const value = probe();
-    if (value) return value;
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await sleep(50);
-  }
-}
 
 const storageModule = path.resolve("app/server/storage.server.ts");
 
@@ -39,7 +29,7 @@ async function writerKilledMidStream(dir: string): Promise<string> {
     await store.putStream(endless(), { keyPrefix: "teams/t1" });`;
   const child = spawn(process.execPath, ["--import", "tsx", "--input-type=module", "-e", script], { stdio: "ignore" });
   const parts = path.join(dir, ".partial");
-  const name = await until("the child's part file", () => existsSync(parts) && readdirSync(parts)[0]);
+  const name = await until("the child's part file", () => existsSync(parts) && readdirSync(parts)[0], 20_000);
   await sleep(300);
   child.kill("SIGKILL");
   await new Promise((r) => child.once("exit", r));
@@ -61,7 +51,7 @@ describe("fault: a process killed while storing an upload", () => {
     const live = new PassThrough();
     const storing = store.putStream(live, { keyPrefix: "teams/t1" });
     live.write("time,speed\n");
-    await until("the live part file", () => readdirSync(path.join(dir, ".partial")).length === 2);
+    await until("the live part file", () => readdirSync(path.join(dir, ".partial")).length === 2, 20_000);
 
     const fresh = await store.sweepLeftovers({ partialOlderThanMs: 60_000, spoolOlderThanMs: 60_000 });
     expect(fresh.partial).toEqual([]);
@@ -94,7 +84,7 @@ describe("fault: a process killed while storing an upload", () => {
     const lines: string[] = [];
     const loop = startJobLoop({ label: "sweep-test", pollMs: 100, log: (l) => lines.push(l), analyseFile: async () => { throw new Error("no job expected"); } });
     try {
-      await until("the part file swept", () => !existsSync(orphan));
+      await until("the part file swept", () => !existsSync(orphan), 20_000);
     } finally {
       await loop.stop(5_000);
     }

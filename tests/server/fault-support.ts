@@ -18,17 +18,9 @@ export const faultInstance: MariaDBInstance = {
   passwordFile: path.join(dataDir, "test-fault-db-password"),
 };
 
-export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+import { until } from "./helpers/wait";
 
-export async function until<T>(what: string, probe: () => Promise<T | null | undefined | false> | T | null | undefined | false, timeoutMs = 30_000, everyMs = 50): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const value = await probe();
-    if (value) return value;
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await sleep(everyMs);
-  }
-}
+export { sleep, until } from "./helpers/wait";
 
 export type PrivateDb = {
   url: string;

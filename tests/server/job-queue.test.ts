@@ -15,6 +15,7 @@ import { claimJob, completeJob, enqueueJob, failJob, heartbeat } from "~/server/
 import { storeSessionOfRecord } from "~/server/ingest/store.server";
 import { putStream } from "~/server/storage.server";
 import { browserSummary, ingestWorld, LOGS, mapOf } from "./ingest-support";
+import { sleep, until } from "./helpers/wait";
 
 let w: Awaited<ReturnType<typeof ingestWorld>>;
 const workers: ChildProcess[] = [];
@@ -24,18 +25,6 @@ beforeAll(async () => {
 afterAll(async () => {
   for (const child of workers) if (child.exitCode === null) child.kill("SIGKILL");
 });
-
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-
-async function until<T>(what: string, probe: () => Promise<T | null | undefined | false>, timeoutMs = 60_000, everyMs = 50): Promise<T> {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const value = await probe();
-    if (value) return value;
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await sleep(everyMs);
-  }
-}
 
 function startWorker(label: string, env: Record<string, string> = {}): ChildProcess {
   const child = spawn(process.execPath, ["--import", "tsx", "scripts/job-worker.ts"], {
@@ -135,7 +124,7 @@ describe("job worker processes", () => {
     const done = await until("every re-check", async () => {
       const rows = await db.select().from(jobs).where(inArray(jobs.sessionId, ids));
       return rows.length === ids.length && rows.every((r) => r.status === "done") && rows;
-    });
+    }, 60_000);
     expect(done.map((r) => r.attempts)).toEqual(ids.map(() => 1));
     for (const id of ids) {
       const results = await db.select().from(sessionResults).where(and(eq(sessionResults.sessionId, id), eq(sessionResults.origin, "server")));
@@ -156,7 +145,7 @@ describe("job worker processes", () => {
     await until("the first worker to claim the job", async () => {
       const job = await jobOf(id);
       return job.status === "running" && job.leaseOwner?.startsWith("doomed@") && job;
-    });
+    }, 60_000);
     // The second worker starts now: the job is leased, so it waits for the lease to run out.
     const rescuer = startWorker("rescuer");
     // The first has the engine's result and waits on the row lock inside its write.
@@ -169,7 +158,7 @@ describe("job worker processes", () => {
     const job = await until("the job done by another worker", async () => {
       const row = await jobOf(id);
       return row.status === "done" && row;
-    });
+    }, 60_000);
     expect(job.attempts).toBe(2);
     expect(job.leaseOwner?.startsWith("rescuer@")).toBe(true);
     expect(await db.select().from(sessionResults).where(and(eq(sessionResults.sessionId, id), eq(sessionResults.origin, "server")))).toHaveLength(1);
