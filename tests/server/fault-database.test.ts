@@ -10,7 +10,8 @@ import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import type mysql from "mysql2/promise";
 import { afterAll, afterEach, beforeAll, describe, expect, it } from "vitest";
-import { startPrivateDatabase, waitForBlockedQuery, type PrivateDb } from "./fault-support";
+import { engineVersionOf } from "~/lib/engine-version";
+import { startPrivateDatabase, until, waitForBlockedQuery, type PrivateDb } from "./fault-support";
 
 type App = {
   db: typeof import("~/server/db.server");
@@ -120,6 +121,23 @@ async function blockedOrAnswered(watch: mysql.Connection, pending: Promise<{ sta
   }
 }
 
+/**
+ * Runs `post` until it waits at its last statement (the audit insert, held by a table lock), counts the
+ * team's sessions as that uncommitted transaction sees them, then kills MariaDB: where it waited, that
+ * count, and the answer the request gives.
+ */
+async function killWhileHeld<T extends { status: number; body: unknown }>(post: () => Promise<T>, teamId: string) {
+  const holder = await lockAudit();
+  const watch = await pdb.connect();
+  watch.on("error", () => undefined);
+  cleanups.push(() => holder.end(), () => watch.end());
+  const pending = post();
+  const waiting = await blockedOrAnswered(watch, pending, holder);
+  const inFlight = await inFlightSessions(watch, teamId);
+  await pdb.kill();
+  return { waiting, inFlight, during: await pending };
+}
+
 const LOG = "marlin-kestrel-comma";
 
 describe("fault: MariaDB stopped in the middle of an ingest", () => {
@@ -139,22 +157,14 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
       uploadId,
       details: { carId: w.cars["marlin-sr2"].carId, setupId: w.cars["marlin-sr2"].setupId, date: "2026-05-16", venueId, run: "Run 4" },
       map: support.mapOf(LOG),
-      browser: { summary: rest, traces, engineVersion: `summary-v${summary.summary_version}` },
+      browser: { summary: rest, traces, engineVersion: engineVersionOf(summary) },
     };
     const post = () => auth.outcome(() => app.teamSessionsRoute.action(auth.args(support.jsonPost(`/api/t/${w.slug}/sessions`, body, w.jar), { teamSlug: w.slug }) as never));
     const before = await stored(w.teamId);
     expect(before.uploads).toEqual([{ id: uploadId, status: "stored", key: expect.any(String) }]);
 
-    const holder = await lockAudit();
-    const watch = await pdb.connect();
-    watch.on("error", () => undefined);
-    cleanups.push(() => holder.end(), () => watch.end());
-    const pending = post();
-    const waiting = await blockedOrAnswered(watch, pending, holder);
-    const inFlight = await inFlightSessions(watch, w.teamId);
+    const { waiting, inFlight, during } = await killWhileHeld(post, w.teamId);
     expect(inFlight).toBe(1);
-    await pdb.kill();
-    const during = await pending;
     expect(during.status).toBe(503);
     expect((during.body as { error: string }).error).toMatch(/database is not answering, so nothing was stored/);
     // Sent again while the database is still down: the same clear answer.
@@ -187,23 +197,17 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     const before = { files: teamFiles(w.teamId).length, parts: parts().length, uploads: (await stored(w.teamId)).uploads.length };
     // A client sending the file slowly: the first half now, the rest once the database is gone.
     const boundary = "----fault";
-    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="vesper-coldwater-comma.csv"\r\nContent-Type: text/csv\r\n\r\n`);
-    const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
     let controller!: ReadableStreamDefaultController<Uint8Array>;
     const body = new ReadableStream<Uint8Array>({ start: (c) => void (controller = c) });
-    controller.enqueue(new Uint8Array(Buffer.concat([head, bytes.subarray(0, bytes.length >> 1)])));
-    const request = new Request(`${auth.appUrl}/api/t/${w.slug}/uploads`, {
-      method: "POST",
-      headers: { origin: auth.appUrl, cookie: w.jar.header(), "content-type": `multipart/form-data; boundary=${boundary}` },
-      body,
-      duplex: "half",
-    } as RequestInit);
+    controller.enqueue(support.multipartFileHead(boundary, "vesper-coldwater-comma.csv"));
+    controller.enqueue(new Uint8Array(bytes.subarray(0, bytes.length >> 1)));
+    const request = support.streamedUploadRequest(w.slug, w.jar, boundary, body);
     const pending = auth.outcome(() => app.uploadsRoute.action(auth.args(request, { teamSlug: w.slug }) as never));
     // Signed in and streaming into storage: its part file is there.
-    await (await import("./fault-support")).until("the upload's part file", () => parts().length > before.parts, 20_000);
+    await until("the upload's part file", () => parts().length > before.parts, 20_000);
     await pdb.kill();
     controller.enqueue(new Uint8Array(bytes.subarray(bytes.length >> 1)));
-    controller.enqueue(new Uint8Array(tail));
+    controller.enqueue(support.multipartTail(boundary));
     controller.close();
     const during = await pending;
     expect(during.status).toBe(503);
@@ -236,16 +240,8 @@ describe("fault: MariaDB stopped in the middle of an ingest", () => {
     const before = await stored(w.teamId);
     const filesBefore = teamFiles(w.teamId).length;
 
-    const holder = await lockAudit();
-    const watch = await pdb.connect();
-    watch.on("error", () => undefined);
-    cleanups.push(() => holder.end(), () => watch.end());
-    const pending = post();
-    const waiting = await blockedOrAnswered(watch, pending, holder);
-    const inFlight = await inFlightSessions(watch, w.teamId);
+    const { waiting, inFlight, during } = await killWhileHeld(post, w.teamId);
     expect(inFlight).toBe(before.sessions + 1);
-    await pdb.kill();
-    const during = await pending;
     expect(during.status).toBe(503);
     expect((during.body as { error: string }).error).toMatch(/database is not answering, so no session was stored. Send the same request again/);
     // The file this request stored is kept (its row is committed; removing it needs the database).

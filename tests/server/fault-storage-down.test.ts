@@ -34,8 +34,8 @@ const { db, pool } = await import("~/server/db.server");
 const { rawUploads } = await import("~/db/schema/sessions");
 const { storage } = await import("~/server/storage.server");
 const uploadsRoute = await import("~/routes/api/uploads");
-const { appUrl, args, outcome } = await import("./auth-support");
-const { ingestWorld, LOGS, uploadRequest } = await import("./ingest-support");
+const { args, outcome } = await import("./auth-support");
+const { ingestWorld, LOGS, multipartFileHead, multipartTail, streamedUploadRequest, uploadRequest } = await import("./ingest-support");
 type Fake = { run(): Promise<unknown>; close(): Promise<void> };
 // s3rver ships no type declarations: its constructor and the two methods used here.
 const s3rverModule: string = "s3rver";
@@ -75,21 +75,16 @@ describe("fault: the upload store stops answering", () => {
     expect(storage().kind).toBe("s3");
     // A client sending the file in two halves: the store is shut down between them.
     const boundary = "----s3down";
-    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${LOG}.csv"\r\nContent-Type: text/csv\r\n\r\n`);
     let controller!: ReadableStreamDefaultController<Uint8Array>;
     const body = new ReadableStream<Uint8Array>({ start: (c) => void (controller = c) });
-    controller.enqueue(new Uint8Array(Buffer.concat([head, bytes.subarray(0, bytes.length >> 1)])));
-    const request = new Request(`${appUrl}/api/t/${w.slug}/uploads`, {
-      method: "POST",
-      headers: { origin: appUrl, cookie: w.jar.header(), "content-type": `multipart/form-data; boundary=${boundary}` },
-      body,
-      duplex: "half",
-    } as RequestInit);
+    controller.enqueue(multipartFileHead(boundary, `${LOG}.csv`));
+    controller.enqueue(new Uint8Array(bytes.subarray(0, bytes.length >> 1)));
+    const request = streamedUploadRequest(w.slug, w.jar, boundary, body);
     const pending = outcome(() => uploadsRoute.action(args(request, { teamSlug: w.slug }) as never));
     await new Promise((r) => setTimeout(r, 300));
     await fake!.close();
     controller.enqueue(new Uint8Array(bytes.subarray(bytes.length >> 1)));
-    controller.enqueue(new Uint8Array(Buffer.from(`\r\n--${boundary}--\r\n`)));
+    controller.enqueue(multipartTail(boundary));
     controller.close();
     const during = await pending;
     expect(during.status).toBe(503);

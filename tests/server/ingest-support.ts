@@ -56,6 +56,26 @@ export function uploadRequest(slug: string, jar: CookieJar | null, fileName: str
   return new Request(`${appUrl}/api/t/${slug}/uploads`, { method: "POST", headers, body: form });
 }
 
+/** The opening of a multipart form's one part "file" (Uppy's field name), before the file's bytes. */
+export function multipartFileHead(boundary: string, fileName: string): Uint8Array {
+  return new Uint8Array(Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${fileName}"\r\nContent-Type: text/csv\r\n\r\n`));
+}
+
+/** The end of that form, after the file's bytes. */
+export function multipartTail(boundary: string): Uint8Array {
+  return new Uint8Array(Buffer.from(`\r\n--${boundary}--\r\n`));
+}
+
+/** An upload to the team's upload route whose multipart body the test streams itself (a slow or vanishing client). */
+export function streamedUploadRequest(slug: string, jar: CookieJar, boundary: string, body: ReadableStream<Uint8Array>): Request {
+  return new Request(`${appUrl}/api/t/${slug}/uploads`, {
+    method: "POST",
+    headers: { origin: appUrl, cookie: jar.header(), "content-type": `multipart/form-data; boundary=${boundary}` },
+    body,
+    duplex: "half",
+  } as RequestInit);
+}
+
 export function jsonPost(path: string, body: unknown, jar: CookieJar): Request {
   return new Request(`${appUrl}${path}`, {
     method: "POST",

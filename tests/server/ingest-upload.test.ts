@@ -16,7 +16,7 @@ import * as uploadsRoute from "~/routes/api/uploads";
 import * as sessionsRoute from "~/routes/api/team-sessions";
 import * as profilesRoute from "~/routes/api/logger-profiles";
 import { appUrl, args, getRequest, outcome } from "./auth-support";
-import { browserSummary, ingestWorld, jsonPost, LOGS, mapOf, uploadRequest } from "./ingest-support";
+import { browserSummary, ingestWorld, jsonPost, LOGS, mapOf, multipartFileHead, streamedUploadRequest, uploadRequest } from "./ingest-support";
 
 let w: Awaited<ReturnType<typeof ingestWorld>>;
 beforeAll(async () => {
@@ -153,22 +153,17 @@ describe("bad input never loses data and leaves nothing half-done", () => {
   it("an upload cut off midway leaves no row and no visible file", async () => {
     const before = { rows: (await uploadsOf()).length, files: teamFiles().length };
     const boundary = "----cut";
-    const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.csv"\r\nContent-Type: text/csv\r\n\r\n`);
+    const head = multipartFileHead(boundary, "cut.csv");
     let sent = 0;
     const body = new ReadableStream<Uint8Array>({
       pull(controller) {
-        if (sent === 0) controller.enqueue(new Uint8Array(head));
+        if (sent === 0) controller.enqueue(head);
         if (sent > 400_000) return controller.error(new Error("the client went away"));
         controller.enqueue(new Uint8Array(logBytes.subarray(sent, sent + 100_000)));
         sent += 100_000;
       },
     });
-    const request = new Request(`${appUrl}/api/t/${w.slug}/uploads`, {
-      method: "POST",
-      headers: { origin: appUrl, cookie: w.jar.header(), "content-type": `multipart/form-data; boundary=${boundary}` },
-      body,
-      duplex: "half",
-    } as RequestInit);
+    const request = streamedUploadRequest(w.slug, w.jar, boundary, body);
     const res = await outcome(() => uploadsRoute.action(args(request, { teamSlug: w.slug })));
     expect(res.status).toBe(400);
     expect((res.body as { error: string }).error).toMatch(/interrupted/);
