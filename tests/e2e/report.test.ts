@@ -6,6 +6,7 @@ import { DEMO_PASSWORD, seedUsers } from "~/server/seed/users.server";
 import { seedGarage } from "~/server/seed/garage.server";
 import { baseURL, openBrowser, type OpenBrowser } from "./helpers/browser";
 import { demoMarlin, storeDemoSession } from "../server/report-support";
+import { REANALYSIS_QUEUED_DETAIL } from "~/lib/sessions/status-words";
 
 const SHOTS = ".data/screenshots";
 
@@ -162,7 +163,7 @@ describe("Balance report in the browser", () => {
     await page.getByTestId("job-state").waitFor();
     expect(await page.getByTestId("job-state").innerText()).toMatch(/Re-analysis (queued|running) since/);
     // The job's state is said once: the processing panel does not repeat the queued detail beside the box.
-    expect(await page.getByText("Re-analysis queued: the server will read the stored file again.").count()).toBe(0);
+    expect(await page.getByText(REANALYSIS_QUEUED_DETAIL).count()).toBe(0);
     expect(await page.getByRole("button", { name: "Queued" }).isDisabled()).toBe(true);
     // A note: added, edited, deleted, all without a reload.
     await page.fill('input[name="body"]', "Understeer in the long right-hander");

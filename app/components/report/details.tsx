@@ -1,5 +1,6 @@
 import type { SessionHead } from "~/server/report/session.server";
 import { fmt } from "~/lib/report/format";
+import { REANALYSIS_QUEUED_DETAIL } from "~/lib/sessions/status-words";
 
 const STATE_WORDS: Record<string, string> = {
   received: "Received: the log is stored and waits to be read.",
@@ -37,7 +38,7 @@ export function ProcessingState({ head, compact, jobShown }: { head: SessionHead
   return (
     <div className="space-y-2 text-sm">
       <p>{STATE_WORDS[head.status]}</p>
-      {head.statusDetail && !(jobShown && /queued/i.test(head.statusDetail)) && <p className="text-ink-soft">{head.statusDetail}</p>}
+      {head.statusDetail && !(jobShown && head.statusDetail === REANALYSIS_QUEUED_DETAIL) && <p className="text-ink-soft">{head.statusDetail}</p>}
       {head.checkedAt && <p className="text-ink-soft">Server re-check: {new Date(head.checkedAt).toISOString().slice(0, 16).replace("T", " ")} UTC{lines.length === 0 ? ", no figure differs beyond rounding." : ":"}</p>}
       {lines.length > 0 && (
         <ul className="num list-disc pl-5 text-xs">

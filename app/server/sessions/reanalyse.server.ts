@@ -9,6 +9,7 @@ import { z } from "zod";
 import { jobs } from "~/db/schema/jobs";
 import { setups } from "~/db/schema/garage";
 import { analysisSessions } from "~/db/schema/sessions";
+import { REANALYSIS_QUEUED_DETAIL } from "~/lib/sessions/status-words";
 import { recordAudit } from "../audit.server";
 import { db } from "../db.server";
 import { enqueueReanalysis } from "../ingest/recheck.server";
@@ -41,7 +42,7 @@ export async function requestReanalysis(teamId: string, userId: string, sessionI
       .limit(1);
     await tx
       .update(analysisSessions)
-      .set({ setupId, statusDetail: "Re-analysis queued: the server will read the stored file again.", updatedAt: new Date() })
+      .set({ setupId, statusDetail: REANALYSIS_QUEUED_DETAIL, updatedAt: new Date() })
       .where(eq(analysisSessions.id, session.id));
     const jobId = open ? open.id : await enqueueReanalysis(tx, session, userId);
     if (open) {
